@@ -1,0 +1,135 @@
+"""Units at the edges: pint parses register cells and rule values once, to SI magnitudes.
+
+The engine never sees pint.  Two kinds of quantity need care:
+
+* a temperature *level* (``300 F``, ``65 degC``) converts with its offset, to kelvin;
+* a temperature inside a compound unit (``Btu*in/(h*ft**2*degF)``) is a *difference*,
+  so ``degF`` there means a Rankine-sized step.  pint does this itself for
+  multiplicative units; :func:`parse_quantity` relies on that.
+
+Every distinct text is parsed once (``functools.lru_cache``): a register repeats a few
+hundred strings across 100,000 rows.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+import tokenize
+from functools import lru_cache
+
+import pint
+
+from audit.errors import LagauditError
+
+ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+ureg.define("percent = 0.01 = pct")
+
+_SYMBOLS = (
+    ("°C", " degC"), ("°F", " degF"), ("°K", " K"), ("º", "°"), ("″", " in"), ('"', " in"),
+    ("’’", " in"), ("''", " in"), ("℃", " degC"), ("℉", " degF"), ("²", "**2"), ("³", "**3"),
+)
+# Bare letters that mean a temperature scale in a register cell ("300 F", "150C").
+_TEMPERATURE_WORDS = {"c": "degC", "f": "degF", "k": "K", "r": "degR", "degc": "degC",
+                      "degf": "degF", "celsius": "degC", "fahrenheit": "degF", "kelvin": "K",
+                      "degk": "K", "degr": "degR", "rankine": "degR"}
+_NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
+
+
+class UnitParseError(LagauditError):
+    """A value that is not a number with a unit of the expected kind."""
+
+
+def _normalise(text: str) -> str:
+    for symbol, word in _SYMBOLS:
+        text = text.replace(symbol, word)
+    return text.strip()
+
+
+@lru_cache(maxsize=8192)
+def _unit(unit_text: str) -> pint.Unit:
+    return ureg.parse_units(unit_text)
+
+
+@lru_cache(maxsize=65536)
+def _parse_cached(text: str, default_unit: str, target_unit: str, temperature: bool) -> float:
+    norm = _normalise(text)
+    match = _NUMBER_UNIT.match(norm)
+    if match:
+        number, unit_text = float(match.group(1)), match.group(2)
+        if temperature and unit_text.lower().replace(" ", "") in _TEMPERATURE_WORDS:
+            unit_text = _TEMPERATURE_WORDS[unit_text.lower().replace(" ", "")]
+        unit = _unit(unit_text or default_unit)
+        quantity = ureg.Quantity(number, unit)
+    else:
+        quantity = ureg.Quantity(norm)
+        if not isinstance(quantity, pint.Quantity):  # a bare number written as an expression
+            quantity = ureg.Quantity(float(quantity), _unit(default_unit))
+    return float(quantity.to(target_unit).magnitude)
+
+
+def parse_quantity(value, default_unit: str, target_unit: str, *, what: str = "value") -> float:
+    """Parse a number with an optional unit to a float magnitude in ``target_unit``.
+
+    Parameters
+    ----------
+    value : str, int or float
+        ``"2 in"``, ``"50"``, ``12.5``.  A bare number takes ``default_unit``.
+    default_unit : str
+        pint unit for bare numbers, e.g. ``"mm"``.
+    target_unit : str
+        pint unit of the result, e.g. ``"m"``.
+    what : str
+        Name of the quantity for the error message, e.g. ``"a length"``.
+
+    Raises
+    ------
+    UnitParseError
+        When the text is not a number with a unit of the target's dimension,
+        or the number is not finite.
+    """
+    temperature = ureg.parse_units(target_unit).dimensionality == ureg.kelvin.dimensionality \
+        and _is_offset(target_unit)
+    if isinstance(value, bool):
+        raise UnitParseError(f"{value!r} is not {what}", value=value,
+                             expected=f"a number with an optional unit ({default_unit} if none)")
+    if isinstance(value, (int, float)):
+        if not math.isfinite(value):
+            raise UnitParseError(f"{value!r} is not {what}", value=value,
+                                 expected="a finite number")
+        text = repr(float(value))
+    else:
+        text = str(value)
+    try:
+        result = _parse_cached(text, default_unit, target_unit, temperature)
+    except (pint.errors.PintError, ValueError, TypeError, AttributeError, AssertionError,
+            KeyError, SyntaxError, ZeroDivisionError, OverflowError, RecursionError,
+            IndexError, tokenize.TokenError) as exc:
+        raise UnitParseError(f"{text!r} is not {what}", value=value,
+                             expected=f"a number with an optional unit of "
+                                      f"{_describe(target_unit)} ({default_unit} if none)") from exc
+    if not math.isfinite(result):
+        raise UnitParseError(f"{text!r} is not {what}", value=value, expected="a finite number")
+    return result
+
+
+def parse_temperature(value, default_unit: str = "degC") -> float:
+    """Parse a temperature level (``"300 F"``, ``"65 degC"``, ``120``) to kelvin.
+
+    Bare numbers take ``default_unit``.  A lone ``C``/``F``/``K`` after the number is read
+    as the temperature scale, not as coulomb or farad.
+    """
+    kelvin = parse_quantity(value, default_unit, "kelvin", what="a temperature")
+    if kelvin < 0:
+        raise UnitParseError(f"{value!r} is below absolute zero", value=value,
+                             expected="a temperature above -273.15 degC")
+    return kelvin
+
+
+def _is_offset(target_unit: str) -> bool:
+    return ureg.parse_units(target_unit) in (ureg.kelvin, ureg.degC, ureg.degF, ureg.degR)
+
+
+def _describe(target_unit: str) -> str:
+    return str(ureg.parse_units(target_unit).dimensionality).replace("[", "").replace("]", "")
+
