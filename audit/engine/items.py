@@ -1,0 +1,477 @@
+"""Whole items (pipes, vessels, spheres, flat surfaces) from wall elements, for a register at once.
+
+An item is split into wall elements that the solver handles alike:
+
+* a pipe: its run, a cylinder per metre (horizontal, or vertical with its run as height);
+* a vessel: its shell, a cylinder per metre of tangent-to-tangent length, plus its two heads:
+  hemispherical heads are the two halves of one sphere of the vessel's radius; 2:1
+  ellipsoidal heads are solved as hemispheres of equal area
+  (:func:`~audit.engine.geometry.equivalent_hemisphere_radius_ellipsoidal_head`); flat heads
+  are plane walls (facing up and down on a vertical vessel, vertical on a horizontal one);
+* a sphere: one spherical wall;
+* a flat surface: a plane wall per square metre, vertical or facing up or down.
+
+Damaged insulation splits each element into its intact share and a bare share; missing
+insulation leaves only the bare share.  Uninsulated valves and flanges add bare pipe of the
+same size, as an equivalent length that the caller takes from a sourced table.  Heat rates
+add up over an item's elements; the item's surface temperature is that of its worst element
+(the farthest from the air temperature, on the side of the process).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from audit.engine import geometry, surface
+from audit.engine.conduction import ConductivityTables
+from audit.engine.geometry import CYLINDER, PLANE, SPHERE
+from audit.engine.solver import solve_walls
+
+# Item shapes.
+PIPE, VERTICAL_VESSEL, HORIZONTAL_VESSEL, SPHERE_ITEM, FLAT = range(5)
+SHAPE_CODES = {"pipe": PIPE, "vertical-vessel": VERTICAL_VESSEL,
+               "horizontal-vessel": HORIZONTAL_VESSEL, "sphere": SPHERE_ITEM, "flat": FLAT}
+# Vessel heads.
+HEMISPHERICAL, ELLIPSOIDAL, FLAT_HEADS, NO_HEADS = range(4)
+HEAD_CODES = {"hemispherical": HEMISPHERICAL, "ellipsoidal": ELLIPSOIDAL, "flat": FLAT_HEADS,
+              "none": NO_HEADS}
+# Orientation: pipes horizontal or vertical; flat surfaces vertical, facing up or down.
+HORIZONTAL, VERTICAL, FACING_UP, FACING_DOWN = range(4)
+ORIENTATION_CODES = {"horizontal": HORIZONTAL, "vertical": VERTICAL, "up": FACING_UP,
+                     "down": FACING_DOWN}
+
+# Element roles within an item.
+MAIN, HEAD, FITTING = range(3)
+
+
+@dataclass
+class ItemBatch:
+    """n items as numpy arrays in SI units; L is the most layers any item has.
+
+    Layers are packed innermost first; a slot with ``layer_table < 0`` holds no layer.
+    NaN in ``wall_thickness`` or ``inner_film`` means none (the hot face then sits at the
+    process temperature: conservative, common practice).
+    """
+
+    shape: np.ndarray              #: item shape code (SHAPE_CODES)
+    od: np.ndarray                 #: outside diameter of the metal [m]
+    length: np.ndarray             #: pipe run or vessel tangent length [m]
+    area: np.ndarray               #: flat surface area [m2]
+    heads: np.ndarray              #: vessel head code (HEAD_CODES)
+    orientation: np.ndarray        #: ORIENTATION_CODES
+    t_process: np.ndarray          #: process temperature [K]
+    t_air: np.ndarray              #: ambient air temperature [K]
+    t_surroundings: np.ndarray     #: radiant surroundings temperature [K]
+    wind: np.ndarray               #: wind speed [m/s]
+    emissivity: np.ndarray         #: outer surface emissivity of the insulated part [-]
+    bare_emissivity: np.ndarray    #: emissivity of the bare metal [-]
+    layer_table: np.ndarray        #: conductivity-table index per layer, (n, L)
+    layer_thickness: np.ndarray    #: [m], (n, L)
+    layer_factor: np.ndarray       #: conductivity multiplier per layer (wet insulation) [-], (n, L)
+    bare_fraction: np.ndarray      #: share of the surface without insulation [-]
+    fitting_length: np.ndarray     #: bare pipe equivalent of uninsulated fittings [m]
+    wall_thickness: np.ndarray = None    #: metal wall [m]
+    wall_conductivity: np.ndarray = None  #: metal wall [W/(m K)]
+    inner_film: np.ndarray = None  #: inside film coefficient [W/(m2 K)]
+    iso_ca: np.ndarray = None      #: simplified surface constant, horizontal pipes [W/(m2 K)]
+    iso_cb: np.ndarray = None      #: simplified surface constant, vertical surfaces [W/(m2 K)]
+    bare_iso_ca: np.ndarray = None  #: the same for bare metal [W/(m2 K)]
+    bare_iso_cb: np.ndarray = None  #: the same for bare metal [W/(m2 K)]
+
+    def __len__(self) -> int:
+        return len(self.shape)
+
+
+@dataclass
+class ItemStates:
+    """Per-item answers of :func:`solve_items`, numpy arrays in SI units."""
+
+    surface_temp: np.ndarray            #: worst element's outer surface [K]
+    surface_temp_insulated: np.ndarray  #: the insulated main element's surface [K] (NaN if bare)
+    interface_temps: np.ndarray         #: insulated main element, hot face ... surface [K], (n, L+1)
+    heat_loss: np.ndarray               #: whole item incl. damage and fittings [W]
+    heat_loss_per_m: np.ndarray         #: heat_loss over the run length (pipes, else NaN) [W/m]
+    heat_flux: np.ndarray               #: at the main element's outer surface [W/m2]
+    q_conv: np.ndarray                  #: convective part of heat_flux [W/m2]
+    q_rad: np.ndarray                   #: radiative part of heat_flux [W/m2] (0 if lumped)
+    outer_area: np.ndarray              #: outer surface of the whole item [m2]
+    convective_share: np.ndarray        #: share of heat_loss leaving by convection [-]
+    radiative_share: np.ndarray         #: share of heat_loss leaving by radiation [-]
+    converged: np.ndarray               #: bool
+    reason: np.ndarray                  #: why an item was not computed, else ""
+    warnings: np.ndarray                #: "; "-joined warnings, else ""
+    balance_error: np.ndarray = field(default=None)  #: worst element's relative heat-balance error
+
+
+def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
+                surface_model: str = "correlations") -> ItemStates:
+    """Heat loss and surface temperatures of every item of ``batch`` in one vectorised solve.
+
+    Parameters
+    ----------
+    batch : ItemBatch
+        The items, SI units.
+    tables : ConductivityTables
+        Conductivity tables that ``batch.layer_table`` indexes.
+    surface_model : str
+        Name of the outer-surface model, see
+        :func:`audit.engine.surface.available_surface_models`.
+
+    Returns
+    -------
+    ItemStates
+        Items with bad inputs carry a reason and NaN results; the rest of the batch is
+        computed regardless.
+    """
+    n = len(batch)
+    b = _complete(batch)
+    reasons = _invalid_reasons(b, tables)
+    ok = np.array([not r for r in reasons], bool)
+    elements = _build_elements(b, np.flatnonzero(ok))
+    solution = _solve_elements(elements, tables, surface_model)
+    return _aggregate(b, tables, elements, solution, reasons, n)
+
+
+# --------------------------------------------------------------------------------------
+# inputs
+
+def _complete(batch: ItemBatch) -> ItemBatch:
+    """Fill the optional arrays, so the rest never tests for None."""
+    n = len(batch)
+    nan = np.full(n, np.nan)
+    filled = {}
+    for name in ("wall_thickness", "wall_conductivity", "inner_film", "iso_ca", "iso_cb",
+                 "bare_iso_ca", "bare_iso_cb"):
+        value = getattr(batch, name)
+        filled[name] = nan if value is None else np.asarray(value, float)
+    arrays = {name: np.asarray(getattr(batch, name)) for name in batch.__dataclass_fields__
+              if name not in filled}
+    arrays["layer_table"] = np.atleast_2d(arrays["layer_table"]).astype(int).reshape(n, -1)
+    for name in ("layer_thickness", "layer_factor"):
+        arrays[name] = np.asarray(arrays[name], float).reshape(n, -1)
+    return ItemBatch(**arrays, **filled)
+
+
+def _invalid_reasons(b: ItemBatch, tables: ConductivityTables) -> list[str]:
+    """Per item, every input that makes it impossible to compute, as text ("" when fine)."""
+    n = len(b)
+    problems = [[] for _ in range(n)]
+
+    def flag(mask, text):
+        for i in np.flatnonzero(mask):
+            problems[i].append(text)
+
+    def bad(x):
+        return ~np.isfinite(np.asarray(x, float))
+
+    shape = b.shape
+    needs_od = shape != FLAT
+    flag(~np.isin(shape, list(SHAPE_CODES.values())), "unknown shape")
+    flag(needs_od & (bad(b.od) | ~(b.od > 0)), "outside diameter must be above zero")
+    flag(np.isin(shape, [PIPE, VERTICAL_VESSEL, HORIZONTAL_VESSEL]) & (bad(b.length) | ~(b.length > 0)),
+         "length must be above zero")
+    flag((shape == FLAT) & (bad(b.area) | ~(b.area > 0)), "area must be above zero")
+    for name, label in (("t_process", "process temperature"), ("t_air", "air temperature"),
+                        ("t_surroundings", "surroundings temperature")):
+        value = getattr(b, name)
+        flag(bad(value) | ~(value > 0) | ~(value < 5000.0),
+             f"{label} must be above absolute zero and below 5000 K")
+    flag(bad(b.wind) | ~(b.wind >= 0), "wind speed must be zero or more")
+    has_cover = (b.layer_table >= 0).any(axis=1) & (b.bare_fraction < 1)
+    flag(has_cover & (bad(b.emissivity) | ~((b.emissivity >= 0) & (b.emissivity <= 1))),
+         "emissivity must be between 0 and 1")
+    bare_part = (b.bare_fraction > 0) | ~(b.layer_table >= 0).any(axis=1) | (b.fitting_length > 0)
+    flag(bare_part & (bad(b.bare_emissivity) | ~((b.bare_emissivity >= 0) & (b.bare_emissivity <= 1))),
+         "bare-metal emissivity must be between 0 and 1")
+    present = b.layer_table >= 0
+    flag((b.layer_table >= len(tables)).any(axis=1), "unknown conductivity table")
+    thick = np.where(present, b.layer_thickness, 0.0)
+    flag((bad(thick) | (thick < 0)).any(axis=1), "layer thickness must be zero or more")
+    factor = np.where(present, b.layer_factor, 1.0)
+    flag((bad(factor) | (factor <= 0)).any(axis=1), "conductivity multiplier must be above zero")
+    flag(bad(b.bare_fraction) | (b.bare_fraction < 0) | (b.bare_fraction > 1),
+         "bare share must be between 0 and 1")
+    flag(bad(b.fitting_length) | (b.fitting_length < 0), "fitting length must be zero or more")
+    flag((b.fitting_length > 0) & (shape != PIPE), "uninsulated fittings are counted on pipes only")
+    wall = np.isfinite(b.wall_thickness)
+    flag(wall & ~((b.wall_thickness > 0) & (b.wall_thickness < b.od / 2) & (b.wall_conductivity > 0)),
+         "metal wall needs a thickness below the radius and a conductivity above zero")
+    flag(np.isfinite(b.inner_film) & ~(b.inner_film > 0), "inner film coefficient must be above zero")
+    return ["; ".join(p) for p in problems]
+
+
+# --------------------------------------------------------------------------------------
+# elements
+
+@dataclass
+class _Elements:
+    item: np.ndarray
+    role: np.ndarray
+    insulated: np.ndarray
+    weight: np.ndarray          # basis units per element: m, m2 or spheres
+    geometry: np.ndarray
+    kind: np.ndarray            # surface kind
+    r_metal: np.ndarray
+    length: np.ndarray          # characteristic length for surface correlations
+    layer_table: np.ndarray
+    layer_thickness: np.ndarray
+    layer_factor: np.ndarray
+    emissivity: np.ndarray
+    iso_ca: np.ndarray
+    iso_cb: np.ndarray
+
+
+def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
+    blocks = []
+    n_layers = b.layer_table.shape[1]
+    radius = b.od / 2.0
+    shape, orient = b.shape, b.orientation
+    insulatable = (b.layer_table >= 0).any(axis=1)
+
+    def add(idx, role, weight, geometry_code, kind, r_metal, length):
+        """Add an intact element and a bare one for each item in ``idx``, where they weigh > 0."""
+        if idx.size == 0:
+            return
+        share_bare = np.where(insulatable[idx], b.bare_fraction[idx], 1.0)
+        for insulated, share in ((True, 1.0 - share_bare), (False, share_bare)):
+            w = weight * share
+            keep = w > 0
+            blocks.append((idx[keep], role, insulated, w[keep], geometry_code, kind[keep],
+                           r_metal[keep], length[keep]))
+
+    def kinds(value, idx):
+        return np.full(idx.size, value)
+
+    pipes = items[shape[items] == PIPE]
+    vertical_pipe = orient[pipes] == VERTICAL
+    add(pipes, MAIN, b.length[pipes], CYLINDER,
+        np.where(vertical_pipe, surface.VERTICAL_CYLINDER, surface.HORIZONTAL_CYLINDER),
+        radius[pipes], b.length[pipes])
+
+    vessels = items[np.isin(shape[items], [VERTICAL_VESSEL, HORIZONTAL_VESSEL])]
+    upright = shape[vessels] == VERTICAL_VESSEL
+    add(vessels, MAIN, b.length[vessels], CYLINDER,
+        np.where(upright, surface.VERTICAL_CYLINDER, surface.HORIZONTAL_CYLINDER),
+        radius[vessels], b.length[vessels])
+    heads = b.heads[vessels]
+    domed = vessels[np.isin(heads, [HEMISPHERICAL, ELLIPSOIDAL])]
+    r_head = np.where(b.heads[domed] == HEMISPHERICAL, radius[domed],
+                      geometry.equivalent_hemisphere_radius_ellipsoidal_head(radius[domed]))
+    add(domed, HEAD, np.ones(domed.size), SPHERE, kinds(surface.SPHERE, domed), r_head,
+        2.0 * r_head)
+    flat_heads = vessels[heads == FLAT_HEADS]
+    disc = np.pi * radius[flat_heads] ** 2
+    up_right = shape[flat_heads] == VERTICAL_VESSEL
+    top, side = flat_heads[up_right], flat_heads[~up_right]
+    add(top, HEAD, disc[up_right], PLANE, kinds(surface.HORIZONTAL_PLATE_UP, top), radius[top],
+        radius[top] / 2.0)  # a disc's area over its perimeter
+    add(top, HEAD, disc[up_right], PLANE, kinds(surface.HORIZONTAL_PLATE_DOWN, top), radius[top],
+        radius[top] / 2.0)
+    add(side, HEAD, 2.0 * disc[~up_right], PLANE, kinds(surface.VERTICAL_PLATE, side),
+        radius[side], 2.0 * radius[side])
+
+    spheres = items[shape[items] == SPHERE_ITEM]
+    add(spheres, MAIN, np.ones(spheres.size), SPHERE, kinds(surface.SPHERE, spheres),
+        radius[spheres], b.od[spheres])
+
+    flats = items[shape[items] == FLAT]
+    side_length = np.sqrt(b.area[flats])
+    facing = orient[flats]
+    flat_kind = np.select([facing == FACING_UP, facing == FACING_DOWN],
+                          [surface.HORIZONTAL_PLATE_UP, surface.HORIZONTAL_PLATE_DOWN],
+                          surface.VERTICAL_PLATE)
+    # Height of a vertical wall and A/P of a horizontal one, taking the area as a square.
+    flat_length = np.where(flat_kind == surface.VERTICAL_PLATE, side_length, side_length / 4.0)
+    add(flats, MAIN, b.area[flats], PLANE, flat_kind, np.ones(flats.size), flat_length)
+
+    fitted = pipes[b.fitting_length[pipes] > 0]
+    if fitted.size:
+        kind = np.where(orient[fitted] == VERTICAL, surface.VERTICAL_CYLINDER,
+                        surface.HORIZONTAL_CYLINDER)
+        blocks.append((fitted, FITTING, False, b.fitting_length[fitted], CYLINDER, kind,
+                       radius[fitted], b.length[fitted]))
+
+    parts = {k: [] for k in ("item", "role", "insulated", "weight", "geometry", "kind",
+                             "r_metal", "length")}
+    for idx, role, insulated, weight, geometry_code, kind, r_metal, length in blocks:
+        m = idx.size
+        for key, value in (("item", idx), ("role", np.full(m, role)),
+                           ("insulated", np.full(m, insulated)), ("weight", weight),
+                           ("geometry", np.full(m, geometry_code)), ("kind", kind),
+                           ("r_metal", r_metal), ("length", length)):
+            parts[key].append(np.asarray(value))
+    cat = {k: (np.concatenate(v) if v else np.empty(0)) for k, v in parts.items()}
+    item = cat["item"].astype(int)
+    insulated = cat["insulated"].astype(bool)
+    table = np.where(insulated[:, None], b.layer_table[item], -1).reshape(item.size, n_layers)
+    return _Elements(
+        item=item, role=cat["role"].astype(int), insulated=insulated, weight=cat["weight"],
+        geometry=cat["geometry"].astype(int), kind=cat["kind"].astype(int),
+        r_metal=cat["r_metal"], length=cat["length"], layer_table=table,
+        layer_thickness=np.where(table >= 0, b.layer_thickness[item], 0.0).reshape(item.size, n_layers),
+        layer_factor=np.where(table >= 0, b.layer_factor[item], 1.0).reshape(item.size, n_layers),
+        emissivity=np.where(insulated, b.emissivity[item], b.bare_emissivity[item]),
+        iso_ca=np.where(insulated, b.iso_ca[item], b.bare_iso_ca[item]),
+        iso_cb=np.where(insulated, b.iso_cb[item], b.bare_iso_cb[item]),
+    )
+
+
+def _solve_elements(e: _Elements, tables: ConductivityTables, surface_model: str):
+    b_item = e.item
+    present = e.layer_table >= 0
+    thickness = np.where(present, e.layer_thickness, 0.0)
+    radii = e.r_metal[:, None] + np.concatenate(
+        [np.zeros((b_item.size, 1)), np.cumsum(thickness, axis=1)], axis=1)
+    if np.any(e.geometry == PLANE):
+        # Plane walls count their "radius" from the metal face.
+        radii = np.where((e.geometry == PLANE)[:, None], radii - e.r_metal[:, None], radii)
+    g = geometry.conductance_factor(e.geometry[:, None], radii[:, :-1], radii[:, 1:])
+    conductance = g * e.layer_factor
+    r_out = radii[:, -1]
+    outer_area = geometry.outer_area_factor(e.geometry, r_out)
+    return e, present, radii, conductance, outer_area, surface_model
+
+
+def _inner_resistance(b: ItemBatch, e: _Elements) -> np.ndarray:
+    """Inner film plus metal wall, per basis [K/W]; zero where neither is given."""
+    item = e.item
+    t_wall = b.wall_thickness[item]
+    k_wall = b.wall_conductivity[item]
+    h_in = b.inner_film[item]
+    has_wall = np.isfinite(t_wall)
+    r_out = np.where(e.geometry == PLANE, 0.0, e.r_metal)
+    r_in = np.where(has_wall, np.where(e.geometry == PLANE, 0.0, r_out - t_wall), r_out)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        g_wall = geometry.conductance_factor(e.geometry, np.where(e.geometry == PLANE, 0.0, r_in),
+                                             np.where(e.geometry == PLANE, t_wall, r_out))
+        wall = np.where(has_wall, 1.0 / (k_wall * g_wall), 0.0)
+        film_area = geometry.outer_area_factor(e.geometry, np.where(e.geometry == PLANE, 1.0, r_in))
+        film = np.where(np.isfinite(h_in), 1.0 / (h_in * film_area), 0.0)
+    return wall + film
+
+
+def _aggregate(b, tables, elements, prepared, reasons, n) -> ItemStates:
+    e, present, radii, conductance, outer_area, surface_model = prepared
+    item = e.item
+    t_process = b.t_process[item]
+    t_air = b.t_air[item]
+    t_sur = b.t_surroundings[item]
+    flux = surface.surface_flux_function(
+        surface_model, e.kind, 2.0 * radii[:, -1], e.length, b.wind[item], t_air, t_sur,
+        e.emissivity, iso_ca=e.iso_ca, iso_cb=e.iso_cb)
+    t_low = np.minimum(np.minimum(t_process, t_air), t_sur)
+    t_high = np.maximum(np.maximum(t_process, t_air), t_sur)
+    sol = solve_walls(t_process, t_low, t_high, conductance, np.where(present, e.layer_table, 0),
+                      present, tables, _inner_resistance(b, e), outer_area, flux)
+
+    n_layers = e.layer_table.shape[1]
+    weight = e.weight
+    heat = weight * sol.heat_rate
+    heat_loss = np.bincount(item, weights=heat, minlength=n)
+    area = np.bincount(item, weights=weight * outer_area, minlength=n)
+    conv = np.bincount(item, weights=weight * outer_area * sol.q_conv, minlength=n)
+    rad = np.bincount(item, weights=weight * outer_area * sol.q_rad, minlength=n)
+
+    # Worst element: farthest from the air on the process side.
+    side = np.sign(b.t_process - b.t_air)
+    excess = (sol.surface_temp - t_air) * side[item]
+    order = np.lexsort((excess, item))
+    last_of_item = np.r_[item[order][1:] != item[order][:-1], True]
+    worst = np.full(n, -1)
+    worst[item[order][last_of_item]] = order[last_of_item]
+
+    main_insulated = np.full(n, -1)
+    sel = np.flatnonzero((e.role == MAIN) & e.insulated)
+    main_insulated[item[sel]] = sel
+    main_any = main_insulated.copy()
+    sel_bare = np.flatnonzero((e.role == MAIN) & ~e.insulated)
+    fill = main_any[item[sel_bare]] < 0
+    main_any[item[sel_bare][fill]] = sel_bare[fill]
+
+    def pick(values, index, fill_value=np.nan):
+        out = np.full(n, fill_value, dtype=float)
+        has = index >= 0
+        out[has] = values[index[has]]
+        return out
+
+    interfaces = np.full((n, n_layers + 1), np.nan)
+    has = main_insulated >= 0
+    interfaces[has] = sol.interface_temps[main_insulated[has]]
+
+    element_ok = sol.converged
+    item_ok = np.bincount(item, weights=~element_ok, minlength=n) == 0
+    balance = np.full(n, np.nan)
+    np.fmax.at(balance, item, sol.balance_error)
+
+    reason = np.array(reasons, dtype=object)
+    failed = np.flatnonzero(~item_ok & (reason == ""))
+    for i in failed:
+        reason[i] = _failure_reason(i, e, sol, tables)
+    computed = (reason == "")
+    warnings = _warnings(n, e, sol, tables, present)
+
+    length = np.where(b.shape == PIPE, b.length, np.nan)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        per_m = heat_loss / length
+        conv_share = np.where(heat_loss != 0, conv / heat_loss, np.nan)
+        rad_share = np.where(heat_loss != 0, rad / heat_loss, np.nan)
+    if not surface.surface_model_separates_radiation(surface_model):
+        conv_share = np.full(n, np.nan)
+        rad_share = np.full(n, np.nan)
+    flux_main = sol.q_conv + sol.q_rad
+
+    def mask(x):
+        return np.where(computed, x, np.nan)
+
+    return ItemStates(
+        surface_temp=mask(pick(sol.surface_temp, worst)),
+        surface_temp_insulated=mask(pick(sol.surface_temp, main_insulated)),
+        interface_temps=np.where(computed[:, None], interfaces, np.nan),
+        heat_loss=mask(heat_loss),
+        heat_loss_per_m=mask(per_m),
+        heat_flux=mask(pick(flux_main, main_any)),
+        q_conv=mask(pick(sol.q_conv, main_any)),
+        q_rad=mask(pick(sol.q_rad, main_any)),
+        outer_area=mask(area),
+        convective_share=mask(conv_share),
+        radiative_share=mask(rad_share),
+        converged=computed,
+        reason=reason,
+        warnings=warnings,
+        balance_error=mask(balance),
+    )
+
+
+def _failure_reason(i, e, sol, tables) -> str:
+    rows = np.flatnonzero(e.item == i)
+    bad = rows[~sol.converged[rows]]
+    temps = sol.interface_temps[bad]
+    if np.isnan(temps).any():
+        names = sorted({tables.names[t] for t in e.layer_table[bad].ravel() if t >= 0})
+        return ("conductivity of " + ", ".join(names) +
+                " extrapolates to zero or below within the item's temperature span")
+    return f"surface heat balance did not close (relative error {np.nanmax(sol.balance_error[bad]):.1e})"
+
+
+def _warnings(n, e, sol, tables, present) -> np.ndarray:
+    """Layers whose temperature span leaves their conductivity data."""
+    out = np.full(n, "", dtype=object)
+    temps = sol.interface_temps
+    outside = np.zeros(present.shape, bool)
+    for j in range(present.shape[1]):
+        col = present[:, j]
+        if col.any():
+            idx = np.flatnonzero(col)
+            outside[idx, j] = tables.outside(e.layer_table[idx, j], temps[idx, j], temps[idx, j + 1])
+    rows, cols = np.nonzero(outside)
+    notes: dict[int, set] = {}
+    for r, c in zip(rows, cols):
+        t = e.layer_table[r, c]
+        notes.setdefault(int(e.item[r]), set()).add(
+            f"conductivity of {tables.names[t]} extrapolated beyond its data "
+            f"({tables.t_min[t] - 273.15:g} to {tables.t_max[t] - 273.15:g} degC)")
+    for i, texts in notes.items():
+        out[i] = "; ".join(sorted(texts))
+    return out

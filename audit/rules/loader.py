@@ -1,0 +1,255 @@
+"""Loading, layering and validating rule files (``rules/*.toml``).
+
+The shipped ``rules/`` folder is read first, then each ``--rules DIR`` in order; every
+``*.toml`` of a folder is read in name order.  A later definition of the same
+``[section.NAME]`` replaces the earlier one whole, so a user adds or changes one material
+without copying the rest.  Alias lists of the same column are joined.
+
+Rule files are data: TOML parsed by :mod:`tomllib`, values checked against the schema below,
+nothing evaluated.  Any problem raises :class:`~audit.errors.RuleError` naming the file, the
+key and what was expected, after collecting every problem of the file.
+"""
+
+from __future__ import annotations
+
+import math
+import tomllib
+from collections.abc import Iterable
+from pathlib import Path
+
+from audit.errors import Problem, RuleError
+from audit.rules.model import Fitting, Jacket, Material, Metal, Rules, Site
+from audit.units import UnitParseError, parse_quantity, parse_temperature
+
+
+def shipped_rules_dir() -> Path:
+    """The rule folder that ships with the package (wheel) or the repository's ``rules/``."""
+    package = Path(__file__).resolve().parent.parent
+    for candidate in (package / "_shipped" / "rules", package.parent / "rules"):
+        if candidate.is_dir():
+            return candidate
+    raise RuleError("the shipped rules folder is missing from this installation",
+                    expected="a 'rules' folder beside the 'audit' package; reinstall lagaudit")
+
+
+# --------------------------------------------------------------------------------------
+# value converters: each takes the raw TOML value and returns the SI value or raises ValueError
+
+def _temperature(value):
+    return parse_temperature(value, "degC")
+
+
+def _quantity(default_unit, target_unit, low=None, high=None, low_open=False):
+    def convert(value):
+        number = parse_quantity(value, default_unit, target_unit)
+        if low is not None and (number < low or (low_open and number == low)):
+            raise ValueError(f"{number:g} is below {'or at ' if low_open else ''}{low:g} {target_unit}")
+        if high is not None and number > high:
+            raise ValueError(f"{number:g} is above {high:g} {target_unit}")
+        return number
+    return convert
+
+
+def _text(value):
+    if not isinstance(value, str) or not value.strip():
+        raise ValueError("not a non-empty string")
+    return value.strip()
+
+
+def _choice(*allowed):
+    def convert(value):
+        if value not in allowed:
+            raise ValueError(f"{value!r} is not one of {', '.join(allowed)}")
+        return value
+    return convert
+
+
+def _rows(first, second, what):
+    def convert(value):
+        if not isinstance(value, list) or not value:
+            raise ValueError(f"not a list of [{what}] rows")
+        rows = []
+        for row in value:
+            if not isinstance(row, list) or len(row) != 2:
+                raise ValueError(f"row {row!r} is not a pair [{what}]")
+            rows.append((first(row[0]), second(row[1])))
+        keys = [r[0] for r in rows]
+        if any(b <= a for a, b in zip(keys, keys[1:])):
+            raise ValueError("rows are not in strictly increasing order of their first entry")
+        return tuple(rows)
+    return convert
+
+
+_CONDUCTIVITY = _quantity("W/(m*K)", "W/(m*K)", low=0.0, low_open=True)
+_EMISSIVITY = _quantity("dimensionless", "dimensionless", low=0.0, high=1.0)
+_COEFFICIENT = _quantity("W/(m**2*K)", "W/(m**2*K)", low=0.0, low_open=True)
+
+#: section -> (object type, {key: (converter, required)})
+SCHEMA = {
+    "material": (Material, {
+        "k": (_rows(_temperature, _CONDUCTIVITY, "temperature degC, conductivity W/(m*K)"), True),
+        "max_temp": (_temperature, True),
+        "min_temp": (_temperature, False),
+        "wet_factor": (_quantity("dimensionless", "dimensionless", low=1.0), False),
+        "wet_source": (_text, False),
+        "density": (_quantity("kg/m**3", "kg/m**3", low=0.0, low_open=True), False),
+        "source": (_text, True),
+    }),
+    "jacket": (Jacket, {
+        "emissivity": (_EMISSIVITY, True),
+        "surface": (_choice("metal", "non-metal"), True),
+        "iso12241_ca": (_COEFFICIENT, False),
+        "iso12241_cb": (_COEFFICIENT, False),
+        "source": (_text, True),
+    }),
+    "metal": (Metal, {
+        "emissivity": (_EMISSIVITY, True),
+        "conductivity": (_CONDUCTIVITY, False),
+        "iso12241_ca": (_COEFFICIENT, False),
+        "iso12241_cb": (_COEFFICIENT, False),
+        "source": (_text, True),
+    }),
+    "site": (Site, {
+        "ambient": (_temperature, True),
+        "wind": (_quantity("m/s", "m/s", low=0.0), True),
+        "rh": (_quantity("percent", "percent", low=0.0, high=100.0), True),
+        "surroundings": (_temperature, False),
+        "description": (_text, False),
+        "source": (_text, True),
+    }),
+    "fitting": (Fitting, {
+        "equivalent_length": (_rows(_quantity("dimensionless", "dimensionless", low=0.0, low_open=True),
+                                    _quantity("m", "m", low=0.0), "NPS inch, metres of bare pipe"), True),
+        "source": (_text, True),
+    }),
+}
+_PLURAL = {"material": "materials", "jacket": "jackets", "metal": "metals", "site": "sites",
+           "fitting": "fittings"}
+_TOP_LEVEL = set(SCHEMA) | {"alias", "defaults"}
+#: [defaults] key -> the section its value names
+_DEFAULT_KEYS = {"site": "site", "jacket": "jacket", "metal": "metal"}
+
+
+def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> Rules:
+    """Read the shipped rules, then each folder of ``extra_dirs`` over them.
+
+    Parameters
+    ----------
+    extra_dirs : iterable of path
+        Folders whose ``*.toml`` files are layered over the shipped ones, in order.
+    shipped : bool
+        Start from the shipped rules (True) or from nothing (tests).
+
+    Raises
+    ------
+    RuleError
+        A folder that does not exist, a file that is not TOML, an unknown section or key,
+        a value of the wrong kind, a missing ``source``, or a reference to an undefined name.
+    """
+    folders = ([shipped_rules_dir()] if shipped else []) + [Path(d) for d in extra_dirs]
+    collected = {section: {} for section in SCHEMA}
+    aliases: dict[str, list[str]] = {}
+    defaults: dict[str, str] = {}
+    files = []
+    for folder in folders:
+        if not folder.is_dir():
+            raise RuleError(f"rules folder {str(folder)!r} does not exist or is not a folder",
+                            file=str(folder), expected="a folder holding *.toml rule files")
+        for path in sorted(folder.glob("*.toml")):
+            files.append(str(path))
+            _read_file(path, collected, aliases, defaults)
+    rules = Rules(**{_PLURAL[s]: collected[s] for s in SCHEMA}, aliases=aliases,
+                  defaults=defaults, files=tuple(files))
+    _check_references(rules)
+    return rules
+
+
+def _read_file(path: Path, collected, aliases, defaults) -> None:
+    try:
+        data = tomllib.loads(path.read_text(encoding="utf-8"))
+    except tomllib.TOMLDecodeError as exc:
+        raise RuleError(f"not valid TOML: {exc}", file=str(path),
+                        expected="TOML as described in the comment at the top of the shipped rule files") from exc
+    except (OSError, UnicodeDecodeError) as exc:
+        raise RuleError(f"cannot read the rule file: {exc}", file=str(path),
+                        expected="a readable UTF-8 text file") from exc
+    problems: list[Problem] = []
+    for section, body in data.items():
+        if section not in _TOP_LEVEL:
+            problems.append(Problem(f"unknown section [{section}]", file=str(path), column=section,
+                                    expected="one of " + ", ".join(sorted(_TOP_LEVEL))))
+            continue
+        if not isinstance(body, dict):
+            problems.append(Problem(f"[{section}] is not a table", file=str(path), column=section,
+                                    value=body))
+            continue
+        if section == "alias":
+            for column, names in body.items():
+                if not (isinstance(names, list) and all(isinstance(n, str) for n in names)):
+                    problems.append(Problem("aliases must be a list of strings", file=str(path),
+                                            column=f"alias.{column}", value=names))
+                    continue
+                aliases.setdefault(column, [])
+                aliases[column].extend(n for n in names if n not in aliases[column])
+        elif section == "defaults":
+            for key, value in body.items():
+                if key not in _DEFAULT_KEYS or not isinstance(value, str):
+                    problems.append(Problem(f"unknown or invalid key defaults.{key}", file=str(path),
+                                            column=f"defaults.{key}", value=value,
+                                            expected=", ".join(f'{k} = "<name of a [{v}.NAME]>"'
+                                                               for k, v in _DEFAULT_KEYS.items())))
+                else:
+                    defaults[key] = value
+        else:
+            for name, entry in body.items():
+                made = _build(section, name, entry, path, problems)
+                if made is not None:
+                    collected[section][name] = made
+    if problems:
+        raise RuleError(f"{len(problems)} problem(s) in rule file", file=str(path), problems=problems)
+
+
+def _build(section, name, entry, path, problems):
+    cls, keys = SCHEMA[section]
+    where = f"{section}.{name}"
+    if not isinstance(entry, dict):
+        problems.append(Problem(f"[{where}] is not a table", file=str(path), column=where, value=entry))
+        return None
+    values = {}
+    before = len(problems)
+    for key, raw in entry.items():
+        if key not in keys:
+            problems.append(Problem(f"unknown key {key!r}", file=str(path), column=f"{where}.{key}",
+                                    expected="one of " + ", ".join(keys)))
+            continue
+        convert, _ = keys[key]
+        try:
+            values[key] = convert(raw)
+        except (ValueError, UnitParseError) as exc:
+            problems.append(Problem(f"invalid value: {exc}", file=str(path), column=f"{where}.{key}",
+                                    value=raw))
+    for key, (_, required) in keys.items():
+        if required and key not in entry:
+            problems.append(Problem(f"missing key {key!r}", file=str(path), column=where,
+                                    expected=f"{key} = ..."))
+    if section == "material" and "wet_factor" in values and "wet_source" not in values:
+        problems.append(Problem("wet_factor needs a wet_source", file=str(path),
+                                column=f"{where}.wet_source", expected='wet_source = "..."'))
+    if section == "material" and "k" in values and "max_temp" in values \
+            and not math.isfinite(values["max_temp"]):
+        problems.append(Problem("max_temp is not finite", file=str(path), column=f"{where}.max_temp"))
+    if len(problems) > before:
+        return None
+    return cls(name=name, origin=str(path), **values)
+
+
+def _check_references(rules: Rules) -> None:
+    where = ", ".join(rules.files) or None
+    if rules.sites and "site" not in rules.defaults:
+        raise RuleError("no default site condition", expected='[defaults] site = "<name>"', file=where)
+    for key, section in _DEFAULT_KEYS.items():
+        name = rules.defaults.get(key)
+        defined = getattr(rules, _PLURAL[section])
+        if name is not None and name not in defined:
+            raise RuleError(f"default {key} {name!r} is not defined", column=f"defaults.{key}",
+                            value=name, expected="one of " + ", ".join(sorted(defined)), file=where)

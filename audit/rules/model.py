@@ -1,0 +1,87 @@
+"""Validated rule objects, in SI units (temperatures in kelvin)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+
+@dataclass(frozen=True)
+class Material:
+    """An insulation material."""
+
+    name: str
+    k: tuple            #: rows of (temperature [K], conductivity [W/(m K)])
+    max_temp: float     #: maximum use temperature [K]
+    source: str
+    min_temp: float = float("nan")   #: minimum use temperature [K]
+    wet_factor: float = float("nan")  #: conductivity multiplier when wet [-]
+    wet_source: str = ""
+    density: float = float("nan")    #: [kg/m3]
+    origin: str = ""                 #: file that defined it
+
+
+@dataclass(frozen=True)
+class Jacket:
+    """An outer covering of insulation."""
+
+    name: str
+    emissivity: float
+    surface: str        #: "metal" or "non-metal" (burn limits differ)
+    source: str
+    iso12241_ca: float = float("nan")  #: [W/(m2 K)]
+    iso12241_cb: float = float("nan")  #: [W/(m2 K)]
+    origin: str = ""
+
+
+@dataclass(frozen=True)
+class Metal:
+    """A bare metal, for uninsulated surfaces."""
+
+    name: str
+    emissivity: float
+    source: str
+    conductivity: float = float("nan")  #: [W/(m K)]
+    iso12241_ca: float = float("nan")
+    iso12241_cb: float = float("nan")
+    origin: str = ""
+
+
+@dataclass(frozen=True)
+class Site:
+    """A site condition: the air an item sits in."""
+
+    name: str
+    ambient: float      #: air temperature [K]
+    wind: float         #: [m/s]
+    rh: float           #: relative humidity [%]
+    source: str
+    surroundings: float = float("nan")  #: radiant surroundings [K]; NaN: the air temperature
+    description: str = ""
+    origin: str = ""
+
+
+@dataclass(frozen=True)
+class Fitting:
+    """An uninsulated fitting as an equivalent length of bare pipe of the same size."""
+
+    name: str
+    equivalent_length: tuple   #: rows of (NPS [inch], length [m])
+    source: str
+    origin: str = ""
+
+
+@dataclass(frozen=True)
+class Rules:
+    """Everything the rule files define, after layering."""
+
+    materials: dict = field(default_factory=dict)
+    jackets: dict = field(default_factory=dict)
+    metals: dict = field(default_factory=dict)
+    sites: dict = field(default_factory=dict)
+    fittings: dict = field(default_factory=dict)
+    aliases: dict = field(default_factory=dict)   #: column -> list of alias headers
+    defaults: dict = field(default_factory=dict)  #: e.g. {"site": "outdoor-annual-mean"}
+    files: tuple = ()                             #: rule files read, in order
+
+    def default_site(self) -> Site:
+        return self.sites[self.defaults["site"]]

@@ -1,0 +1,242 @@
+"""From the item table and the rules to engine arrays, and the engine's answers back to a table.
+
+This is the one place where register names (materials, jackets, sites) meet the engine's
+index arrays.  Names are looked up exactly as written (after the reader's normalisation to
+lower case with hyphens): an unknown name rejects the row with a reason, never a guess.
+
+Conditions for each item: a value on the item's own row (``ambient``, ``wind``, ``rh``,
+``emissivity``) wins; else the site condition being evaluated (a check's scenario), else
+the item's ``location``, else the rules' default site.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+
+from audit.engine import ConductivityTables, ItemBatch, solve_items
+from audit.engine.items import HEAD_CODES, ORIENTATION_CODES, SHAPE_CODES
+from audit.io.readers.pipe_sizes import NOMINAL_PIPE_SIZES
+from audit.rules import Rules
+
+ZERO_CELSIUS = 273.15
+
+
+def resolve_names(table: pd.DataFrame, rules: Rules) -> pd.DataFrame:
+    """Reject rows whose names the rules do not define, or whose condition lacks data.
+
+    Returns a copy of ``table`` with ``status`` and ``reason`` updated; rows already
+    rejected keep their reasons and gain any new ones.
+    """
+    out = table.copy()
+    problems = [[] for _ in range(len(out))]
+    materials, jackets, sites, metals = rules.materials, rules.jackets, rules.sites, rules.metals
+    default_metal = rules.defaults.get("metal")
+    default_jacket = rules.defaults.get("jacket")
+    for i, row in enumerate(out.itertuples(index=False)):
+        names = row.layer_materials if isinstance(row.layer_materials, tuple) else ()
+        for name in dict.fromkeys(names):
+            if name not in materials:
+                problems[i].append(f'layers: material "{name}" is not in the rules; expected one of '
+                                   f'{_listing(materials)} (or add it to a rule file)')
+            elif row.condition == "wet" and not np.isfinite(materials[name].wet_factor):
+                problems[i].append(f'condition: "wet" but material "{name}" has no wet_factor in the '
+                                   "rules; add wet_factor and wet_source to it")
+        jacket = row.jacket or ""
+        if jacket and jacket not in jackets:
+            problems[i].append(f'jacket: "{jacket}" is not in the rules; expected one of '
+                               f"{_listing(jackets)}, or give an emissivity (0-1)")
+        elif names and not jacket and not np.isfinite(row.emissivity) and default_jacket is None:
+            problems[i].append("jacket: empty and no emissivity on the row; expected a jacket name "
+                               "or an emissivity, or [defaults] jacket in the rules")
+        location = row.location or ""
+        if location and location not in sites:
+            problems[i].append(f'location: "{location}" is not a site condition in the rules; '
+                               f"expected one of {_listing(sites)}")
+        metal = row.material or ""
+        if metal and metal not in metals:
+            problems[i].append(f'material: metal "{metal}" is not in the rules; expected one of '
+                               f"{_listing(metals)}")
+        bare_part = (not names) or row.condition in ("damaged", "missing") or (row.valves or 0) > 0 \
+            or (row.flanges or 0) > 0
+        if bare_part and not np.isfinite(row.emissivity) and not metal and default_metal is None:
+            problems[i].append("material: needed for the bare-metal emissivity; expected a metal "
+                               "name, an emissivity on the row, or [defaults] metal in the rules")
+        if row.condition == "damaged" and not np.isfinite(row.damaged_pct):
+            problems[i].append('damaged: empty but condition is "damaged"; expected the share of the '
+                               "length without insulation, in %")
+    added = np.array(["; ".join(p) for p in problems], dtype=object)
+    has = added != ""
+    out.loc[has, "reason"] = [
+        f"{old}; {new}" if old else new for old, new in zip(out.loc[has, "reason"], added[has])]
+    out.loc[has, "status"] = "rejected"
+    return out
+
+
+def _listing(named: dict) -> str:
+    return ", ".join(sorted(named)) or "(none defined)"
+
+
+def conductivity_tables(rules: Rules) -> tuple[ConductivityTables, dict[str, int]]:
+    """All rule materials as one :class:`ConductivityTables`, and the name -> index map."""
+    names = sorted(rules.materials)
+    tables = ConductivityTables([rules.materials[n].k for n in names], names)
+    return tables, {n: i for i, n in enumerate(names)}
+
+
+def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None,
+                   surface_model: str = "correlations", tables=None) -> pd.DataFrame:
+    """Solve every accepted row of ``table`` under one set of conditions.
+
+    Parameters
+    ----------
+    table : pandas.DataFrame
+        The item table after :func:`resolve_names`.
+    rules : Rules
+        Materials, jackets, metals, sites, fittings.
+    site : str, optional
+        Evaluate under this site condition instead of each item's own location.
+    surface_model : str
+        Outer-surface model of the engine.
+
+    Returns
+    -------
+    pandas.DataFrame
+        Same index as ``table``; SI columns (kelvin, W, W/m, W/m2) with NaN for rows that
+        were rejected; ``computed`` (bool), ``engine_reason`` and ``engine_warnings``.
+    """
+    if tables is None:
+        tables, index = conductivity_tables(rules)
+    else:
+        tables, index = tables
+    ok = (table["status"] == "ok").to_numpy()
+    rows = table.loc[ok]
+    batch, conditions = _batch(rows, rules, index, site)
+    states = solve_items(batch, tables, surface_model=surface_model) if len(rows) else None
+    n_layers = batch.layer_table.shape[1]
+    out = pd.DataFrame(index=table.index)
+
+    def put(name, values, fill=np.nan):
+        column = np.full(len(table), fill, dtype=object if isinstance(fill, str) else float)
+        column[ok] = values
+        out[name] = column
+
+    for name, values in conditions.items():
+        put(name, values)
+    if states is None:
+        for name in ("surface_temp_K", "surface_temp_insulated_K", "heat_loss_W", "heat_loss_W_per_m",
+                     "heat_flux_W_m2", "outer_area_m2", "convective_share", "radiative_share",
+                     "balance_error"):
+            put(name, np.empty(0))
+        put("engine_reason", np.empty(0, object), "")
+        put("engine_warnings", np.empty(0, object), "")
+        out["computed"] = False
+        return out
+    put("surface_temp_K", states.surface_temp)
+    put("surface_temp_insulated_K", states.surface_temp_insulated)
+    for j in range(n_layers + 1):
+        put(f"interface_{j}_K", states.interface_temps[:, j])
+    put("heat_loss_W", states.heat_loss)
+    put("heat_loss_W_per_m", states.heat_loss_per_m)
+    put("heat_flux_W_m2", states.heat_flux)
+    put("outer_area_m2", states.outer_area)
+    put("convective_share", states.convective_share)
+    put("radiative_share", states.radiative_share)
+    put("balance_error", states.balance_error)
+    put("engine_reason", states.reason, "")
+    put("engine_warnings", states.warnings, "")
+    computed = np.zeros(len(table), bool)
+    computed[ok] = states.converged
+    out["computed"] = computed
+    return out
+
+
+def _batch(rows: pd.DataFrame, rules: Rules, index: dict[str, int], site: str | None):
+    n = len(rows)
+    sites = rules.sites
+    default_site = rules.defaults.get("site")
+    site_names = (np.full(n, site, dtype=object) if site else
+                  rows["location"].fillna("").replace("", default_site).to_numpy(object))
+    site_of = {name: sites[name] for name in set(site_names)}
+    site_air = np.array([site_of[s].ambient for s in site_names], float)
+    site_wind = np.array([site_of[s].wind for s in site_names], float)
+    site_rh = np.array([site_of[s].rh for s in site_names], float)
+    site_sur = np.array([site_of[s].surroundings for s in site_names], float)
+
+    row_air = rows["ambient_K"].to_numpy(float)
+    t_air = np.where(np.isfinite(row_air), row_air, site_air)
+    t_sur = np.where(np.isfinite(row_air) | ~np.isfinite(site_sur), t_air, site_sur)
+    row_wind = rows["wind_m_s"].to_numpy(float)
+    wind = np.where(np.isfinite(row_wind), row_wind, site_wind)
+    row_rh = rows["rh_pct"].to_numpy(float)
+    rh = np.where(np.isfinite(row_rh), row_rh, site_rh)
+    t_process = rows["temp_K"].to_numpy(float)
+    at_ambient = rows["temp_is_ambient"].to_numpy(bool)
+    t_process = np.where(at_ambient, t_air, t_process)
+
+    jacket_names = rows["jacket"].fillna("").replace("", rules.defaults.get("jacket", "")).to_numpy(object)
+    metal_names = rows["material"].fillna("").replace("", rules.defaults.get("metal", "")).to_numpy(object)
+    row_eps = rows["emissivity"].to_numpy(float)
+
+    def lookup(names, named, attribute):
+        return np.array([getattr(named[x], attribute) if x in named else np.nan for x in names], float)
+
+    emissivity = np.where(np.isfinite(row_eps), row_eps, lookup(jacket_names, rules.jackets, "emissivity"))
+    bare_emissivity = np.where(np.isfinite(row_eps), row_eps, lookup(metal_names, rules.metals, "emissivity"))
+
+    layer_names = rows["layer_materials"].to_numpy(object)
+    layer_thick = rows["layer_thicknesses_m"].to_numpy(object)
+    n_layers = max([len(x) for x in layer_names if isinstance(x, tuple)] + [1])
+    table_idx = np.full((n, n_layers), -1, int)
+    thickness = np.zeros((n, n_layers))
+    factor = np.ones((n, n_layers))
+    wet = (rows["condition"] == "wet").to_numpy()
+    codes, uniques = pd.factorize(pd.Series(list(zip(layer_names, layer_thick)), dtype=object))
+    for code, (names, thicks) in enumerate(uniques):
+        sel = codes == code
+        for j, (name, t) in enumerate(zip(names or (), thicks or ())):
+            table_idx[sel, j] = index[name]
+            thickness[sel, j] = t
+            wf = rules.materials[name].wet_factor
+            factor[sel & wet, j] = wf
+    condition = rows["condition"].to_numpy(object)
+    damaged = rows["damaged_pct"].to_numpy(float) / 100.0
+    bare_fraction = np.select([condition == "missing", condition == "damaged"], [1.0, damaged], 0.0)
+    table_idx[condition == "missing"] = -1
+
+    return ItemBatch(
+        shape=np.array([SHAPE_CODES[s] for s in rows["shape"]], int),
+        od=rows["od_m"].to_numpy(float), length=rows["length_m"].to_numpy(float),
+        area=rows["area_m2"].to_numpy(float),
+        heads=np.array([HEAD_CODES.get(h, HEAD_CODES["ellipsoidal"]) for h in rows["heads"]], int),
+        orientation=np.array([ORIENTATION_CODES.get(o, 0) for o in rows["orientation"]], int),
+        t_process=t_process, t_air=t_air, t_surroundings=t_sur, wind=wind,
+        emissivity=emissivity, bare_emissivity=bare_emissivity,
+        layer_table=table_idx, layer_thickness=thickness, layer_factor=factor,
+        bare_fraction=bare_fraction,
+        fitting_length=_fitting_length(rows, rules),
+        iso_ca=lookup(jacket_names, rules.jackets, "iso12241_ca"),
+        iso_cb=lookup(jacket_names, rules.jackets, "iso12241_cb"),
+        bare_iso_ca=lookup(metal_names, rules.metals, "iso12241_ca"),
+        bare_iso_cb=lookup(metal_names, rules.metals, "iso12241_cb"),
+    ), {"air_temp_K": t_air, "surroundings_temp_K": t_sur, "wind_m_s": wind, "rh_pct": rh,
+        "process_temp_K": t_process, "emissivity_used": emissivity}
+
+
+def _fitting_length(rows: pd.DataFrame, rules: Rules) -> np.ndarray:
+    """Bare-pipe equivalent [m] of each row's uninsulated valves and flanges."""
+    od = rows["od_m"].to_numpy(float)
+    total = np.zeros(len(rows))
+    od_of_nps = {value: mm / 1000.0 for _, value, _, mm in NOMINAL_PIPE_SIZES}
+    for column, fitting in (("valves", "valve"), ("flanges", "flange")):
+        count = pd.to_numeric(rows[column], errors="coerce").fillna(0).to_numpy(float)
+        if not count.any():
+            continue
+        table = rules.fittings.get(fitting)
+        if table is None:
+            continue
+        sizes = np.array([od_of_nps.get(nps, np.nan) for nps, _ in table.equivalent_length])
+        lengths = np.array([length for _, length in table.equivalent_length])
+        keep = np.isfinite(sizes)
+        total += count * np.interp(od, sizes[keep], lengths[keep])
+    return total
