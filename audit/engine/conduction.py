@@ -97,13 +97,14 @@ class ConductivityTables:
 
     def _phi_extremes(self, table: int) -> np.ndarray:
         """Potential at 0 K, at _T_SPAN and at any extrapolation turning point."""
-        values = [float(self.phi(table, 0.0)), float(self.phi(table, _T_SPAN))]
+        values = [float(self.phi(table, 0.0)), float(self.phi(table, np.nextafter(_T_SPAN, 0.0)))]
         for seg in (self._first[table], self._last[table]):
             if self._slope[seg] != 0.0:
                 values.append(self._phi0[seg] - self._k0[seg] ** 2 / (2.0 * self._slope[seg]))
         return np.asarray(values, float).ravel()
 
     def _segment_by_temperature(self, table, temperature):
+        # Callers mask temperatures outside [0, _T_SPAN) K, where the offset blocks would mix.
         pos = np.searchsorted(self._t_breaks, temperature + table * _T_SPAN, side="right") - 1
         return np.clip(pos, self._first[table], self._last[table])
 
@@ -112,7 +113,8 @@ class ConductivityTables:
         table = np.asarray(table, int)
         temperature = np.asarray(temperature, float)
         seg = self._segment_by_temperature(table, temperature)
-        return self._k0[seg] + self._slope[seg] * (temperature - self._t0[seg])
+        k = self._k0[seg] + self._slope[seg] * (temperature - self._t0[seg])
+        return np.where(_physical(temperature), k, np.nan)
 
     def phi(self, table, temperature):
         """Conductivity integral Phi [W/m] from the table's first point to ``temperature`` [K]."""
@@ -120,13 +122,14 @@ class ConductivityTables:
         temperature = np.asarray(temperature, float)
         seg = self._segment_by_temperature(table, temperature)
         x = temperature - self._t0[seg]
-        return self._phi0[seg] + x * (self._k0[seg] + 0.5 * self._slope[seg] * x)
+        phi = self._phi0[seg] + x * (self._k0[seg] + 0.5 * self._slope[seg] * x)
+        return np.where(_physical(temperature), phi, np.nan)
 
     def phi_inverse(self, table, potential):
         """Temperature [K] at which ``table`` reaches the conductivity integral ``potential`` [W/m].
 
         NaN where no such temperature exists because the extrapolated conductivity would
-        fall to zero or below first.
+        fall to zero or below first, or where it would lie below absolute zero.
         """
         table = np.asarray(table, int)
         potential = np.asarray(potential, float)
@@ -139,7 +142,8 @@ class ConductivityTables:
             root = np.sqrt(disc)
         # Stable root of slope/2 x^2 + k0 x - d = 0 on the branch where k = k0 + slope x > 0.
         x = 2.0 * d / (k0 + root)
-        return np.where(disc > 0.0, self._t0[seg] + x, np.nan)
+        temperature = self._t0[seg] + x
+        return np.where((disc > 0.0) & _physical(temperature), temperature, np.nan)
 
     def mean_conductivity(self, table, t1, t2):
         """Integral-mean conductivity [W/(m K)] between ``t1`` and ``t2`` [K]."""
@@ -157,6 +161,12 @@ class ConductivityTables:
         low = np.minimum(t1, t2)
         high = np.maximum(t1, t2)
         return (low < self.t_min[table]) | (high > self.t_max[table])
+
+
+def _physical(temperature):
+    """Temperatures the tables can be evaluated at: from absolute zero to _T_SPAN."""
+    with np.errstate(invalid="ignore"):
+        return (temperature >= 0.0) & (temperature < _T_SPAN)
 
 
 def table_points(table):

@@ -127,7 +127,7 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     """
     n = len(batch)
     b = _complete(batch)
-    reasons = _invalid_reasons(b, tables)
+    reasons = _invalid_reasons(b, tables, surface_model)
     ok = np.array([not r for r in reasons], bool)
     elements = _build_elements(b, np.flatnonzero(ok))
     solution = _solve_elements(elements, tables, surface_model)
@@ -154,7 +154,7 @@ def _complete(batch: ItemBatch) -> ItemBatch:
     return ItemBatch(**arrays, **filled)
 
 
-def _invalid_reasons(b: ItemBatch, tables: ConductivityTables) -> list[str]:
+def _invalid_reasons(b: ItemBatch, tables: ConductivityTables, surface_model: str) -> list[str]:
     """Per item, every input that makes it impossible to compute, as text ("" when fine)."""
     n = len(b)
     problems = [[] for _ in range(n)]
@@ -199,6 +199,13 @@ def _invalid_reasons(b: ItemBatch, tables: ConductivityTables) -> list[str]:
     flag(wall & ~((b.wall_thickness > 0) & (b.wall_thickness < b.od / 2) & (b.wall_conductivity > 0)),
          "metal wall needs a thickness below the radius and a conductivity above zero")
     flag(np.isfinite(b.inner_film) & ~(b.inner_film > 0), "inner film coefficient must be above zero")
+    if surface.get_surface_model(surface_model).name == "iso12241-simplified":
+        def missing(ca, cb):
+            return ~((ca > 0) & (cb > 0))
+        flag(has_cover & missing(b.iso_ca, b.iso_cb),
+             "the simplified ISO 12241 surface model needs the jacket's constants C_A and C_B")
+        flag(bare_part & missing(b.bare_iso_ca, b.bare_iso_cb),
+             "the simplified ISO 12241 surface model needs the bare metal's constants C_A and C_B")
     return ["; ".join(p) for p in problems]
 
 
@@ -214,7 +221,8 @@ class _Elements:
     geometry: np.ndarray
     kind: np.ndarray            # surface kind
     r_metal: np.ndarray
-    length: np.ndarray          # characteristic length for surface correlations
+    length: np.ndarray          # characteristic length for natural convection
+    flow_length: np.ndarray     # length along the wind, for plates
     layer_table: np.ndarray
     layer_thickness: np.ndarray
     layer_factor: np.ndarray
@@ -230,16 +238,17 @@ def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
     shape, orient = b.shape, b.orientation
     insulatable = (b.layer_table >= 0).any(axis=1)
 
-    def add(idx, role, weight, geometry_code, kind, r_metal, length):
+    def add(idx, role, weight, geometry_code, kind, r_metal, length, flow_length=None):
         """Add an intact element and a bare one for each item in ``idx``, where they weigh > 0."""
         if idx.size == 0:
             return
+        flow_length = length if flow_length is None else flow_length
         share_bare = np.where(insulatable[idx], b.bare_fraction[idx], 1.0)
         for insulated, share in ((True, 1.0 - share_bare), (False, share_bare)):
             w = weight * share
             keep = w > 0
             blocks.append((idx[keep], role, insulated, w[keep], geometry_code, kind[keep],
-                           r_metal[keep], length[keep]))
+                           r_metal[keep], length[keep], flow_length[keep]))
 
     def kinds(value, idx):
         return np.full(idx.size, value)
@@ -265,10 +274,11 @@ def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
     disc = np.pi * radius[flat_heads] ** 2
     up_right = shape[flat_heads] == VERTICAL_VESSEL
     top, side = flat_heads[up_right], flat_heads[~up_right]
+    # A disc's area over its perimeter is R/2; wind crosses its diameter.
     add(top, HEAD, disc[up_right], PLANE, kinds(surface.HORIZONTAL_PLATE_UP, top), radius[top],
-        radius[top] / 2.0)  # a disc's area over its perimeter
+        radius[top] / 2.0, 2.0 * radius[top])
     add(top, HEAD, disc[up_right], PLANE, kinds(surface.HORIZONTAL_PLATE_DOWN, top), radius[top],
-        radius[top] / 2.0)
+        radius[top] / 2.0, 2.0 * radius[top])
     add(side, HEAD, 2.0 * disc[~up_right], PLANE, kinds(surface.VERTICAL_PLATE, side),
         radius[side], 2.0 * radius[side])
 
@@ -284,23 +294,22 @@ def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
                           surface.VERTICAL_PLATE)
     # Height of a vertical wall and A/P of a horizontal one, taking the area as a square.
     flat_length = np.where(flat_kind == surface.VERTICAL_PLATE, side_length, side_length / 4.0)
-    add(flats, MAIN, b.area[flats], PLANE, flat_kind, np.ones(flats.size), flat_length)
+    add(flats, MAIN, b.area[flats], PLANE, flat_kind, np.ones(flats.size), flat_length, side_length)
 
     fitted = pipes[b.fitting_length[pipes] > 0]
     if fitted.size:
         kind = np.where(orient[fitted] == VERTICAL, surface.VERTICAL_CYLINDER,
                         surface.HORIZONTAL_CYLINDER)
         blocks.append((fitted, FITTING, False, b.fitting_length[fitted], CYLINDER, kind,
-                       radius[fitted], b.length[fitted]))
+                       radius[fitted], b.length[fitted], b.length[fitted]))
 
-    parts = {k: [] for k in ("item", "role", "insulated", "weight", "geometry", "kind",
-                             "r_metal", "length")}
-    for idx, role, insulated, weight, geometry_code, kind, r_metal, length in blocks:
+    keys = ("item", "role", "insulated", "weight", "geometry", "kind", "r_metal", "length",
+            "flow_length")
+    parts = {k: [] for k in keys}
+    for idx, role, insulated, weight, geometry_code, kind, r_metal, length, flow in blocks:
         m = idx.size
-        for key, value in (("item", idx), ("role", np.full(m, role)),
-                           ("insulated", np.full(m, insulated)), ("weight", weight),
-                           ("geometry", np.full(m, geometry_code)), ("kind", kind),
-                           ("r_metal", r_metal), ("length", length)):
+        for key, value in zip(keys, (idx, np.full(m, role), np.full(m, insulated), weight,
+                                     np.full(m, geometry_code), kind, r_metal, length, flow)):
             parts[key].append(np.asarray(value))
     cat = {k: (np.concatenate(v) if v else np.empty(0)) for k, v in parts.items()}
     item = cat["item"].astype(int)
@@ -309,7 +318,8 @@ def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
     return _Elements(
         item=item, role=cat["role"].astype(int), insulated=insulated, weight=cat["weight"],
         geometry=cat["geometry"].astype(int), kind=cat["kind"].astype(int),
-        r_metal=cat["r_metal"], length=cat["length"], layer_table=table,
+        r_metal=cat["r_metal"], length=cat["length"], flow_length=cat["flow_length"],
+        layer_table=table,
         layer_thickness=np.where(table >= 0, b.layer_thickness[item], 0.0).reshape(item.size, n_layers),
         layer_factor=np.where(table >= 0, b.layer_factor[item], 1.0).reshape(item.size, n_layers),
         emissivity=np.where(insulated, b.emissivity[item], b.bare_emissivity[item]),
@@ -360,7 +370,7 @@ def _aggregate(b, tables, elements, prepared, reasons, n) -> ItemStates:
     t_sur = b.t_surroundings[item]
     flux = surface.surface_flux_function(
         surface_model, e.kind, 2.0 * radii[:, -1], e.length, b.wind[item], t_air, t_sur,
-        e.emissivity, iso_ca=e.iso_ca, iso_cb=e.iso_cb)
+        e.emissivity, iso_ca=e.iso_ca, iso_cb=e.iso_cb, flow_length=e.flow_length)
     t_low = np.minimum(np.minimum(t_process, t_air), t_sur)
     t_high = np.maximum(np.maximum(t_process, t_air), t_sur)
     sol = solve_walls(t_process, t_low, t_high, conductance, np.where(present, e.layer_table, 0),

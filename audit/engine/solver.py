@@ -134,9 +134,11 @@ def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: C
     temps, heat, q_conv, q_rad = march(root)
     # Relative closure of the series balance: the marched stack needs a temperature drop
     # that misses the real one by |f|; for the heat rate that is a relative error of
-    # |f| / drop (exact for constant conductivities, first order otherwise).
+    # |f| / drop (exact for constant conductivities, first order otherwise).  Drops below
+    # a microkelvin (an item at ambient, a film-thin layer) are measured against 1 uK.
     miss = np.abs(temps[:, 0] + heat * r_inner - t_process)
-    drop = np.maximum(np.abs(t_process - root), np.abs(temps[:, 0] + heat * r_inner - root))
+    drop = np.maximum.reduce([np.abs(t_process - root), np.abs(temps[:, 0] + heat * r_inner - root),
+                              np.full(n, 1e-6)])
     with np.errstate(invalid="ignore", divide="ignore"):
         balance = np.where(miss == 0.0, 0.0, miss / drop)
     converged = np.isfinite(balance) & (balance <= BALANCE_TOLERANCE) & np.isfinite(heat)

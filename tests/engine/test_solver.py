@@ -104,6 +104,16 @@ def test_kinked_conductivity_is_integrated_not_taken_at_the_mean():
 
 
 
+def test_heat_loss_peaks_at_the_critical_radius():
+    # Constant h and k: heat loss of an insulated cylinder is greatest at r = k/h
+    # (Incropera et al., 6th ed., section 3.3.1, eq. 3.37 context: r_cr = k/h).
+    k, h, r0 = 0.055, 5.0, 0.005
+    thickness = np.linspace(0.0005, 0.03, 400)
+    q = [run(CYLINDER, r0, [t], [k], h, 400.0, 300.0)[0].heat_rate[0] for t in thickness]
+    r_peak = r0 + thickness[int(np.argmax(q))]
+    assert r_peak == pytest.approx(k / h, abs=thickness[1] - thickness[0])
+
+
 def test_inner_resistance_adds_in_series():
     r0, t, k, h, r_in = 0.05, 0.04, 0.05, 10.0, 0.02
     sol, radii = run(CYLINDER, r0, [t], [k], h, 500.0, 300.0, r_inner=r_in)
