@@ -65,12 +65,36 @@ def resolve_names(table: pd.DataFrame, rules: Rules) -> pd.DataFrame:
         if row.condition == "damaged" and not np.isfinite(row.damaged_pct):
             problems[i].append('damaged: empty but condition is "damaged"; expected the share of the '
                                "length without insulation, in %")
+    _note_defaults(out, rules)
     added = np.array(["; ".join(p) for p in problems], dtype=object)
     has = added != ""
     out.loc[has, "reason"] = [
         f"{old}; {new}" if old else new for old, new in zip(out.loc[has, "reason"], added[has])]
     out.loc[has, "status"] = "rejected"
     return out
+
+
+def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
+    """Say in ``warnings`` where a row falls back on a default of the rules."""
+    insulated = table["layer_materials"].map(lambda x: bool(x)) & (table["condition"] != "missing")
+    no_eps = ~np.isfinite(table["emissivity"].to_numpy(float))
+    bare_part = ~insulated | table["condition"].isin(["damaged", "missing"]) \
+        | (pd.to_numeric(table["valves"], errors="coerce").fillna(0) > 0) \
+        | (pd.to_numeric(table["flanges"], errors="coerce").fillna(0) > 0)
+    notes = []
+    if "jacket" in rules.defaults:
+        notes.append((insulated & (table["jacket"].fillna("") == "") & no_eps,
+                      f'jacket: empty; "{rules.defaults["jacket"]}" assumed (rules default)'))
+    if "metal" in rules.defaults:
+        notes.append((bare_part & (table["material"].fillna("") == "") & no_eps,
+                      f'material: empty; "{rules.defaults["metal"]}" assumed for bare metal (rules default)'))
+    if "site" in rules.defaults:
+        notes.append((table["location"].fillna("") == "",
+                      f'location: empty; site "{rules.defaults["site"]}" assumed (rules default)'))
+    for mask, text in notes:
+        mask = mask.to_numpy(bool)
+        old = table.loc[mask, "warnings"].fillna("")
+        table.loc[mask, "warnings"] = np.where(old == "", text, old + "; " + text)
 
 
 def _listing(named: dict) -> str:

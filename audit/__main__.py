@@ -1,0 +1,3 @@
+from audit.cli import main
+import sys
+sys.exit(main())

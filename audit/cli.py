@@ -1,0 +1,145 @@
+"""The ``lagaudit`` command line: wires reading, rules, engine and writers; no physics here."""
+
+from __future__ import annotations
+
+import argparse
+import hashlib
+import sys
+from datetime import datetime, timezone
+from pathlib import Path
+
+from audit import __version__
+from audit.errors import LagauditError
+from audit.io.readers import read_register
+from audit.io.readers.validate import summarise
+from audit.io.writers import write_csv, write_json, write_xlsx
+from audit.results import build_results
+from audit.rules import load_rules
+from audit.thermal import resolve_names, thermal_states
+
+CAUTION = (
+    "Caution: lagaudit is a screening calculation from register data. Confirm surface "
+    "temperatures by measurement before acting; burn and corrosion-under-insulation findings "
+    "need a competent person; old insulation may contain asbestos and must be surveyed before "
+    "it is disturbed; local codes, the owner's standards and licensed engineers govern.")
+
+FORMATS = ("csv", "xlsx", "json")
+PLANNED_FORMATS = ("html", "pdf")
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = _parser()
+    args = parser.parse_args(argv)
+    if not getattr(args, "command", None):
+        parser.print_help()
+        return 2
+    try:
+        return args.run(args)
+    except LagauditError as exc:
+        print(f"lagaudit: error: {exc}", file=sys.stderr)
+        return 2
+    except BrokenPipeError:  # output piped into a pager or head that stopped reading
+        sys.stderr.close()
+        return 0
+
+
+def _parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="lagaudit",
+        description="Audit a process plant's insulation register: heat loss and outer-surface "
+                    "temperature of every line and vessel.",
+        epilog=CAUTION, formatter_class=argparse.RawDescriptionHelpFormatter)
+    parser.add_argument("--version", action="version", version=f"lagaudit {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+
+    run = sub.add_parser(
+        "run", help="import, compute and write the results",
+        description="Import the register, compute every item and write the results.",
+        epilog="example:\n  lagaudit run line_list.csv equipment.xlsx --out audit-2026/\n\n" + CAUTION,
+        formatter_class=argparse.RawDescriptionHelpFormatter)
+    run.add_argument("registers", nargs="+", metavar="REGISTER", help="CSV or XLSX register files")
+    _rules_option(run)
+    run.add_argument("--out", default="reports", metavar="DIR", help="output folder (default: reports)")
+    run.add_argument("--format", default=",".join(FORMATS), metavar="LIST",
+                     help=f"comma list of {','.join(FORMATS)} (default: all of them)")
+    run.add_argument("--sheet", action="append", metavar="NAME", help="read only this worksheet (repeatable)")
+    run.add_argument("--surface-model", default="correlations", metavar="NAME",
+                     help="outer-surface model: correlations (default) or iso12241-simplified")
+    run.set_defaults(run=_run)
+
+    validate = sub.add_parser(
+        "validate", help="import only and print the data-quality findings",
+        description="Read the register and print what was read, rejected and assumed.",
+        epilog="example:\n  lagaudit validate line_list.csv", formatter_class=argparse.RawDescriptionHelpFormatter)
+    validate.add_argument("registers", nargs="+", metavar="REGISTER")
+    _rules_option(validate)
+    validate.add_argument("--sheet", action="append", metavar="NAME")
+    validate.set_defaults(run=_validate)
+    return parser
+
+
+def _rules_option(parser):
+    parser.add_argument("--rules", action="append", default=[], metavar="DIR",
+                        help="layer this folder's *.toml over the shipped rules (repeatable)")
+
+
+def _formats(text: str) -> list[str]:
+    asked = [f.strip().lower() for f in text.split(",") if f.strip()]
+    for name in asked:
+        if name in PLANNED_FORMATS:
+            raise LagauditError(f"--format {name}: the {name.upper()} report is not available in "
+                                f"this version", value=name, expected=", ".join(FORMATS))
+        if name not in FORMATS:
+            raise LagauditError(f"--format: unknown format {name!r}", value=name,
+                                expected="a comma list of " + ", ".join(FORMATS))
+    return asked
+
+
+def _run(args) -> int:
+    formats = _formats(args.format)
+    rules = load_rules(args.rules)
+    table = read_register(args.registers, sheets=args.sheet, aliases=rules.aliases or None)
+    table = resolve_names(table, rules)
+    states = thermal_states(table, rules, surface_model=args.surface_model)
+    results = build_results(table, states)
+    out = Path(args.out)
+    out.mkdir(parents=True, exist_ok=True)
+    meta = {"tool": f"lagaudit {__version__}",
+            "run_at": datetime.now(timezone.utc).isoformat(timespec="seconds"),
+            "registers": [{"file": str(p), "sha256": _sha256(p)} for p in args.registers],
+            "rules": list(rules.files), "surface_model": args.surface_model, "caution": CAUTION}
+    written = []
+    if "csv" in formats:
+        written.append(write_csv(results, out / "results.csv"))
+    if "json" in formats:
+        written.append(write_json(results, out / "results.json", meta=meta))
+    if "xlsx" in formats:
+        written.append(write_xlsx({"results": results}, out / "results.xlsx"))
+    audited = int((results["status"] == "audited").sum())
+    print(f"{len(results)} rows read: {audited} audited, {len(results) - audited} rejected.")
+    for path in written:
+        print(f"wrote {path}")
+    if audited < len(results):
+        print("See the 'reason' column for each rejected row, or run 'lagaudit validate'.")
+    print(CAUTION)
+    return 0
+
+
+def _validate(args) -> int:
+    rules = load_rules(args.rules)
+    table = read_register(args.registers, sheets=args.sheet, aliases=rules.aliases or None)
+    table = resolve_names(table, rules)
+    print(summarise(table))
+    return 0
+
+
+def _sha256(path) -> str:
+    digest = hashlib.sha256()
+    with open(path, "rb") as handle:
+        for block in iter(lambda: handle.read(1 << 20), b""):
+            digest.update(block)
+    return digest.hexdigest()
+
+
+if __name__ == "__main__":
+    sys.exit(main())

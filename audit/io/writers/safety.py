@@ -1,0 +1,28 @@
+"""Spreadsheet formula injection: text that a spreadsheet would run as a formula.
+
+A text cell beginning with ``=``, ``+``, ``-``, ``@`` (or a tab or carriage return, which some
+programs strip before looking) is prefixed with an apostrophe, the common practice that keeps
+it visible as text (OWASP, "CSV Injection").  Numbers are never touched: they stay numbers.
+"""
+
+from __future__ import annotations
+
+import pandas as pd
+
+_TRIGGERS = ("=", "+", "-", "@", "\t", "\r")
+
+
+def neutralise_text(value):
+    """``value`` made inert if it is text a spreadsheet would evaluate; anything else as is."""
+    if isinstance(value, str) and value.startswith(_TRIGGERS):
+        return "'" + value
+    return value
+
+
+def neutralise_frame(frame: pd.DataFrame) -> pd.DataFrame:
+    """A copy of ``frame`` with every text cell of every object column neutralised."""
+    out = frame.copy()
+    for column in out.columns:
+        if out[column].dtype == object or pd.api.types.is_string_dtype(out[column]):
+            out[column] = out[column].map(neutralise_text)
+    return out
