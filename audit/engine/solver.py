@@ -44,7 +44,7 @@ class WallSolution:
 
 
 def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: ConductivityTables,
-                r_inner, outer_area, flux, *, max_iter: int = 80, xtol: float = 1e-11):
+                r_inner, outer_area, flux, *, max_iter: int = 100):
     """Solve the surface temperature and heat rate of n wall elements at once.
 
     Parameters
@@ -70,9 +70,8 @@ def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: C
     flux : callable
         ``flux(T_s) -> (q_conv, q_rad)`` [W/m2] for all n elements.
     max_iter : int
-        Most sweeps of the root finder.
-    xtol : float
-        Bracket width [K] below which an element stops moving.
+        Most sweeps of the root finder.  An element stops when its residual is a thousandth
+        of what the balance tolerance allows, or when its bracket is a few float steps wide.
 
     Returns
     -------
@@ -106,7 +105,7 @@ def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: C
     a, b = t_low.astype(float), t_high.astype(float)
     fa, fb = residual(a), residual(b)
     # The surface sits exactly at the process temperature when nothing resists conduction.
-    active = (b - a > xtol) & (fa != 0.0) & (fb != 0.0)
+    active = (b - a > _ulps(a, b)) & (fa != 0.0) & (fb != 0.0)
     root = np.where(fa == 0.0, a, b)
     iterations = 0
     for iterations in range(1, max_iter + 1):
@@ -120,7 +119,7 @@ def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: C
         c = np.where(active, c, root)
         fc = residual(c)
         same_side = np.sign(fc) == np.sign(fb)
-        # Illinois: when the new point replaces the same end twice, halve the kept end's value.
+        # Illinois: when the same end is kept again, halve its residual so it moves next time.
         new_a = np.where(same_side, a, b)
         new_fa = np.where(same_side, 0.5 * fa, fb)
         a = np.where(active, new_a, a)
@@ -128,7 +127,9 @@ def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: C
         b = np.where(active, c, b)
         fb = np.where(active, fc, fb)
         root = np.where(active, c, root)
-        done = (fc == 0.0) | (np.abs(b - a) <= xtol) | np.isnan(fc)
+        drop = np.maximum(np.abs(t_process - c), 1e-6)
+        done = ((np.abs(fc) <= 1e-3 * BALANCE_TOLERANCE * drop) | (np.abs(b - a) <= _ulps(a, b))
+                | np.isnan(fc))
         active &= ~done
 
     temps, heat, q_conv, q_rad = march(root)
@@ -143,3 +144,8 @@ def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: C
         balance = np.where(miss == 0.0, 0.0, miss / drop)
     converged = np.isfinite(balance) & (balance <= BALANCE_TOLERANCE) & np.isfinite(heat)
     return WallSolution(root, temps, heat, q_conv, q_rad, balance, converged, iterations)
+
+
+def _ulps(a, b):
+    """A bracket width of a few floating-point steps at these temperatures [K]."""
+    return 8.0 * np.spacing(np.maximum(np.abs(a), np.abs(b)))
