@@ -128,10 +128,12 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     n = len(batch)
     b = _complete(batch)
     reasons = _invalid_reasons(b, tables, surface_model)
-    ok = np.array([not r for r in reasons], bool)
+    ok = reasons == ""
     elements = _build_elements(b, np.flatnonzero(ok))
-    solution = _solve_elements(elements, tables, surface_model)
-    return _aggregate(b, tables, elements, solution, reasons, n)
+    walls = _wall_geometry(elements)
+    solution = _solve(b, elements, walls, tables, surface_model)
+    return _aggregate(b, tables, elements, walls, solution, reasons, n,
+                      surface.surface_model_separates_radiation(surface_model))
 
 
 # --------------------------------------------------------------------------------------
@@ -154,14 +156,14 @@ def _complete(batch: ItemBatch) -> ItemBatch:
     return ItemBatch(**arrays, **filled)
 
 
-def _invalid_reasons(b: ItemBatch, tables: ConductivityTables, surface_model: str) -> list[str]:
+def _invalid_reasons(b: ItemBatch, tables: ConductivityTables, surface_model: str) -> np.ndarray:
     """Per item, every input that makes it impossible to compute, as text ("" when fine)."""
     n = len(b)
-    problems = [[] for _ in range(n)]
+    problems: dict[int, list[str]] = {}
 
     def flag(mask, text):
         for i in np.flatnonzero(mask):
-            problems[i].append(text)
+            problems.setdefault(int(i), []).append(text)
 
     def bad(x):
         return ~np.isfinite(np.asarray(x, float))
@@ -206,7 +208,10 @@ def _invalid_reasons(b: ItemBatch, tables: ConductivityTables, surface_model: st
              "the simplified ISO 12241 surface model needs the jacket's constants C_A and C_B")
         flag(bare_part & missing(b.bare_iso_ca, b.bare_iso_cb),
              "the simplified ISO 12241 surface model needs the bare metal's constants C_A and C_B")
-    return ["; ".join(p) for p in problems]
+    reasons = np.full(n, "", dtype=object)
+    for i, texts in problems.items():
+        reasons[i] = "; ".join(texts)
+    return reasons
 
 
 # --------------------------------------------------------------------------------------
@@ -328,7 +333,15 @@ def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
     )
 
 
-def _solve_elements(e: _Elements, tables: ConductivityTables, surface_model: str):
+@dataclass
+class _WallGeometry:
+    present: np.ndarray       # layer slots holding a layer, (m, L)
+    radii: np.ndarray         # metal face, then each layer's outer radius [m], (m, L + 1)
+    conductance: np.ndarray   # geometric factor times conductivity multiplier, (m, L)
+    outer_area: np.ndarray    # outer surface per basis, (m,)
+
+
+def _wall_geometry(e: _Elements) -> _WallGeometry:
     b_item = e.item
     present = e.layer_table >= 0
     thickness = np.where(present, e.layer_thickness, 0.0)
@@ -341,7 +354,7 @@ def _solve_elements(e: _Elements, tables: ConductivityTables, surface_model: str
     conductance = g * e.layer_factor
     r_out = radii[:, -1]
     outer_area = geometry.outer_area_factor(e.geometry, r_out)
-    return e, present, radii, conductance, outer_area, surface_model
+    return _WallGeometry(present, radii, conductance, outer_area)
 
 
 def _inner_resistance(b: ItemBatch, e: _Elements) -> np.ndarray:
@@ -362,20 +375,32 @@ def _inner_resistance(b: ItemBatch, e: _Elements) -> np.ndarray:
     return wall + film
 
 
-def _aggregate(b, tables, elements, prepared, reasons, n) -> ItemStates:
-    e, present, radii, conductance, outer_area, surface_model = prepared
+def _solve(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model):
     item = e.item
     t_process = b.t_process[item]
     t_air = b.t_air[item]
     t_sur = b.t_surroundings[item]
-    flux = surface.surface_flux_function(
-        surface_model, e.kind, 2.0 * radii[:, -1], e.length, b.wind[item], t_air, t_sur,
-        e.emissivity, iso_ca=e.iso_ca, iso_cb=e.iso_cb, flow_length=e.flow_length)
+    diameter = 2.0 * w.radii[:, -1]
+    wind = b.wind[item]
+
+    def flux_for(rows):
+        return surface.surface_flux_function(
+            surface_model, e.kind[rows], diameter[rows], e.length[rows], wind[rows], t_air[rows],
+            t_sur[rows], e.emissivity[rows], iso_ca=e.iso_ca[rows], iso_cb=e.iso_cb[rows],
+            flow_length=e.flow_length[rows])
+
     t_low = np.minimum(np.minimum(t_process, t_air), t_sur)
     t_high = np.maximum(np.maximum(t_process, t_air), t_sur)
-    sol = solve_walls(t_process, t_low, t_high, conductance, np.where(present, e.layer_table, 0),
-                      present, tables, _inner_resistance(b, e), outer_area, flux)
+    return solve_walls(t_process, t_air, t_low, t_high, w.conductance,
+                       np.where(w.present, e.layer_table, 0), w.present, tables,
+                       _inner_resistance(b, e), w.outer_area, flux_for)
 
+
+def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
+               separates_radiation: bool) -> ItemStates:
+    item = e.item
+    t_air = b.t_air[item]
+    outer_area = w.outer_area
     n_layers = e.layer_table.shape[1]
     weight = e.weight
     heat = weight * sol.heat_rate
@@ -415,19 +440,19 @@ def _aggregate(b, tables, elements, prepared, reasons, n) -> ItemStates:
     balance = np.full(n, np.nan)
     np.fmax.at(balance, item, sol.balance_error)
 
-    reason = np.array(reasons, dtype=object)
+    reason = reasons.copy()
     failed = np.flatnonzero(~item_ok & (reason == ""))
     for i in failed:
         reason[i] = _failure_reason(i, e, sol, tables)
     computed = (reason == "")
-    warnings = _warnings(n, e, sol, tables, present)
+    warnings = _warnings(n, e, sol, tables, w.present)
 
     length = np.where(b.shape == PIPE, b.length, np.nan)
     with np.errstate(invalid="ignore", divide="ignore"):
         per_m = heat_loss / length
         conv_share = np.where(heat_loss != 0, conv / heat_loss, np.nan)
         rad_share = np.where(heat_loss != 0, rad / heat_loss, np.nan)
-    if not surface.surface_model_separates_radiation(surface_model):
+    if not separates_radiation:
         conv_share = np.full(n, np.nan)
         rad_share = np.full(n, np.nan)
     flux_main = sol.q_conv + sol.q_rad

@@ -11,10 +11,11 @@ Q * R.  The residual
 
 increases with T_s (a hotter surface sheds more heat, which needs a hotter inside), is <= 0
 at the lowest of process, air and surroundings temperatures and >= 0 at the highest, so a
-bracketed root always exists and is unique.  The root is found for every element at once
-by the Illinois variant of regula falsi (Dowell, M. and Jarratt, P. (1971), "A modified
-regula falsi method for computing the root of an equation", BIT 11, 168-174,
-doi:10.1007/BF01934364), which keeps the bracket and converges superlinearly.
+bracketed root always exists and is unique.  The root is found for every element at once by
+secant steps safeguarded by the bracket, in the manner of Dekker, T.J. (1969), "Finding a
+zero by means of successive linear interpolation", in Dejon, B. and Henrici, P. (eds.),
+Constructive Aspects of the Fundamental Theorem of Algebra, Wiley, 37-48: superlinear
+where the residual is smooth, never worse than bisection.
 """
 
 from __future__ import annotations
@@ -43,14 +44,16 @@ class WallSolution:
     iterations: int                #: sweeps used
 
 
-def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: ConductivityTables,
-                r_inner, outer_area, flux, *, max_iter: int = 100):
+def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
+                tables: ConductivityTables, r_inner, outer_area, flux_for, *, max_iter: int = 100):
     """Solve the surface temperature and heat rate of n wall elements at once.
 
     Parameters
     ----------
     t_process : numpy.ndarray
         Process (hot-face) temperature [K], (n,).
+    t_air : numpy.ndarray
+        Air temperature [K], (n,); only for the first estimate.
     t_low, t_high : numpy.ndarray
         A bracket of the surface temperature [K]: the lowest and highest of process, air
         and surroundings temperatures, (n,).
@@ -67,8 +70,9 @@ def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: C
         Resistance inside the first layer (inner film, metal wall) per basis [K/W], (n,).
     outer_area : numpy.ndarray
         Outer surface area per basis [m2/m2, m2/m or m2], (n,).
-    flux : callable
-        ``flux(T_s) -> (q_conv, q_rad)`` [W/m2] for all n elements.
+    flux_for : callable
+        ``flux_for(rows)`` returns ``flux(T_s) -> (q_conv, q_rad)`` [W/m2] for the elements
+        ``rows`` (an index array); the solver asks again for fewer rows as elements converge.
     max_iter : int
         Most sweeps of the root finder.  An element stops when its residual is a thousandth
         of what the balance tolerance allows, or when its bracket is a few float steps wide.
@@ -76,63 +80,68 @@ def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: C
     Returns
     -------
     WallSolution
+
+    Notes
+    -----
+    The root finder starts from a linearised series network (conductivities at the mean of
+    process and air temperature, 10 W/(m2 K) at the surface), takes one fixed-point step
+    with the resistances that estimate revealed, then secant steps; a step that leaves the
+    bracket, or follows one that did not halve the residual, is replaced by bisection, so
+    every element converges.  Converged elements leave
+    the working set, so the sweeps cost only what is left to solve.
     """
     n, n_layers = conductance.shape
     # A layer of zero thickness carries heat with no temperature drop: as good as absent.
     present = present & np.isfinite(conductance)
+    every = np.arange(n)
 
-    def march(t_surface):
-        q_conv, q_rad = flux(t_surface)
-        heat = outer_area * (q_conv + q_rad)
-        temps = np.empty((n, n_layers + 1))
-        temps[:, n_layers] = t_surface
-        t = t_surface
-        for j in range(n_layers - 1, -1, -1):
-            if present[:, j].any():
-                with np.errstate(invalid="ignore", divide="ignore"):
-                    potential = tables.phi(table[:, j], t) + heat / conductance[:, j]
-                    t = np.where(present[:, j], tables.phi_inverse(table[:, j], potential), t)
-            temps[:, j] = t
-        return temps, heat, q_conv, q_rad
+    def walls_of(rows):
+        return _Walls(t_process[rows], conductance[rows], table[rows], present[rows],
+                      r_inner[rows], outer_area[rows], tables, flux_for(rows))
 
-    def residual(t_surface):
-        temps, heat, _, _ = march(t_surface)
-        f = temps[:, 0] + heat * r_inner - t_process
-        # No inner temperature can deliver this heat before the extrapolated conductivity
-        # reaches zero: the trial surface is too far from the air, on the side heat flows to.
-        return np.where(np.isnan(temps[:, 0]) & ~np.isnan(heat), np.where(heat > 0, np.inf, -np.inf), f)
+    walls = walls_of(every)
 
-    a, b = t_low.astype(float), t_high.astype(float)
-    fa, fb = residual(a), residual(b)
-    # The surface sits exactly at the process temperature when nothing resists conduction.
-    active = (b - a > _ulps(a, b)) & (fa != 0.0) & (fb != 0.0)
-    root = np.where(fa == 0.0, a, b)
+    # Nothing to solve for an item at ambient, or for bare metal with no inner resistance.
+    settled = (t_high - t_low <= _ulps(t_low, t_high)) | (~present.any(axis=1) & (r_inner == 0.0))
+    root = np.where(settled, t_process, t_low).astype(float)
+    rows = np.flatnonzero(~settled)
+    walls = walls_of(rows)
+    # f(t_low) <= 0 <= f(t_high) (module docstring): the bracket.
+    low, high = t_low[rows].astype(float), t_high[rows].astype(float)
+    x = _first_estimate(walls, t_air[rows])
+    x_prev = f_prev = None
+    live = np.ones(rows.size, bool)
     iterations = 0
     for iterations in range(1, max_iter + 1):
-        if not active.any():
+        if rows.size == 0:
             break
-        denom = fb - fa
+        x = np.where(np.isfinite(x) & (x > low) & (x < high), x, 0.5 * (low + high))
+        f = walls.residual(x)
+        root[rows] = np.where(live, x, root[rows])
+        below = f < 0
+        low, high = np.where(below, x, low), np.where(below, high, x)
+        drop = np.maximum(np.abs(walls.t_process - x), 1e-6)
+        live &= ~((np.abs(f) <= 1e-3 * BALANCE_TOLERANCE * drop) | (high - low <= _ulps(low, high))
+                  | np.isnan(f))
         with np.errstate(invalid="ignore", divide="ignore"):
-            c = b - fb * (b - a) / denom
-        inside = np.isfinite(c) & (c > np.minimum(a, b)) & (c < np.maximum(a, b))
-        c = np.where(inside, c, 0.5 * (a + b))
-        c = np.where(active, c, root)
-        fc = residual(c)
-        same_side = np.sign(fc) == np.sign(fb)
-        # Illinois: when the same end is kept again, halve its residual so it moves next time.
-        new_a = np.where(same_side, a, b)
-        new_fa = np.where(same_side, 0.5 * fa, fb)
-        a = np.where(active, new_a, a)
-        fa = np.where(active, new_fa, fa)
-        b = np.where(active, c, b)
-        fb = np.where(active, fc, fb)
-        root = np.where(active, c, root)
-        drop = np.maximum(np.abs(t_process - c), 1e-6)
-        done = ((np.abs(fc) <= 1e-3 * BALANCE_TOLERANCE * drop) | (np.abs(b - a) <= _ulps(a, b))
-                | np.isnan(fc))
-        active &= ~done
+            if x_prev is None:
+                # A fixed-point step: keep the share of the drop that fell across the surface.
+                step = t_air[rows] + (walls.t_process - t_air[rows]) * (x - t_air[rows]) \
+                    / (f + walls.t_process - t_air[rows])
+            else:
+                secant = x - f * (x - x_prev) / (f - f_prev)
+                # A step that did not halve the residual is followed by bisection.
+                step = np.where(np.abs(f) > 0.5 * np.abs(f_prev), 0.5 * (low + high), secant)
+        x_prev, f_prev = x, f
+        x = np.where(live, step, x)
+        if live.sum() < 0.5 * rows.size:
+            keep = live
+            rows = rows[keep]
+            walls = walls_of(rows)
+            low, high = low[keep], high[keep]
+            x, x_prev, f_prev, live = x[keep], x_prev[keep], f_prev[keep], live[keep]
 
-    temps, heat, q_conv, q_rad = march(root)
+    temps, heat, q_conv, q_rad = walls_of(every).march(root)
     # Relative closure of the series balance: the marched stack needs a temperature drop
     # that misses the real one by |f|; for the heat rate that is a relative error of
     # |f| / drop (exact for constant conductivities, first order otherwise).  Drops below
@@ -144,6 +153,62 @@ def solve_walls(t_process, t_low, t_high, conductance, table, present, tables: C
         balance = np.where(miss == 0.0, 0.0, miss / drop)
     converged = np.isfinite(balance) & (balance <= BALANCE_TOLERANCE) & np.isfinite(heat)
     return WallSolution(root, temps, heat, q_conv, q_rad, balance, converged, iterations)
+
+
+def _first_estimate(walls, t_air):
+    """Surface temperature of the linearised series network [K] (see Notes of solve_walls).
+
+    Conductivities at the mean of process and air temperature, 10 W/(m2 K) at the surface
+    (a typical combined coefficient): only a starting point for the root finder.
+    """
+    t_mean = 0.5 * (walls.t_process + t_air)
+    resistance = walls.r_inner.copy()
+    for j, idx in enumerate(walls.slots):
+        if idx is not None:
+            k = walls.tables.conductivity(walls.table[idx, j], t_mean[idx])
+            with np.errstate(divide="ignore", invalid="ignore"):
+                resistance[idx] += 1.0 / (walls.conductance[idx, j] * k)
+    r_surface = 1.0 / (10.0 * walls.outer_area)
+    return t_air + (walls.t_process - t_air) * r_surface / (r_surface + resistance)
+
+
+class _Walls:
+    """The elements still being solved, with their arrays gathered once."""
+
+    def __init__(self, t_process, conductance, table, present, r_inner, outer_area, tables, flux):
+        self.t_process, self.conductance, self.table = t_process, conductance, table
+        self.present, self.r_inner, self.outer_area = present, r_inner, outer_area
+        self.tables, self.flux = tables, flux
+        # Per layer slot: the positions holding a layer, or None when none does.
+        self.slots = [np.flatnonzero(present[:, j]) if present[:, j].any() else None
+                      for j in range(present.shape[1])]
+
+    def march(self, t_surface):
+        """Interface temperatures, heat rate and fluxes for trial surface temperatures."""
+        q_conv, q_rad = self.flux(t_surface)
+        heat = self.outer_area * (q_conv + q_rad)
+        n_layers = self.conductance.shape[1]
+        temps = np.empty((t_surface.size, n_layers + 1))
+        temps[:, n_layers] = t_surface
+        t = t_surface.copy()
+        for j in range(n_layers - 1, -1, -1):
+            idx = self.slots[j]
+            if idx is not None:
+                tab = self.table[idx, j]
+                with np.errstate(invalid="ignore", divide="ignore"):
+                    potential = self.tables.phi(tab, t[idx]) + heat[idx] / self.conductance[idx, j]
+                t[idx] = self.tables.phi_inverse(tab, potential)
+            temps[:, j] = t
+        return temps, heat, q_conv, q_rad
+
+    def residual(self, t_surface):
+        """Computed minus actual process temperature [K] for trial surface temperatures."""
+        temps, heat, _, _ = self.march(t_surface)
+        f = temps[:, 0] + heat * self.r_inner - self.t_process
+        # No inner temperature can deliver this heat before the extrapolated conductivity
+        # reaches zero: the trial surface is too far from the air, on the side heat flows to.
+        return np.where(np.isnan(temps[:, 0]) & ~np.isnan(heat),
+                        np.where(heat > 0, np.inf, -np.inf), f)
 
 
 def _ulps(a, b):

@@ -36,10 +36,10 @@ def run(geometry_code, r_metal, thicknesses, ks, h, t_process, t_air, r_inner=0.
     factors = np.ones(L) if factors is None else np.asarray(factors)
     t_air_arr = np.full(n, t_air)
     sol = solve_walls(
-        t_process, np.minimum(t_process, t_air_arr), np.maximum(t_process, t_air_arr),
+        t_process, t_air_arr, np.minimum(t_process, t_air_arr), np.maximum(t_process, t_air_arr),
         np.tile(g * factors, (n, 1)), np.tile(np.arange(L), (n, 1)), np.ones((n, L), bool), tables,
         np.full(n, r_inner), np.full(n, geometry.outer_area_factor(geometry_code, radii[-1])),
-        constant_h(h, t_air_arr))
+        lambda rows: constant_h(h, t_air_arr[rows]))
     return sol, radii
 
 

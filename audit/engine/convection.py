@@ -1,0 +1,474 @@
+"""Published Nusselt-number correlations for the outer surfaces of plant items.
+
+One pure, vectorised function per correlation, named
+``nusselt_<regime>_<geometry>_<authors>``; natural-convection functions take the
+Rayleigh and Prandtl numbers, forced-convection functions the Reynolds and
+Prandtl numbers.  Inputs may be scalars, numpy arrays or anything numpy turns
+into an array (a pandas Series, say); outputs are numpy arrays or numpy
+scalars.  Fluid properties belong at the film temperature unless a
+function says otherwise.
+
+Every correlation is registered in :data:`CORRELATIONS`; list them with
+:func:`available_correlations` and fetch one by its short name with
+:func:`get_correlation`.
+
+The correlations are used as written also slightly outside the ranges their
+authors tested (e.g. Ra below the lower limit as a surface approaches the air
+temperature, where they go smoothly to their conduction limits): the validity
+ranges are stated in each docstring so callers can flag such rows.
+"""
+
+from __future__ import annotations
+
+from typing import Callable, NamedTuple
+
+import numpy as np
+
+from audit.errors import EngineInputError
+
+_RA_JOIN_PLATE_UP = (0.54 / 0.15) ** 12
+"""Rayleigh number where 0.54 Ra^(1/4) and 0.15 Ra^(1/3) are equal, about 4.7e6."""
+
+
+def nusselt_natural_horizontal_cylinder_churchill_chu(rayleigh, prandtl):
+    r"""Natural convection from an isothermal horizontal cylinder (Churchill & Chu).
+
+    .. math::
+        Nu_D = \left[0.60 + \frac{0.387\,Ra_D^{1/6}}
+               {\left[1 + (0.559/Pr)^{9/16}\right]^{8/27}}\right]^2
+
+    Parameters
+    ----------
+    rayleigh : float or array_like
+        Rayleigh number on the outer diameter, g beta |dT| D^3 / (nu alpha) [-].
+    prandtl : float or array_like
+        Prandtl number of the fluid [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Average Nusselt number on the diameter, h D / k [-].
+
+    Notes
+    -----
+    Validity: 1e-5 <= Ra_D <= 1e12, all Prandtl numbers.  One expression for
+    the laminar and turbulent ranges; tends to 0.36 as Ra -> 0.
+
+    References
+    ----------
+    Churchill, S. W., Chu, H. H. S. (1975). Correlating equations for laminar
+    and turbulent free convection from a horizontal cylinder. Int. J. Heat
+    Mass Transfer 18(9), 1049-1053. doi:10.1016/0017-9310(75)90222-7
+    """
+    ra = np.asarray(rayleigh, dtype=float)
+    pr = np.asarray(prandtl, dtype=float)
+    term = 0.60 + 0.387 * ra ** (1.0 / 6.0) / (1.0 + (0.559 / pr) ** (9.0 / 16.0)) ** (8.0 / 27.0)
+    return term * term
+
+
+def nusselt_natural_vertical_plate_churchill_chu(rayleigh, prandtl):
+    r"""Natural convection from an isothermal vertical plate, all-Ra form (Churchill & Chu).
+
+    .. math::
+        Nu_L = \left[0.825 + \frac{0.387\,Ra_L^{1/6}}
+               {\left[1 + (0.492/Pr)^{9/16}\right]^{8/27}}\right]^2
+
+    Parameters
+    ----------
+    rayleigh : float or array_like
+        Rayleigh number on the height L, g beta |dT| L^3 / (nu alpha) [-].
+    prandtl : float or array_like
+        Prandtl number of the fluid [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Average Nusselt number on the height, h L / k [-].
+
+    Notes
+    -----
+    Validity: 1e-1 <= Ra_L <= 1e12, all Prandtl numbers.
+
+    Also used for vertical cylinders with the height as L.  That is accurate
+    when the boundary layer is thin against the diameter, the usual criterion
+    being D / L >= 35 / Gr_L^(1/4) (Incropera et al.); thinner cylinders
+    transfer more heat than this predicts.
+
+    References
+    ----------
+    Churchill, S. W., Chu, H. H. S. (1975). Correlating equations for laminar
+    and turbulent free convection from a vertical plate. Int. J. Heat Mass
+    Transfer 18(11), 1323-1329. doi:10.1016/0017-9310(75)90243-4
+
+    Bergman, T. L., Lavine, A. S., Incropera, F. P., DeWitt, D. P. (2011).
+    Fundamentals of Heat and Mass Transfer, 7th ed., Wiley, Chapter 9
+    (vertical cylinders).
+    """
+    ra = np.asarray(rayleigh, dtype=float)
+    pr = np.asarray(prandtl, dtype=float)
+    term = 0.825 + 0.387 * ra ** (1.0 / 6.0) / (1.0 + (0.492 / pr) ** (9.0 / 16.0)) ** (8.0 / 27.0)
+    return term * term
+
+
+def nusselt_natural_sphere_churchill(rayleigh, prandtl):
+    r"""Natural convection from an isothermal sphere (Churchill).
+
+    .. math::
+        Nu_D = 2 + \frac{0.589\,Ra_D^{1/4}}{\left[1 + (0.469/Pr)^{9/16}\right]^{4/9}}
+               \left\{1 + \frac{7.44\times10^{-8}\,Ra_D}
+               {\left[1 + (0.469/Pr)^{9/16}\right]^{16/9}}\right\}^{1/12}
+
+    Parameters
+    ----------
+    rayleigh : float or array_like
+        Rayleigh number on the diameter [-].
+    prandtl : float or array_like
+        Prandtl number of the fluid [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Average Nusselt number on the diameter [-].
+
+    Notes
+    -----
+    Validity: Ra_D up to about 1e13 as quoted with the Handbook form, Pr >= 0.7
+    (Nellis & Klein quote Ra_D <= 1e11).  Tends to the conduction limit 2 as
+    Ra -> 0.
+
+    References
+    ----------
+    Churchill, S. W. (1983). Free convection around immersed bodies. In
+    Schlünder, E. U. (ed.), Heat Exchanger Design Handbook.
+    Hemisphere, Washington.
+    """
+    ra = np.asarray(rayleigh, dtype=float)
+    pr = np.asarray(prandtl, dtype=float)
+    f = 1.0 + (0.469 / pr) ** (9.0 / 16.0)
+    return 2.0 + 0.589 * ra ** 0.25 / f ** (4.0 / 9.0) * (
+        1.0 + 7.44e-8 * ra / f ** (16.0 / 9.0)) ** (1.0 / 12.0)
+
+
+def nusselt_natural_horizontal_plate_up_mcadams(rayleigh, prandtl):
+    r"""Natural convection above a hot horizontal plate facing up (McAdams, Lloyd & Moran).
+
+    Also the case of a cold plate facing down: the flow is the same, mirrored.
+
+    .. math::
+        Nu_L = \max\left(0.54\,Ra_L^{1/4},\ 0.15\,Ra_L^{1/3}\right)
+
+    Parameters
+    ----------
+    rayleigh : float or array_like
+        Rayleigh number on the characteristic length L = A/P (plate area over
+        perimeter) [-].
+    prandtl : float or array_like
+        Prandtl number of the fluid [-]; not used (the correlation has no
+        Prandtl dependence), accepted for a uniform signature.
+
+    Returns
+    -------
+    numpy.ndarray
+        Average Nusselt number on L [-].
+
+    Notes
+    -----
+    Validity: 0.54 Ra^(1/4) for 1e4 <= Ra_L <= 1e7 (Pr >= 0.7), 0.15 Ra^(1/3)
+    for 1e7 <= Ra_L <= 1e11 (all Pr).  The published laws switch at Ra = 1e7,
+    where Nu jumps by 6 %.  Here they are joined where they cross
+    (Ra = (0.54/0.15)^12 = 4.7e6), i.e. the larger of the two is taken: Nu is
+    then continuous, which the surface-temperature solver relies on, and it
+    exceeds the published piecewise value only for 4.7e6 < Ra < 1e7, by at
+    most 6.4 %.  This join is our choice, not part of the references.
+
+    References
+    ----------
+    McAdams, W. H. (1954). Heat Transmission, 3rd ed., McGraw-Hill, New York.
+
+    Lloyd, J. R., Moran, W. R. (1974). Natural convection adjacent to
+    horizontal surface of various planforms. J. Heat Transfer 96(4), 443-447
+    (characteristic length A/P).
+    """
+    ra = np.asarray(rayleigh, dtype=float)
+    return np.where(ra < _RA_JOIN_PLATE_UP, 0.54 * ra ** 0.25, 0.15 * np.cbrt(ra))
+
+
+def nusselt_natural_horizontal_plate_down_mcadams(rayleigh, prandtl):
+    r"""Natural convection below a hot horizontal plate facing down (McAdams).
+
+    Also the case of a cold plate facing up.
+
+    .. math::
+        Nu_L = 0.27\,Ra_L^{1/4}
+
+    Parameters
+    ----------
+    rayleigh : float or array_like
+        Rayleigh number on the characteristic length L = A/P [-].
+    prandtl : float or array_like
+        Prandtl number of the fluid [-]; not used, accepted for a uniform
+        signature.
+
+    Returns
+    -------
+    numpy.ndarray
+        Average Nusselt number on L [-].
+
+    Notes
+    -----
+    Validity: 1e5 <= Ra_L <= 1e10, Pr >= 0.7.
+
+    References
+    ----------
+    McAdams, W. H. (1954). Heat Transmission, 3rd ed., McGraw-Hill, New York.
+
+    Incropera, F. P., DeWitt, D. P., Bergman, T. L., Lavine, A. S. (2007).
+    Fundamentals of Heat and Mass Transfer, 6th ed., Wiley, Chapter 9.
+    """
+    ra = np.asarray(rayleigh, dtype=float)
+    return 0.27 * ra ** 0.25
+
+
+def nusselt_forced_cylinder_churchill_bernstein(reynolds, prandtl):
+    r"""Forced convection from a cylinder in cross-flow (Churchill & Bernstein).
+
+    .. math::
+        Nu_D = 0.3 + \frac{0.62\,Re_D^{1/2} Pr^{1/3}}{\left[1 + (0.4/Pr)^{2/3}\right]^{1/4}}
+               \left[1 + \left(\frac{Re_D}{282000}\right)^{5/8}\right]^{4/5}
+
+    Parameters
+    ----------
+    reynolds : float or array_like
+        Reynolds number on the outer diameter, V D / nu [-].
+    prandtl : float or array_like
+        Prandtl number of the fluid [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Average Nusselt number on the diameter [-].
+
+    Notes
+    -----
+    Validity: Re_D Pr >= 0.2, properties at the film temperature.  One
+    expression over the whole Re range.
+
+    References
+    ----------
+    Churchill, S. W., Bernstein, M. (1977). A correlating equation for forced
+    convection from gases and liquids to a circular cylinder in crossflow.
+    J. Heat Transfer 99(2), 300-306. doi:10.1115/1.3450685
+    """
+    re = np.asarray(reynolds, dtype=float)
+    pr = np.asarray(prandtl, dtype=float)
+    return 0.3 + 0.62 * np.sqrt(re) * np.cbrt(pr) / (1.0 + (0.4 / pr) ** (2.0 / 3.0)) ** 0.25 * (
+        1.0 + (re / 282000.0) ** 0.625) ** 0.8
+
+
+def nusselt_forced_sphere_whitaker(reynolds, prandtl, viscosity_ratio=1.0):
+    r"""Forced convection from a sphere (Whitaker).
+
+    .. math::
+        Nu_D = 2 + \left(0.4\,Re_D^{1/2} + 0.06\,Re_D^{2/3}\right) Pr^{0.4}
+               \left(\mu/\mu_s\right)^{1/4}
+
+    Parameters
+    ----------
+    reynolds : float or array_like
+        Reynolds number on the diameter, properties at the free-stream
+        temperature [-].
+    prandtl : float or array_like
+        Prandtl number at the free-stream temperature [-].
+    viscosity_ratio : float or array_like, optional
+        Free-stream over surface dynamic viscosity mu/mu_s [-].  Defaults to 1:
+        the ratio corrects for the change of viscosity across the boundary layer
+        of liquids; for gases it stays near 1 and the engine uses film-temperature
+        properties instead, as for the other correlations.
+
+    Returns
+    -------
+    numpy.ndarray
+        Average Nusselt number on the diameter [-].
+
+    Notes
+    -----
+    Validity: 3.5 <= Re_D <= 7.6e4, 0.71 <= Pr <= 380, 1 <= mu/mu_s <= 3.2.
+    Tends to the conduction limit 2 as Re -> 0.
+
+    References
+    ----------
+    Whitaker, S. (1972). Forced convection heat transfer correlations for flow
+    in pipes, past flat plates, single cylinders, single spheres, and for flow
+    in packed beds and tube bundles. AIChE J. 18(2), 361-371.
+    doi:10.1002/aic.690180219
+    """
+    re = np.asarray(reynolds, dtype=float)
+    pr = np.asarray(prandtl, dtype=float)
+    ratio = np.asarray(viscosity_ratio, dtype=float)
+    return 2.0 + (0.4 * np.sqrt(re) + 0.06 * re ** (2.0 / 3.0)) * pr ** 0.4 * ratio ** 0.25
+
+
+_RE_TRANSITION_PLATE = 5e5
+_A_MIXED_PLATE = 871.0  # 0.037 Re_c^0.8 - 0.664 Re_c^0.5 at Re_c = 5e5, rounded as published
+
+
+def nusselt_forced_flat_plate_mixed_incropera(reynolds, prandtl):
+    r"""Average forced convection over an isothermal flat plate, laminar then mixed.
+
+    Named after the textbook (Incropera et al.) that gives the combined form.
+
+    .. math::
+        Nu_L = 0.664\,Re_L^{1/2} Pr^{1/3} \quad (Re_L \le 5\times10^5), \qquad
+        Nu_L = (0.037\,Re_L^{4/5} - 871)\,Pr^{1/3} \quad (Re_L > 5\times10^5)
+
+    Parameters
+    ----------
+    reynolds : float or array_like
+        Reynolds number on the plate length in the flow direction, V L / nu [-].
+    prandtl : float or array_like
+        Prandtl number of the fluid [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Average Nusselt number on the flow length [-].
+
+    Notes
+    -----
+    Validity: laminar form 0.6 <= Pr (Pohlhausen); mixed form
+    5e5 < Re_L <= 1e8, 0.6 <= Pr <= 60, transition at Re_x,c = 5e5.  The
+    constant 871 makes the two forms meet at the transition to within 0.1 %;
+    the larger of the two is taken, so Nu is continuous in Re (this changes
+    the published values by less than 0.1 %, just below Re = 5e5).
+
+    References
+    ----------
+    Pohlhausen, E. (1921). Der Wärmeaustausch zwischen festen Körpern und
+    Flüssigkeiten mit kleiner Reibung und kleiner Wärmeleitung. Z. angew.
+    Math. Mech. 1, 115-121 (laminar form).
+
+    Bergman, T. L., Lavine, A. S., Incropera, F. P., DeWitt, D. P. (2011).
+    Fundamentals of Heat and Mass Transfer, 7th ed., Wiley, Chapter 7
+    (mixed boundary layer).
+    """
+    re = np.asarray(reynolds, dtype=float)
+    cbrt_pr = np.cbrt(np.asarray(prandtl, dtype=float))
+    laminar = 0.664 * np.sqrt(re)
+    mixed = 0.037 * re ** 0.8 - _A_MIXED_PLATE
+    # Above the crossing (just below Re = 5e5) the mixed form is the larger one.
+    return np.maximum(laminar, mixed) * cbrt_pr
+
+
+def combine_nusselt(nu_natural, nu_forced, n=3.0):
+    r"""Churchill's combination of natural and forced convection.
+
+    .. math::
+        Nu = \left(Nu_n^{\,n} + Nu_f^{\,n}\right)^{1/n}
+
+    Parameters
+    ----------
+    nu_natural : float or array_like
+        Nusselt number (or heat transfer coefficient [W/(m2 K)]) of natural
+        convection alone [-].
+    nu_forced : float or array_like
+        Nusselt number (or coefficient, same unit) of forced convection alone [-].
+    n : float, optional
+        Exponent [-]; 3 for assisting and transverse flows (the default).
+
+    Returns
+    -------
+    numpy.ndarray
+        Combined Nusselt number (or coefficient) [-].
+
+    Notes
+    -----
+    Valid for any non-negative inputs.  With different length scales for the
+    two regimes, combine the heat transfer coefficients instead of the
+    Nusselt numbers (the form is the same).
+
+    References
+    ----------
+    Churchill, S. W. (1977). A comprehensive correlating equation for
+    laminar, assisting, forced and free convection. AIChE J. 23(1), 10-16.
+    """
+    a = np.asarray(nu_natural, dtype=float)
+    b = np.asarray(nu_forced, dtype=float)
+    if n == 3.0:
+        return np.cbrt(a * a * a + b * b * b)
+    return (a ** n + b ** n) ** (1.0 / n)
+
+
+class Correlation(NamedTuple):
+    """One registered correlation."""
+
+    name: str
+    function: Callable
+    regime: str    #: "natural" or "forced"
+    geometry: str
+    reference: str
+
+
+CORRELATIONS: dict[str, Correlation] = {c.name: c for c in (
+    Correlation("horizontal-cylinder-churchill-chu",
+                nusselt_natural_horizontal_cylinder_churchill_chu, "natural",
+                "horizontal cylinder",
+                "Churchill & Chu (1975), Int. J. Heat Mass Transfer 18, 1049"),
+    Correlation("vertical-plate-churchill-chu",
+                nusselt_natural_vertical_plate_churchill_chu, "natural",
+                "vertical plate or vertical cylinder",
+                "Churchill & Chu (1975), Int. J. Heat Mass Transfer 18, 1323"),
+    Correlation("sphere-churchill", nusselt_natural_sphere_churchill, "natural", "sphere",
+                "Churchill (1983), Heat Exchanger Design Handbook"),
+    Correlation("horizontal-plate-up-mcadams", nusselt_natural_horizontal_plate_up_mcadams,
+                "natural", "horizontal plate, hot facing up or cold facing down",
+                "McAdams (1954); Lloyd & Moran (1974), J. Heat Transfer 96, 443"),
+    Correlation("horizontal-plate-down-mcadams", nusselt_natural_horizontal_plate_down_mcadams,
+                "natural", "horizontal plate, hot facing down or cold facing up",
+                "McAdams (1954)"),
+    Correlation("cylinder-crossflow-churchill-bernstein",
+                nusselt_forced_cylinder_churchill_bernstein, "forced", "cylinder in cross-flow",
+                "Churchill & Bernstein (1977), J. Heat Transfer 99, 300"),
+    Correlation("sphere-whitaker", nusselt_forced_sphere_whitaker, "forced", "sphere",
+                "Whitaker (1972), AIChE J. 18, 361"),
+    Correlation("flat-plate-mixed", nusselt_forced_flat_plate_mixed_incropera, "forced",
+                "flat plate, parallel flow",
+                "Pohlhausen (1921); Bergman et al. (2011), Fundamentals of Heat and Mass "
+                "Transfer 7th ed., Chapter 7"),
+)}
+"""Every correlation of this module by its short name."""
+
+
+def available_correlations() -> tuple[Correlation, ...]:
+    """The registered correlations, each with its regime, geometry and reference.
+
+    Returns
+    -------
+    tuple of Correlation
+        In registration order.
+    """
+    return tuple(CORRELATIONS.values())
+
+
+def get_correlation(name: str) -> Callable:
+    """The correlation function registered under ``name``.
+
+    Parameters
+    ----------
+    name : str
+        Short name, one of :func:`available_correlations`.
+
+    Returns
+    -------
+    callable
+        The Nusselt-number function.
+
+    Raises
+    ------
+    EngineInputError
+        For an unknown name; the message lists the available ones.
+    """
+    try:
+        return CORRELATIONS[name].function
+    except (KeyError, TypeError):
+        raise EngineInputError("unknown convection correlation", value=name,
+                               expected="one of " + ", ".join(CORRELATIONS)) from None

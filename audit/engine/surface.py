@@ -1,0 +1,464 @@
+"""Heat flux from an outer surface to the air and surroundings, for the solver.
+
+A surface model turns a surface temperature into a convective and a radiative
+heat flux.  :func:`surface_flux_function` does once, for n surfaces of mixed
+kinds, everything that does not depend on the surface temperature, and returns
+a fast vectorised ``flux(T_s) -> (q_conv, q_rad)`` for the solver to call
+repeatedly.  Fluxes are in W/m2 of outer surface, positive when heat leaves the
+surface.
+
+Surface kinds are small integer codes, so one call serves a whole register:
+
+==========================  ====  ===========================================
+kind                        code  ``length`` means
+==========================  ====  ===========================================
+HORIZONTAL_CYLINDER         0     (not used)
+VERTICAL_CYLINDER           1     height
+SPHERE                      2     (not used)
+VERTICAL_PLATE              3     height
+HORIZONTAL_PLATE_UP         4     area / perimeter; exposed face looks up
+HORIZONTAL_PLATE_DOWN       5     area / perimeter; exposed face looks down
+==========================  ====  ===========================================
+
+Models, by name (see :func:`available_surface_models`):
+
+``correlations``
+    Published natural- and forced-convection correlations per kind
+    (:mod:`audit.engine.convection`), combined by Churchill's rule, plus
+    grey-body radiation to the surroundings (:mod:`audit.engine.radiation`).
+``iso12241-simplified``
+    The simplified total surface coefficient of ISO 12241, radiation lumped in.
+
+Notes on ``correlations``
+-------------------------
+=====================  ==============================  ================================
+kind                   natural convection (length)     forced convection (length)
+=====================  ==============================  ================================
+horizontal cylinder    Churchill & Chu cylinder (D)    Churchill & Bernstein (D)
+vertical cylinder      Churchill & Chu plate (height)  Churchill & Bernstein (D)
+sphere                 Churchill (D)                   Whitaker, mu/mu_s = 1 (D)
+vertical plate         Churchill & Chu plate (height)  flat plate laminar/mixed (flow)
+horizontal plate       McAdams on A/P: the rising-     flat plate laminar/mixed (flow)
+                       flow law for hot-up and
+                       cold-down, the other for
+                       hot-down and cold-up
+=====================  ==============================  ================================
+
+* Natural convection: air properties at the film temperature (T_s + T_a)/2,
+  beta = 1/T_film, Ra from |T_s - T_a|.
+* Forced convection (wind > 0, assumed across cylinders and spheres and along
+  plates): air properties at the air temperature, the free-stream convention
+  (Whitaker's own; Churchill & Bernstein and the flat-plate average are
+  usually quoted at the film temperature).  Chosen because with film
+  properties a large surface-to-air difference makes the Reynolds number fall
+  as the surface heats; near the flat plate's transition (Re = 5e5), where Nu
+  rises as Re^2.3, the flux then fell with rising surface temperature, by up
+  to 14 % in our scans: an artifact that would give the solver several roots.
+  With free-stream properties the forced coefficient does not depend on T_s
+  and the flux rises monotonically.  Vertical cylinders use the cross-flow
+  correlation on the diameter, the wind being horizontal.
+* With no wind the forced term is left out: its Re -> 0 limits (0.3 for a
+  cylinder, 2 for a sphere) are conduction limits the natural correlations
+  already contain.
+* Combination: h = (h_natural^3 + h_forced^3)^(1/3) on coefficients, which is
+  Churchill's Nusselt-number rule when both use the same length.
+* The correlations are applied also outside their tested ranges (the ranges
+  are in each docstring), e.g. at Ra below 1e4 on horizontal plates as a
+  surface approaches the air temperature, or to vertical cylinders thinner
+  than D/L >= 35/Gr_L^(1/4), where the plate law understates the loss.
+"""
+
+from __future__ import annotations
+
+from typing import Callable, NamedTuple
+
+import numpy as np
+
+from audit.engine import convection as cv
+from audit.engine.air import air_properties, air_transport_tabulated
+from audit.engine.radiation import STEFAN_BOLTZMANN
+from audit.errors import EngineInputError
+
+HORIZONTAL_CYLINDER = 0
+VERTICAL_CYLINDER = 1
+SPHERE = 2
+VERTICAL_PLATE = 3
+HORIZONTAL_PLATE_UP = 4
+HORIZONTAL_PLATE_DOWN = 5
+
+SURFACE_KINDS = {
+    HORIZONTAL_CYLINDER: "horizontal cylinder",
+    VERTICAL_CYLINDER: "vertical cylinder",
+    SPHERE: "sphere",
+    VERTICAL_PLATE: "vertical plate",
+    HORIZONTAL_PLATE_UP: "horizontal plate facing up",
+    HORIZONTAL_PLATE_DOWN: "horizontal plate facing down",
+}
+"""Name of each surface kind code."""
+
+GRAVITY = 9.80665
+"""Standard acceleration of gravity [m/s2] (CGPM 1901, exact)."""
+
+ISO12241_OUTSIDE_SCOPE = frozenset({SPHERE, HORIZONTAL_PLATE_UP, HORIZONTAL_PLATE_DOWN})
+"""Kinds the simplified ISO 12241 coefficient does not cover; the
+``iso12241-simplified`` model gives them the vertical-surface form, and callers
+should flag such results."""
+
+
+class SurfaceModel(NamedTuple):
+    """A registered surface model."""
+
+    name: str
+    description: str
+    separates_radiation: bool  #: False when q_rad is lumped into q_conv (q_rad returned as 0)
+    reference: str
+    build: Callable            #: the builder :func:`surface_flux_function` calls
+
+
+def _rows(name, value, n):
+    """``value`` as a length-n float array (scalars are broadcast)."""
+    try:
+        return np.broadcast_to(np.asarray(value, dtype=float), (n,))
+    except ValueError:
+        raise EngineInputError("surface input has the wrong length", column=name,
+                               value=np.shape(value), expected=f"{n} values or one") from None
+
+
+def _require(ok, name, values, expected):
+    """Raise naming the first element where ``ok`` is False (NaN fails every check)."""
+    if not np.all(ok):
+        i = int(np.flatnonzero(~np.asarray(ok))[0])
+        raise EngineInputError(f"surface input out of range at element {i}", column=name,
+                               value=float(values[i]), expected=expected)
+
+
+def surface_flux_function(model, kind, diameter, length, wind, air_temp, surroundings_temp,
+                          emissivity, *, iso_ca=None, iso_cb=None, flow_length=None):
+    """Build ``flux(T_s) -> (q_conv, q_rad)`` for n outer surfaces.
+
+    Parameters
+    ----------
+    model : str
+        Surface model name, one of :func:`available_surface_models`.
+    kind : array_like of int
+        Surface kind code per row, see the module docstring [-].  Its length
+        is n; every other array has length n too (or is a scalar, broadcast).
+    diameter : array_like
+        Outer surface diameter of cylinders and spheres; not used for plates [m].
+    length : array_like
+        Height of vertical cylinders and vertical plates, area/perimeter of
+        horizontal plates; not used for horizontal cylinders and spheres [m].
+    wind : array_like
+        Wind speed, >= 0 [m/s].
+    air_temp : array_like
+        Ambient air temperature [K].
+    surroundings_temp : array_like
+        Mean radiant temperature of the surroundings [K].
+    emissivity : array_like
+        Emissivity of the outer surface, 0 to 1 [-].
+    iso_ca, iso_cb : array_like, optional
+        Constants C_A (horizontal pipes) and C_B (vertical pipes and walls) of
+        the simplified ISO 12241 coefficient per row [W/(m2 K)]; required by
+        ``iso12241-simplified``, ignored by ``correlations``.
+    flow_length : array_like, optional
+        Plate length along the wind, used by ``correlations`` for forced
+        convection over plates [m].  Defaults to ``length``, i.e. the height
+        of vertical plates and A/P of horizontal ones; A/P is shorter than a
+        plate's real flow length (a quarter of a square's side), which
+        overstates forced convection, so pass the flow length when known.
+
+    Returns
+    -------
+    callable
+        ``flux(T_s)`` taking surface temperatures [K], length n (or a scalar),
+        and returning ``(q_conv, q_rad)`` [W/m2], arrays of length n, positive
+        for heat leaving the surface.
+
+    Raises
+    ------
+    EngineInputError
+        Unknown model, wrong array lengths, an unknown kind code, or an input
+        out of its range (naming the first bad element).
+    """
+    spec = get_surface_model(model)
+    kind = np.asarray(kind)
+    if kind.ndim != 1:
+        raise EngineInputError("surface kind must be a one-dimensional array", column="kind",
+                               value=kind.shape, expected="shape (n,)")
+    _require(np.isin(kind, list(SURFACE_KINDS)), "kind", kind,
+             "a surface kind code 0-5")
+    n = kind.size
+    kind = kind.astype(np.int64, copy=False)
+    arrays = {name: _rows(name, value, n) for name, value in (
+        ("diameter", diameter), ("length", length), ("wind", wind), ("air_temp", air_temp),
+        ("surroundings_temp", surroundings_temp), ("emissivity", emissivity))}
+    arrays["flow_length"] = arrays["length"] if flow_length is None else _rows(
+        "flow_length", flow_length, n)
+    for name, value in (("iso_ca", iso_ca), ("iso_cb", iso_cb)):
+        arrays[name] = None if value is None else _rows(name, value, n)
+    _require(np.isfinite(arrays["air_temp"]) & (arrays["air_temp"] > 0), "air_temp",
+             arrays["air_temp"], "a temperature > 0 K")
+    return spec.build(kind, **arrays)
+
+
+# ----------------------------------------------------------------------------------------
+# model "correlations"
+
+class _Group(NamedTuple):
+    """Rows of one kind family, with what the flux needs that does not depend on T_s."""
+
+    rows: np.ndarray | slice
+    natural: Callable | None   # None for horizontal plates (orientation decides per call)
+    g_l3: np.ndarray           # g L^3 of the natural-convection length [m4/s2]
+    inv_l: np.ndarray          # 1 / natural-convection length [1/m]
+    facing_up: np.ndarray | None  # horizontal plates: True where the exposed face looks up
+    windy: np.ndarray          # positions within the group with wind > 0
+    h_forced: np.ndarray       # forced-convection coefficient of those rows [W/(m2 K)]
+
+
+def _build_correlations(kind, *, diameter, length, wind, air_temp, surroundings_temp,
+                        emissivity, flow_length, **_unused):
+    n = kind.size
+    _require(np.isfinite(surroundings_temp) & (surroundings_temp > 0), "surroundings_temp",
+             surroundings_temp, "a temperature > 0 K")
+    _require((emissivity >= 0) & (emissivity <= 1), "emissivity", emissivity, "0 to 1")
+    _require(np.isfinite(wind) & (wind >= 0), "wind", wind, ">= 0 m/s")
+    round_kinds = np.isin(kind, [HORIZONTAL_CYLINDER, VERTICAL_CYLINDER, SPHERE])
+    _require(~round_kinds | (np.isfinite(diameter) & (diameter > 0)), "diameter", diameter,
+             "> 0 m for cylinders and spheres")
+    long_kinds = ~np.isin(kind, [HORIZONTAL_CYLINDER, SPHERE])
+    _require(~long_kinds | (np.isfinite(length) & (length > 0)), "length", length,
+             "> 0 m for vertical cylinders and plates")
+    plates = np.isin(kind, [VERTICAL_PLATE, HORIZONTAL_PLATE_UP, HORIZONTAL_PLATE_DOWN])
+    _require(~(plates & (wind > 0)) | (np.isfinite(flow_length) & (flow_length > 0)),
+             "flow_length", flow_length, "> 0 m for plates in wind")
+
+    # (kinds, natural correlation, its length, forced correlation, its length)
+    families = (
+        ((HORIZONTAL_CYLINDER,), cv.nusselt_natural_horizontal_cylinder_churchill_chu, diameter,
+         cv.nusselt_forced_cylinder_churchill_bernstein, diameter),
+        ((VERTICAL_CYLINDER,), cv.nusselt_natural_vertical_plate_churchill_chu, length,
+         cv.nusselt_forced_cylinder_churchill_bernstein, diameter),
+        ((SPHERE,), cv.nusselt_natural_sphere_churchill, diameter,
+         cv.nusselt_forced_sphere_whitaker, diameter),
+        ((VERTICAL_PLATE,), cv.nusselt_natural_vertical_plate_churchill_chu, length,
+         cv.nusselt_forced_flat_plate_mixed_incropera, flow_length),
+        ((HORIZONTAL_PLATE_UP, HORIZONTAL_PLATE_DOWN), None, length,
+         cv.nusselt_forced_flat_plate_mixed_incropera, flow_length),
+    )
+    # Forced convection with free-stream (air-temperature) properties: see the notes of
+    # the "correlations" model in the module docstring.
+    free = air_properties(air_temp)
+    groups = []
+    for kinds, natural, l_nat, forced, l_forced in families:
+        idx = np.flatnonzero(np.isin(kind, kinds))
+        if idx.size == 0:
+            continue
+        rows = slice(None) if idx.size == n else idx  # a slice keeps views, no copies
+        ln = np.ascontiguousarray(l_nat[rows])
+        windy = np.flatnonzero(wind[rows] > 0)
+        at = np.arange(n)[rows][windy]
+        lf = l_forced[at]
+        nu_f = forced(wind[at] * lf / free.kinematic_viscosity[at], free.prandtl[at])
+        groups.append(_Group(
+            rows=rows, natural=natural, g_l3=GRAVITY * ln ** 3, inv_l=1.0 / ln,
+            facing_up=None if natural else kind[rows] == HORIZONTAL_PLATE_UP,
+            windy=windy, h_forced=nu_f * free.conductivity[at] / lf))
+
+    t_air = np.array(air_temp, dtype=float)
+    eps_sigma = emissivity * STEFAN_BOLTZMANN
+    rad_offset = eps_sigma * np.asarray(surroundings_temp, dtype=float) ** 4
+
+    def flux(surface_temp):
+        ts = _rows("surface_temp", surface_temp, n)
+        dt = ts - t_air
+        t_film = 0.5 * (ts + t_air)
+        air = air_transport_tabulated(t_film)
+        k, nu, pr = air.conductivity, air.kinematic_viscosity, air.prandtl
+        # Ra = g beta |dT| L^3 / (nu alpha) with beta = 1/T_film and alpha = nu / Pr.
+        ra_per_gl3 = np.abs(dt) * pr / (t_film * nu * nu)
+        h = np.empty(n)
+        for g in groups:
+            r = g.rows
+            ra, pr_g, k_g = g.g_l3 * ra_per_gl3[r], pr[r], k[r]
+            if g.natural is None:
+                # Heat rising off the exposed face: hot facing up or cold facing down.
+                rising = (dt[r] > 0) == g.facing_up
+                nu_nat = np.where(rising, cv.nusselt_natural_horizontal_plate_up_mcadams(ra, pr_g),
+                                  cv.nusselt_natural_horizontal_plate_down_mcadams(ra, pr_g))
+            else:
+                nu_nat = g.natural(ra, pr_g)
+            h_g = nu_nat * k_g * g.inv_l
+            if g.windy.size:
+                # Coefficients, not Nusselt numbers: the two regimes may use different lengths.
+                h_g[g.windy] = cv.combine_nusselt(h_g[g.windy], g.h_forced)
+            h[r] = h_g
+        ts2 = ts * ts
+        return h * dt, eps_sigma * (ts2 * ts2) - rad_offset
+
+    return flux
+
+
+# ----------------------------------------------------------------------------------------
+# model "iso12241-simplified"
+
+ISO12241_SLOPE_HORIZONTAL = 0.05
+"""Slope of the simplified coefficient for horizontal pipes [W/(m2 K2)]."""
+ISO12241_SLOPE_VERTICAL = 0.09
+"""Slope of the simplified coefficient for vertical pipes and walls [W/(m2 K2)]."""
+
+
+def coefficient_iso12241_simplified(surface_temp, air_temp, c_a, c_b, horizontal):
+    r"""Simplified total surface coefficient of ISO 12241 (convection and radiation).
+
+    .. math::
+        h = C_A + 0.05\,|\Delta T| \quad\text{(horizontal pipes)}, \qquad
+        h = C_B + 0.09\,|\Delta T| \quad\text{(vertical pipes and walls)}
+
+    with :math:`\Delta T = T_s - T_a`.
+
+    Parameters
+    ----------
+    surface_temp : float or array_like
+        Outer surface temperature [K].
+    air_temp : float or array_like
+        Ambient air temperature [K].
+    c_a : float or array_like
+        Constant C_A of the surface finish, for horizontal pipes [W/(m2 K)].
+    c_b : float or array_like
+        Constant C_B of the surface finish, for vertical pipes and walls [W/(m2 K)].
+    horizontal : bool or array_like of bool
+        True for horizontal pipes, False for vertical pipes and walls [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Total surface coefficient h [W/(m2 K)]; the heat flux is h (T_s - T_a),
+        radiation included.
+
+    Notes
+    -----
+    The form and the slopes 0.05 and 0.09 W/(m2 K2) are quoted from memory of
+    ISO 12241:2008 (simplified calculation of the surface coefficient, for
+    installations inside buildings, still air, surroundings at air
+    temperature); no public text of the standard could be checked.  The
+    constants C_A, C_B depend on the surface finish and come from the rules.
+    The magnitude |dT| makes the coefficient the same for hot and cold
+    surfaces (the standard states it for hot ones); the flux then still
+    follows the sign of dT and grows monotonically with T_s.
+
+    References
+    ----------
+    ISO 12241:2008. Thermal insulation for building equipment and industrial
+    installations - Calculation rules. ISO, Geneva.
+    """
+    dt = np.abs(np.asarray(surface_temp, dtype=float) - np.asarray(air_temp, dtype=float))
+    return np.where(horizontal, c_a + ISO12241_SLOPE_HORIZONTAL * dt,
+                    c_b + ISO12241_SLOPE_VERTICAL * dt)
+
+
+def _build_iso12241_simplified(kind, *, air_temp, iso_ca, iso_cb, **_unused):
+    """Horizontal cylinders get the C_A form; every other kind the C_B form.
+
+    Spheres and horizontal plates are outside the simplified method's scope
+    (:data:`ISO12241_OUTSIDE_SCOPE`); the wall form is the nearer stand-in for
+    them: large vessel heads and flat surfaces are closer to walls than to
+    small horizontal pipes.
+    """
+    if iso_ca is None or iso_cb is None:
+        raise EngineInputError(
+            "the iso12241-simplified surface model needs the constants C_A and C_B",
+            column="iso_ca" if iso_ca is None else "iso_cb",
+            expected="iso_ca and iso_cb arrays [W/(m2 K)]")
+    horizontal = kind == HORIZONTAL_CYLINDER
+    _require(~horizontal | (np.isfinite(iso_ca) & (iso_ca >= 0)), "iso_ca", iso_ca,
+             ">= 0 W/(m2 K) for horizontal cylinders")
+    _require(horizontal | (np.isfinite(iso_cb) & (iso_cb >= 0)), "iso_cb", iso_cb,
+             ">= 0 W/(m2 K) for vertical and other surfaces")
+    c0 = np.where(horizontal, iso_ca, iso_cb)
+    c1 = np.where(horizontal, ISO12241_SLOPE_HORIZONTAL, ISO12241_SLOPE_VERTICAL)
+    t_air = np.array(air_temp, dtype=float)
+    n = kind.size
+
+    def flux(surface_temp):
+        dt = _rows("surface_temp", surface_temp, n) - t_air
+        return (c0 + c1 * np.abs(dt)) * dt, np.zeros(n)
+
+    return flux
+
+
+# ----------------------------------------------------------------------------------------
+# registry
+
+SURFACE_MODELS: dict[str, SurfaceModel] = {m.name: m for m in (
+    SurfaceModel(
+        "correlations",
+        "natural convection per surface kind (Churchill & Chu cylinder and vertical plate, "
+        "Churchill sphere, McAdams horizontal plates on A/P), forced convection in wind "
+        "(Churchill & Bernstein cylinder, Whitaker sphere, flat plate laminar/mixed), "
+        "combined as (h_n^3 + h_f^3)^(1/3), air properties at the film temperature; plus "
+        "grey-body radiation to the surroundings",
+        True,
+        "see audit.engine.convection and audit.engine.radiation",
+        _build_correlations),
+    SurfaceModel(
+        "iso12241-simplified",
+        "total surface coefficient h = C_A + 0.05 dT (horizontal pipes) or C_B + 0.09 dT "
+        "(vertical pipes, walls; also used here for spheres and horizontal plates, which "
+        "the standard does not cover), radiation included, wind and surroundings ignored",
+        False,
+        "ISO 12241:2008, simplified surface coefficient (form quoted from memory)",
+        _build_iso12241_simplified),
+)}
+"""Every surface model by name."""
+
+
+def available_surface_models() -> tuple[SurfaceModel, ...]:
+    """The registered surface models, each with its description and reference.
+
+    Returns
+    -------
+    tuple of SurfaceModel
+        In registration order; the first is the default.
+    """
+    return tuple(SURFACE_MODELS.values())
+
+
+def get_surface_model(name: str) -> SurfaceModel:
+    """The surface model registered under ``name``.
+
+    Parameters
+    ----------
+    name : str
+        One of :func:`available_surface_models`.
+
+    Returns
+    -------
+    SurfaceModel
+
+    Raises
+    ------
+    EngineInputError
+        For an unknown name; the message lists the available ones.
+    """
+    try:
+        return SURFACE_MODELS[name]
+    except (KeyError, TypeError):
+        raise EngineInputError("unknown surface model", value=name,
+                               expected="one of " + ", ".join(SURFACE_MODELS)) from None
+
+
+def surface_model_separates_radiation(name: str) -> bool:
+    """Whether model ``name`` returns radiation separately from convection.
+
+    Parameters
+    ----------
+    name : str
+        Surface model name.
+
+    Returns
+    -------
+    bool
+        False for models that lump radiation into q_conv and return q_rad = 0.
+    """
+    return get_surface_model(name).separates_radiation
