@@ -25,6 +25,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from audit.engine import geometry, surface
+from audit.engine.air import T_MAX as AIR_T_MAX
+from audit.engine.air import T_MIN as AIR_T_MIN
 from audit.engine.conduction import ConductivityTables
 from audit.engine.geometry import CYLINDER, PLANE, SPHERE
 from audit.engine.solver import solve_walls
@@ -181,6 +183,12 @@ def _invalid_reasons(b: ItemBatch, tables: ConductivityTables, surface_model: st
         flag(bad(value) | ~(value > 0) | ~(value < 5000.0),
              f"{label} must be above absolute zero and below 5000 K")
     flag(bad(b.wind) | ~(b.wind >= 0), "wind speed must be zero or more")
+    # Film temperatures must stay inside the air-property range of audit.engine.air.
+    coldest = np.minimum(np.minimum(b.t_process, b.t_surroundings), b.t_air)
+    hottest = np.maximum(np.maximum(b.t_process, b.t_surroundings), b.t_air)
+    flag(((coldest + b.t_air) / 2 < AIR_T_MIN) | ((hottest + b.t_air) / 2 > AIR_T_MAX)
+         | (b.t_air < AIR_T_MIN) | (b.t_air > AIR_T_MAX),
+         f"temperatures leave the air-property range ({AIR_T_MIN:g} to {AIR_T_MAX:g} K at the film)")
     has_cover = (b.layer_table >= 0).any(axis=1) & (b.bare_fraction < 1)
     flag(has_cover & (bad(b.emissivity) | ~((b.emissivity >= 0) & (b.emissivity <= 1))),
          "emissivity must be between 0 and 1")
