@@ -20,6 +20,7 @@ from audit.io.readers.pipe_sizes import NOMINAL_PIPE_SIZES
 from audit.rules import Rules
 
 ZERO_CELSIUS = 273.15
+_OD_OF_NPS = {value: mm / 1000.0 for _, value, _, mm in NOMINAL_PIPE_SIZES}
 
 
 def resolve_names(table: pd.DataFrame, rules: Rules) -> pd.DataFrame:
@@ -62,6 +63,10 @@ def resolve_names(table: pd.DataFrame, rules: Rules) -> pd.DataFrame:
         if bare_part and not np.isfinite(row.emissivity) and not metal and default_metal is None:
             problems[i].append("material: needed for the bare-metal emissivity; expected a metal "
                                "name, an emissivity on the row, or [defaults] metal in the rules")
+        for column, fitting in (("valves", "valve"), ("flanges", "flange")):
+            if (getattr(row, column) or 0) > 0 and fitting not in rules.fittings:
+                problems[i].append(f"{column}: uninsulated fittings given but the rules define no "
+                                   f"[fitting.{fitting}] equivalent length; add one to a rule file")
         if row.condition == "damaged" and not np.isfinite(row.damaged_pct):
             problems[i].append('damaged: empty but condition is "damaged"; expected the share of the '
                                "length without insulation, in %")
@@ -91,6 +96,20 @@ def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
     if "site" in rules.defaults:
         notes.append((table["location"].fillna("") == "",
                       f'location: empty; site "{rules.defaults["site"]}" assumed (rules default)'))
+    counts = {c: pd.to_numeric(table[c], errors="coerce").fillna(0) for c in ("valves", "flanges")}
+    for column, fitting in (("valves", "valve"), ("flanges", "flange")):
+        has = counts[column] > 0
+        notes.append((has & (table["shape"] != "pipe"),
+                      f"{column}: counted on pipes only; not included in this item's heat loss"))
+        rule = rules.fittings.get(fitting)
+        if rule is None:
+            continue
+        sizes = [_OD_OF_NPS.get(nps) for nps, _ in rule.equivalent_length]
+        sizes = [x for x in sizes if x is not None]
+        od = table["od_m"].astype(float)
+        beyond = has & (table["shape"] == "pipe") & ((od < min(sizes)) | (od > max(sizes)))
+        notes.append((beyond, f"{column}: pipe size beyond the fitting table of the rules; "
+                              "its nearest entry used"))
     for mask, text in notes:
         mask = mask.to_numpy(bool)
         old = table.loc[mask, "warnings"].fillna("")
@@ -248,10 +267,14 @@ def _batch(rows: pd.DataFrame, rules: Rules, index: dict[str, int], site: str | 
 
 
 def _fitting_length(rows: pd.DataFrame, rules: Rules) -> np.ndarray:
-    """Bare-pipe equivalent [m] of each row's uninsulated valves and flanges."""
-    od = rows["od_m"].to_numpy(float)
+    """Bare-pipe equivalent [m] of each pipe row's uninsulated valves and flanges.
+
+    Sizes beyond the table take its end value; such rows say so in their warnings (see
+    :func:`resolve_names`).  Fittings on other shapes are not counted (also warned).
+    """
+    pipe = (rows["shape"] == "pipe").to_numpy()
+    od = np.where(pipe, rows["od_m"].to_numpy(float), np.nan)
     total = np.zeros(len(rows))
-    od_of_nps = {value: mm / 1000.0 for _, value, _, mm in NOMINAL_PIPE_SIZES}
     for column, fitting in (("valves", "valve"), ("flanges", "flange")):
         count = pd.to_numeric(rows[column], errors="coerce").fillna(0).to_numpy(float)
         if not count.any():
@@ -259,8 +282,8 @@ def _fitting_length(rows: pd.DataFrame, rules: Rules) -> np.ndarray:
         table = rules.fittings.get(fitting)
         if table is None:
             continue
-        sizes = np.array([od_of_nps.get(nps, np.nan) for nps, _ in table.equivalent_length])
+        sizes = np.array([_OD_OF_NPS.get(nps, np.nan) for nps, _ in table.equivalent_length])
         lengths = np.array([length for _, length in table.equivalent_length])
         keep = np.isfinite(sizes)
-        total += count * np.interp(od, sizes[keep], lengths[keep])
+        total += np.where(pipe & (count > 0), count * np.interp(od, sizes[keep], lengths[keep]), 0.0)
     return total
