@@ -163,11 +163,12 @@ def _first_estimate(walls, t_air):
     """
     t_mean = 0.5 * (walls.t_process + t_air)
     resistance = walls.r_inner.copy()
-    for j, idx in enumerate(walls.slots):
-        if idx is not None:
-            k = walls.tables.conductivity(walls.table[idx, j], t_mean[idx])
+    for slot in walls.slots:
+        if slot is not None:
+            idx, tab, g = slot
+            rows = slice(None) if idx is None else idx
             with np.errstate(divide="ignore", invalid="ignore"):
-                resistance[idx] += 1.0 / (walls.conductance[idx, j] * k)
+                resistance[rows] += 1.0 / (g * walls.tables.conductivity(tab, t_mean[rows]))
     r_surface = 1.0 / (10.0 * walls.outer_area)
     return t_air + (walls.t_process - t_air) * r_surface / (r_surface + resistance)
 
@@ -179,25 +180,38 @@ class _Walls:
         self.t_process, self.conductance, self.table = t_process, conductance, table
         self.present, self.r_inner, self.outer_area = present, r_inner, outer_area
         self.tables, self.flux = tables, flux
-        # Per layer slot: the positions holding a layer, or None when none does.
-        self.slots = [np.flatnonzero(present[:, j]) if present[:, j].any() else None
-                      for j in range(present.shape[1])]
+        # Per layer slot: (positions holding a layer or None for all, their tables, their G),
+        # gathered once; None for a slot that no element uses.
+        self.slots = []
+        for j in range(present.shape[1]):
+            column = present[:, j]
+            if not column.any():
+                self.slots.append(None)
+            elif column.all():
+                self.slots.append((None, table[:, j].copy(), conductance[:, j].copy()))
+            else:
+                idx = np.flatnonzero(column)
+                self.slots.append((idx, table[idx, j], conductance[idx, j]))
 
     def march(self, t_surface):
         """Interface temperatures, heat rate and fluxes for trial surface temperatures."""
         q_conv, q_rad = self.flux(t_surface)
         heat = self.outer_area * (q_conv + q_rad)
-        n_layers = self.conductance.shape[1]
+        n_layers = len(self.slots)
         temps = np.empty((t_surface.size, n_layers + 1))
         temps[:, n_layers] = t_surface
         t = t_surface.copy()
         for j in range(n_layers - 1, -1, -1):
-            idx = self.slots[j]
-            if idx is not None:
-                tab = self.table[idx, j]
+            slot = self.slots[j]
+            if slot is not None:
+                idx, tab, g = slot
+                t_cold, q = (t, heat) if idx is None else (t[idx], heat[idx])
                 with np.errstate(invalid="ignore", divide="ignore"):
-                    potential = self.tables.phi(tab, t[idx]) + heat[idx] / self.conductance[idx, j]
-                t[idx] = self.tables.phi_inverse(tab, potential)
+                    t_hot = self.tables.phi_inverse(tab, self.tables.phi(tab, t_cold) + q / g)
+                if idx is None:
+                    t = t_hot
+                else:
+                    t[idx] = t_hot
             temps[:, j] = t
         return temps, heat, q_conv, q_rad
 

@@ -75,7 +75,7 @@ from typing import Callable, NamedTuple
 import numpy as np
 
 from audit.engine import convection as cv
-from audit.engine.air import air_properties, air_transport_tabulated
+from audit.engine.air import air_transport_tabulated
 from audit.engine.radiation import STEFAN_BOLTZMANN
 from audit.errors import EngineInputError
 
@@ -248,7 +248,7 @@ def _build_correlations(kind, *, diameter, length, wind, air_temp, surroundings_
     )
     # Forced convection with free-stream (air-temperature) properties: see the notes of
     # the "correlations" model in the module docstring.
-    free = air_properties(air_temp)
+    free = air_transport_tabulated(air_temp)
     groups = []
     for kinds, natural, l_nat, forced, l_forced in families:
         idx = np.flatnonzero(np.isin(kind, kinds))
