@@ -1,0 +1,97 @@
+"""Register import: CSV and XLSX registers -> the item table of DEVELOPERS.md.
+
+``read_register(paths)`` reads every file (every sheet of a workbook that has a header row with
+a tag column, or the sheets named), finds the header row, matches headers against the column
+names and the alias table (``rules/aliases.toml``), parses every cell once per distinct text and
+returns one row per input row, in input order, with ``status`` ``ok`` or ``rejected``.
+
+Duplicate tags are not rejected: each such row gets a ``warnings`` entry
+``tag: "P-101" is duplicated (N rows; first at <source>)``.  ``warnings`` also says when a unit
+was assumed for a bare number in a column whose other cells carry units, and when a
+temperature was given as normal/max.  What applies to a whole column (its default unit) is in
+the summary of :mod:`audit.io.readers.validate`, and in ``table.attrs["register"]``.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable, Mapping
+from dataclasses import asdict
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+from audit.errors import RegisterError
+from audit.io.readers.files import read_raw
+from audit.io.readers.headers import Lookup, load_aliases, merge_aliases
+from audit.io.readers.table import ITEM_COLUMNS, build_sheet
+
+__all__ = ["read_register", "load_aliases", "merge_aliases"]
+
+
+def read_register(paths, *, sheets: Iterable[str] | None = None,
+                  aliases: Mapping[str, list[str]] | None = None) -> pd.DataFrame:
+    """Read register files into one item table.
+
+    Parameters
+    ----------
+    paths : str, Path or iterable of them
+        CSV or XLSX registers; their rows are concatenated in the order given.
+    sheets : iterable of str, optional
+        Worksheets to read in every workbook; by default every sheet with a header row that
+        has a tag column.
+    aliases : mapping of column -> list of str, optional
+        Alias headers per register column (see :func:`load_aliases`); the shipped
+        ``rules/aliases.toml`` if omitted.
+
+    Returns
+    -------
+    pandas.DataFrame
+        The item table (columns of DEVELOPERS.md, then ``raw:<column>`` for every recognised
+        column, then extra columns under their own header).  ``table.attrs["register"]``
+        holds what was read per file and sheet, for :func:`audit.io.readers.validate.summarise`.
+
+    Raises
+    ------
+    RegisterError
+        For a file that cannot be read as a register at all (the message names the file).
+    """
+    if isinstance(paths, (str, Path)):
+        paths = [paths]
+    paths = list(paths)
+    if not paths:
+        raise RegisterError("no register file given", expected="one or more .csv or .xlsx files")
+    aliases = dict(load_aliases() if aliases is None else aliases)
+    lookup = Lookup.from_aliases(aliases)
+    sheet_list = list(sheets) if sheets else None
+    tables, infos, skipped = [], [], []
+    for path in paths:
+        raws, notes = read_raw(path, sheet_list, lookup)
+        skipped.extend(notes)
+        built = [build_sheet(raw, lookup, aliases.get("tag", [])) for raw in raws]
+        if sum(len(t) for t, _ in built) == 0:
+            raise RegisterError("a header row but no data rows", file=str(path),
+                                expected="at least one item row below the header")
+        tables.extend(t for t, _ in built)
+        infos.extend(i for _, i in built)
+    table = pd.concat(tables, ignore_index=True) if len(tables) > 1 else tables[0]
+    for column in table.columns[len(ITEM_COLUMNS):]:
+        if table[column].isna().any():
+            table[column] = table[column].fillna("")
+    _flag_duplicates(table)
+    table.attrs["register"] = {"sheets": [asdict(i) for i in infos], "skipped": skipped}
+    return table
+
+
+def _flag_duplicates(table: pd.DataFrame) -> None:
+    tags = table["tag"]
+    dup = (tags != "") & tags.duplicated(keep=False)
+    if not dup.any():
+        return
+    groups = table.loc[dup].groupby("tag", sort=False)["source"]
+    count, first = groups.transform("size"), groups.transform("first")
+    texts = [f'tag: "{t}" is duplicated ({c} rows; first at {f})'
+             for t, c, f in zip(table.loc[dup, "tag"], count, first)]
+    current = table.loc[dup, "warnings"].to_numpy(dtype=object)
+    joined = np.where(current == "", texts, current + "; " + np.array(texts, dtype=object))
+    table.loc[dup, "warnings"] = joined.astype(str)

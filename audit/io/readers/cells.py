@@ -1,0 +1,258 @@
+"""Cell parsing: one function per kind of cell, each cached on the distinct text.
+
+Every parser takes the stripped cell text (and the column's unit from its header, if any) and
+returns its value(s) and a *problem*: ``None`` when the cell is good, else the end of a reason,
+``'is not a temperature; expected a number with an optional unit'``, which the table builder
+prefixes with the column name and the quoted raw value.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from functools import lru_cache
+
+from audit.io.readers.headers import DN_UNIT
+from audit.io.readers.pipe_sizes import NPS_BY_DN, NPS_BY_VALUE, OD_MM_BY_NPS
+from audit.units import UnitParseError, _normalise, parse_quantity
+
+BARE_WORDS = frozenset({"none", "bare", "uninsulated"})
+AMBIENT_WORDS = frozenset({"amb", "amb.", "ambient"})
+_TRUE = frozenset({"yes", "y", "true", "1", "x"})
+_FALSE = frozenset({"no", "n", "false", "0", "-"})
+
+_VULGAR = {"½": " 1/2", "¼": " 1/4", "¾": " 3/4", "⅛": " 1/8", "⅜": " 3/8"}
+_INCH_MARK = re.compile(r"\s*(?:\"|''|″|”|inches|inch|in)\s*$")
+_DN = re.compile(r"^(?:dn\s*(\d+)|(\d+)\s*dn)$")
+_MIXED = re.compile(r"^(\d+)(?:\s+|\s*-\s*)(\d+)\s*/\s*(\d+)$")
+_FRACTION = re.compile(r"^(\d+)\s*/\s*(\d+)$")
+_DECIMAL = re.compile(r"^(?:\d+\.?\d*|\.\d+)$")
+_BARE_NUMBER = re.compile(r"^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*$")
+_UNIT_FREE = re.compile(r"^[\d\s.,+\-x×*/eE]+$")
+_WITH_UNIT = re.compile(r"^[\d\s.,+\-x×*/]*\d\s*(?:[a-wyzA-WYZ°\"'″%µ]|x[a-z])")
+_DEG_SPACE = re.compile(r"\bdeg\.?\s+([CFcf])\b")  # "300 deg F" -> "300 degF"
+_REPEAT = re.compile(r"^(\d+)\s*[x×*]\s*(.+)$", re.IGNORECASE)
+_NAME_SPACE = re.compile(r"[\s_]+")
+# A layer: "<material> <thickness>" or "<thickness> <material>"; thickness may be "2x50".
+_THK = r"(?:\d+\s*[x×*]\s*)?(?:\d+\.?\d*|\.\d+)\s*(?:mm|cm|m|in|inch|inches|\"|″|'')?"
+_LAYER_MAT_FIRST = re.compile(rf"^(?P<mat>.*?\S)\s+(?P<thk>{_THK})$", re.IGNORECASE)
+_LAYER_THK_FIRST = re.compile(rf"^(?P<thk>{_THK})\s+(?P<mat>\S.*)$", re.IGNORECASE)
+
+NUMBER_EXPECTED = "expected a number with an optional unit"
+
+
+def is_bare_number(text: str) -> bool:
+    """True for one number without a unit: ``"0.9"``, ``"-40"``."""
+    return bool(_BARE_NUMBER.match(text))
+
+
+def is_unit_free(text: str) -> bool:
+    """True for numbers without a unit (``150``, ``120/150``, ``2x50``): default unit applies."""
+    return bool(_UNIT_FREE.match(text)) and any(ch.isdigit() for ch in text)
+
+
+def has_unit(text: str) -> bool:
+    """True for numbers followed by a unit (``300 F``, ``250/300 F``, ``2x2in``)."""
+    return bool(_WITH_UNIT.match(text))
+
+
+def name(text: str) -> str:
+    """A rule name as written in the rules: lower case, spaces -> hyphens (not validated)."""
+    return _NAME_SPACE.sub("-", text.strip().lower()).strip("-")
+
+
+@lru_cache(maxsize=256)
+def _linear(default_unit: str, target_unit: str) -> tuple[float, float]:
+    """``(scale, offset)`` of pint's conversion of bare numbers: target = scale*x + offset.
+
+    Every pint conversion between two units, offset temperature scales included, is linear;
+    reading it once lets bare numbers (most cells) skip the unit parser.
+    """
+    zero = parse_quantity(0.0, default_unit, target_unit)
+    return parse_quantity(1.0, default_unit, target_unit) - zero, zero
+
+
+def _number(text: str, default_unit: str, target_unit: str, what: str) -> float:
+    if _BARE_NUMBER.match(text):
+        scale, offset = _linear(default_unit, target_unit)
+        value = scale * float(text) + offset
+        if math.isfinite(value):
+            return value
+    return parse_quantity(text, default_unit, target_unit, what=what)
+
+
+@lru_cache(maxsize=65536)
+def quantity(text: str, default_unit: str, target_unit: str, what: str,
+             low: float = -math.inf, high: float = math.inf, low_open: bool = False):
+    """``(value, problem)``: a number with an optional unit, in ``target_unit``, in a range."""
+    try:
+        value = _number(text, default_unit, target_unit, what)
+    except UnitParseError:
+        return math.nan, f"is not {what}; {NUMBER_EXPECTED} ({default_unit} if none)"
+    if value < low or (low_open and value == low) or value > high:
+        lower = f"above {low:g}" if low_open else f"at least {low:g}"
+        bound = lower if math.isinf(high) else f"{lower} and at most {high:g}"
+        unit = "" if target_unit == "dimensionless" else f" {target_unit}"
+        return math.nan, f"is out of range; expected {what} {bound}{unit}"
+    return value, None
+
+
+@lru_cache(maxsize=65536)
+def temperature(text: str, default_unit: str):
+    """``(temp_K, max_K, is_ambient, problem, note)`` from ``120``, ``300 F``, ``AMB``, ``120/150``.
+
+    ``normal/max`` gives the normal temperature and keeps the maximum; a unit written once
+    after the pair (``250/300 F``) applies to both numbers.
+    """
+    if text.lower() in AMBIENT_WORDS:
+        return math.nan, math.nan, True, None, None
+    text = _DEG_SPACE.sub(r"deg\1", text)
+    parts = [p.strip() for p in text.split("/")]
+    if len(parts) == 2 and all(parts):
+        normal_text, max_text = parts
+        if is_bare_number(normal_text) and not is_bare_number(max_text):
+            unit = re.sub(r"^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*", "", max_text)
+            normal_text = f"{normal_text} {unit}"
+        normal, max_k = _kelvin(normal_text, default_unit), _kelvin(max_text, default_unit)
+        if normal is None or max_k is None:
+            return math.nan, math.nan, False, _temperature_problem(default_unit), None
+        if normal < 0:
+            return (math.nan, math.nan, False,
+                    "is below absolute zero; expected a temperature above -273.15 degC", None)
+        if max_k < normal:
+            return (math.nan, math.nan, False,
+                    "has a maximum below the normal temperature; expected normal/max", None)
+        return normal, max_k, False, None, "normal/max given; normal used"
+    kelvin = _kelvin(text, default_unit)
+    if kelvin is None:
+        return math.nan, math.nan, False, _temperature_problem(default_unit), None
+    if kelvin < 0:
+        return (math.nan, math.nan, False,
+                "is below absolute zero; expected a temperature above -273.15 degC", None)
+    return kelvin, math.nan, False, None, None
+
+
+def _kelvin(text: str, default_unit: str) -> float | None:
+    try:
+        return _number(text, default_unit, "kelvin", "a temperature")
+    except UnitParseError:
+        return None
+
+
+def _temperature_problem(default_unit: str) -> str:
+    return (f"is not a temperature; {NUMBER_EXPECTED} ({default_unit} if none), "
+            "AMB, or normal/max")
+
+
+@lru_cache(maxsize=65536)
+def pipe_size(text: str, header_unit: str | None):
+    """``(nps_text, od_mm, problem)`` from ``4``, ``1-1/2"``, ``1 1/2``, ``1½``, ``1.5``, ``DN40``.
+
+    A bare number is NPS in inches, or DN when the header says ``[DN]``.
+    """
+    cleaned = text.lower()
+    for symbol, fraction in _VULGAR.items():
+        cleaned = cleaned.replace(symbol, fraction)
+    cleaned = re.sub(r"^nps\s*", "", cleaned.strip())
+    has_inch_mark = bool(_INCH_MARK.search(cleaned))
+    cleaned = _INCH_MARK.sub("", cleaned).strip()
+    dn_match = _DN.match(cleaned)
+    nps = None
+    if dn_match:
+        nps = NPS_BY_DN.get(int(dn_match.group(1) or dn_match.group(2)))
+    elif header_unit == DN_UNIT and not has_inch_mark and cleaned.isdigit():
+        nps = NPS_BY_DN.get(int(cleaned))
+    else:
+        value = _inches(cleaned)
+        nps = NPS_BY_VALUE.get(value) if value is not None else None
+    if nps is None:
+        return "", math.nan, ("is not a standard pipe size; expected an NPS of ASME B36.10M "
+                              "(1/8 to 48, e.g. 4, 1-1/2\") or a DN (DN6 to DN1200)")
+    return nps, OD_MM_BY_NPS[nps], None
+
+
+def _inches(text: str) -> float | None:
+    if match := _MIXED.match(text):
+        whole, top, bottom = (int(g) for g in match.groups())
+        return whole + top / bottom if bottom and top < bottom else None
+    if match := _FRACTION.match(text):
+        top, bottom = int(match.group(1)), int(match.group(2))
+        return top / bottom if bottom else None
+    if _DECIMAL.match(text):
+        return float(text)
+    return None
+
+
+@lru_cache(maxsize=65536)
+def thicknesses(text: str, default_unit: str):
+    """``(thicknesses_m, problem)`` from ``50``, ``2 in``, ``2x50`` (two of 50), ``50+40``."""
+    result: list[float] = []
+    for part in text.split("+"):
+        part = part.strip()
+        count = 1
+        if match := _REPEAT.match(part):
+            count, part = int(match.group(1)), match.group(2).strip()
+        value, problem = quantity(part, default_unit, "m", "a thickness", 0.0, math.inf, True)
+        if problem or count < 1:
+            return (), ("is not a thickness; expected a length per layer (" + default_unit +
+                        " if none), e.g. 50, 2 in, 2x50 or 50+40")
+        result.extend([value] * count)
+    return tuple(result), None
+
+
+@lru_cache(maxsize=65536)
+def layers(text: str, default_unit: str):
+    """``(materials, thicknesses_m, problem)`` from ``calcium-silicate 50mm + mineral-wool 2in``.
+
+    ``none`` gives bare metal: ``((), ())``.  Material names are only normalised here.
+    """
+    if text.lower() in BARE_WORDS:
+        return (), (), None
+    materials: list[str] = []
+    result: list[float] = []
+    for part in text.split("+"):
+        part = part.strip()
+        match = _LAYER_MAT_FIRST.match(part) or _LAYER_THK_FIRST.match(part)
+        if not match:
+            return (), (), ("is not a list of layers; expected '<material> <thickness>' joined "
+                            "by '+', innermost first, e.g. calcium-silicate 50mm + "
+                            "mineral-wool 2in, or none")
+        layer_thk, problem = thicknesses(match.group("thk").strip(), default_unit)
+        if problem:
+            return (), (), problem
+        materials.extend([name(match.group("mat"))] * len(layer_thk))
+        result.extend(layer_thk)
+    return tuple(materials), tuple(result), None
+
+
+@lru_cache(maxsize=4096)
+def choice(text: str, allowed: tuple[str, ...], synonyms: tuple[tuple[str, str], ...] = ()):
+    """``(value, problem)`` for a cell that must be one of ``allowed`` (case and spacing free)."""
+    key = name(text)
+    key = dict(synonyms).get(key, key)
+    if key in allowed:
+        return key, None
+    return "", f"is not recognised; expected one of {', '.join(allowed)}"
+
+
+@lru_cache(maxsize=1024)
+def yes_no(text: str):
+    """``(value, problem)``: yes/no, y/n, true/false, 1/0, x."""
+    key = text.strip().lower()
+    if key in _TRUE:
+        return True, None
+    if key in _FALSE:
+        return False, None
+    return False, "is not yes or no; expected yes, no, y, n, true, false, 1, 0 or x"
+
+
+@lru_cache(maxsize=4096)
+def count(text: str):
+    """``(value, problem)``: a whole number of fittings, zero or more."""
+    try:
+        value = float(_normalise(text))
+    except ValueError:
+        value = math.nan
+    if not math.isfinite(value) or value < 0 or value != int(value):
+        return 0, "is not a count; expected a whole number, 0 or more"
+    return int(value), None

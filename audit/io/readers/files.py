@@ -1,0 +1,160 @@
+"""Reading register files: the file-type dispatch, and CSV.
+
+CSV: comma, semicolon, tab or bar separated (detected from the header row), decimal comma
+detected, UTF-8 with or without BOM, UTF-16 with BOM, else Windows-1252.  Title rows above the
+header are skipped: the header is the first of the first 30 lines that names the most columns.
+XLSX: see :mod:`audit.io.readers.workbook`.
+
+Limits (a register past them is refused with a :class:`RegisterError`, never half read):
+``MAX_FILE_BYTES`` on disk for every file; ``MAX_ROWS`` rows per sheet or CSV file (Excel's own
+sheet limit); for XLSX also the zip limits of :mod:`audit.io.readers.workbook`
+(``MAX_UNCOMPRESSED_BYTES``, ``MAX_COMPRESSION_RATIO``).
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import re
+from pathlib import Path
+
+import pandas as pd
+
+from audit.io.readers.headers import Lookup
+from audit.io.readers.sheet import (HEADER_SEARCH_ROWS, MAX_ROWS, RawSheet, find_header,
+                                    finish, refuse)
+from audit.io.readers.workbook import (MAX_COMPRESSION_RATIO, MAX_UNCOMPRESSED_BYTES,
+                                       OLE_MAGIC, ZIP_MAGIC, read_xlsx)
+
+__all__ = ["read_raw", "MAX_FILE_BYTES", "MAX_ROWS", "MAX_UNCOMPRESSED_BYTES",
+           "MAX_COMPRESSION_RATIO"]
+
+MAX_FILE_BYTES = 1 << 30
+CSV_SUFFIXES = frozenset({".csv", ".txt", ".tsv"})
+XLSX_SUFFIXES = frozenset({".xlsx", ".xlsm"})
+
+_DELIMITERS = (",", ";", "\t", "|")
+_DECIMAL_COMMA = re.compile(r"(?:^|[;\t|])\s*[-+]?\d+,\d+\s*(?:[a-z°\"]*)\s*(?=[;\t|]|$)",
+                            re.IGNORECASE | re.MULTILINE)
+
+
+def read_raw(path, sheets, lookup: Lookup) -> tuple[list[RawSheet], list[str]]:
+    """Read one register file into raw sheets.
+
+    Parameters
+    ----------
+    path : str or Path
+        A ``.csv``/``.txt``/``.tsv`` or ``.xlsx``/``.xlsm`` file.
+    sheets : list of str or None
+        Worksheets to read; every sheet that has a header row with a tag column if None.
+    lookup : Lookup
+        Header names and aliases, to find the header row.
+
+    Returns
+    -------
+    (sheets, notes)
+        The sheets read, and notes on sheets skipped.
+
+    Raises
+    ------
+    RegisterError
+        For a file that cannot be read at all; the message names the file and what to do.
+    """
+    path = Path(path)
+    if not path.is_file():
+        raise refuse(path, "file not found or not a file", "a readable .csv or .xlsx file")
+    size = path.stat().st_size
+    if size == 0:
+        raise refuse(path, "the file is empty", "a header row and at least one data row")
+    if size > MAX_FILE_BYTES:
+        raise refuse(path, f"the file is {size} bytes, above the limit of {MAX_FILE_BYTES}",
+                     "a smaller register; split it into several files")
+    suffix = path.suffix.lower()
+    if suffix in XLSX_SUFFIXES:
+        return read_xlsx(path, sheets, lookup)
+    if suffix in CSV_SUFFIXES:
+        return [_read_csv(path, lookup)], []
+    raise refuse(path, f"unsupported file type {suffix or '(no extension)'!r}",
+                 "a .csv, .txt, .tsv, .xlsx or .xlsm register")
+
+
+def _decode(path: Path, raw: bytes) -> tuple[str, str]:
+    if raw.startswith(ZIP_MAGIC):
+        raise refuse(path, "this is a zip container (a workbook?), not a CSV text file",
+                     "a .csv text file, or the workbook renamed to .xlsx")
+    if raw.startswith(OLE_MAGIC):
+        raise refuse(path, "this is an Office binary file (legacy .xls or an encrypted "
+                     "workbook), not CSV text", "a .csv text file or an unprotected .xlsx")
+    if raw.startswith((b"\xff\xfe", b"\xfe\xff")):
+        try:
+            return raw.decode("utf-16"), "UTF-16"
+        except UnicodeDecodeError as exc:
+            raise refuse(path, "broken UTF-16 text", "a UTF-8 or Windows-1252 CSV") from exc
+    if b"\x00" in raw[:65536]:
+        raise refuse(path, "binary data, not CSV text", "a .csv text file")
+    try:
+        if raw.startswith(b"\xef\xbb\xbf"):
+            return raw[3:].decode("utf-8"), "UTF-8 with BOM"
+        return raw.decode("utf-8"), "UTF-8"
+    except UnicodeDecodeError:
+        # Windows-1252 leaves five bytes undefined; they become U+FFFD, visible in raw: columns
+        return raw.decode("cp1252", errors="replace"), "Windows-1252"
+
+
+def _read_csv(path: Path, lookup: Lookup) -> RawSheet:
+    text, encoding = _decode(path, path.read_bytes())
+    if not text.strip():
+        raise refuse(path, "the file is empty", "a header row and at least one data row")
+    head_lines = [line.rstrip("\r") for line in text[:_head_end(text)].split("\n")]
+    best = (0, 0, -1, ",")  # (score, field count, -index, delimiter)
+    for delimiter in _DELIMITERS:
+        rows = list(csv.reader(head_lines, delimiter=delimiter))
+        index, row_score = find_header(rows, lookup)
+        candidate = (row_score, len(rows[index]) if index >= 0 else 0, -index, delimiter)
+        if candidate > best:
+            best = candidate
+    row_score, _, minus_index, delimiter = best
+    header_index = -minus_index
+    if row_score == 0:
+        raise refuse(path, f"no header row found in the first {HEADER_SEARCH_ROWS} lines",
+                     "a header row naming the columns (tag, nps, temp, ...; "
+                     "see rules/aliases.toml)")
+    header = next(csv.reader([head_lines[header_index]], delimiter=delimiter))
+    body = text[_line_start(text, header_index + 1):]
+    data = _csv_body(path, body, delimiter)
+    decimal_comma = delimiter != "," and bool(_DECIMAL_COMMA.search(body[:100_000]))
+    sheet = finish(path, "", [h.strip() for h in header], None, data, header_index + 1,
+                    decimal_comma)
+    sheet.notes.append(f"read as {encoding} text, separator {delimiter!r}, decimal "
+                       f"{'comma' if decimal_comma else 'point'}")
+    return sheet
+
+
+def _line_start(text: str, line: int) -> int:
+    """Offset of the start of 0-based line ``line`` (lines end in \\n or \\r\\n)."""
+    offset = 0
+    for _ in range(line):
+        found = text.find("\n", offset)
+        if found < 0:
+            return len(text)
+        offset = found + 1
+    return offset
+
+
+def _head_end(text: str) -> int:
+    return _line_start(text, HEADER_SEARCH_ROWS)
+
+
+def _csv_body(path: Path, body: str, delimiter: str) -> pd.DataFrame:
+    if not body.strip():
+        return pd.DataFrame(dtype=object)
+    options = dict(sep=delimiter, header=None, dtype=object, keep_default_na=False,
+                   na_filter=False, skip_blank_lines=False, quotechar='"')
+    try:
+        return pd.read_csv(io.StringIO(body), engine="c", **options)
+    except pd.errors.ParserError:
+        rows = list(csv.reader(io.StringIO(body), delimiter=delimiter))
+        width = max((len(r) for r in rows), default=0)
+        return pd.DataFrame([r + [""] * (width - len(r)) for r in rows], dtype=object)
+
+

@@ -1,0 +1,328 @@
+"""Building the item table (see DEVELOPERS.md) from one raw sheet.
+
+Each recognised column is parsed once per distinct cell text (``pd.factorize``), then the
+answers are spread back over the rows with numpy indexing; rows are never parsed one by one.
+A cell that cannot be read rejects its row with a reason; the raw cell is kept as
+``raw:<column>``.  A bad cell in a column that does not apply to the row's shape (an ``area``
+on a pipe) is not a rejection: it is ignored with a warning.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass, field
+
+import numpy as np
+import pandas as pd
+
+from audit.errors import RegisterError
+from audit.io.readers import cells
+from audit.io.readers.column import Column, RowNotes
+from audit.io.readers.sheet import RawSheet
+from audit.io.readers.headers import COLUMNS, DN_UNIT, HeaderMap, Lookup, match_headers
+from audit.io.readers.insulation import insulation_layers
+from audit.io.readers.pipe_sizes import OD_MM_BY_NPS
+from audit.units import UnitParseError, _describe, parse_quantity
+
+SHAPES = ("pipe", "vertical-vessel", "horizontal-vessel", "sphere", "flat")
+HEADS = ("hemispherical", "ellipsoidal", "flat", "none")
+ORIENTATIONS = ("horizontal", "vertical", "up", "down")
+CONDITIONS = ("intact", "damaged", "wet", "missing")
+_SHAPE_SYNONYMS = (("piping", "pipe"), ("line", "pipe"), ("vessel-vertical", "vertical-vessel"),
+                   ("vessel-horizontal", "horizontal-vessel"), ("plate", "flat"))
+_HEADS_SYNONYMS = (("hemispheric", "hemispherical"), ("hemi", "hemispherical"),
+                   ("elliptical", "ellipsoidal"), ("2:1-ellipsoidal", "ellipsoidal"))
+_ORIENTATION_SYNONYMS = (("horiz", "horizontal"), ("h", "horizontal"), ("vert", "vertical"),
+                         ("v", "vertical"), ("facing-up", "up"), ("facing-down", "down"))
+_CONDITION_SYNONYMS = (("good", "intact"),)
+VESSELS = ("vertical-vessel", "horizontal-vessel")
+SMALLEST_OD_M = OD_MM_BY_NPS["1/8"] / 1000.0
+SIZED = ("pipe", *VESSELS, "sphere")
+
+# column -> (default unit, target unit, what, low, high, low excluded)
+QUANTITIES = {
+    "od": ("mm", "m", "a diameter", 0.0, math.inf, True),
+    "length": ("m", "m", "a length", 0.0, math.inf, True),
+    "area": ("m**2", "m**2", "an area", 0.0, math.inf, True),
+    "emissivity": ("dimensionless", "dimensionless", "an emissivity", 0.0, 1.0, True),
+    "ambient": ("degC", "kelvin", "a temperature", 0.0, math.inf, False),
+    "wind": ("m/s", "m/s", "a wind speed", 0.0, math.inf, False),
+    "rh": ("percent", "percent", "a relative humidity", 0.0, 100.0, False),
+    "damaged": ("percent", "percent", "a share of the length", 0.0, 100.0, False),
+    "hours": ("h", "h", "hours per year", 0.0, 8784.0, False),
+}
+# Columns whose header unit is checked against this target, and their default unit.
+UNIT_TARGETS = {**{c: (q[0], q[1]) for c, q in QUANTITIES.items()},
+                "temp": ("degC", "kelvin"), "thickness": ("mm", "m"), "layers": ("mm", "m")}
+NUMERIC = frozenset({*QUANTITIES, "nps", "temp", "thickness", "layers", "jacket", "valves",
+                     "flanges"})
+_PER_YEAR = re.compile(r"\s*/\s*(?:yr|year|a|annum)\s*$", re.IGNORECASE)
+
+ITEM_COLUMNS = (
+    "tag", "source", "status", "reason", "warnings", "shape", "od_m", "nps", "length_m",
+    "area_m2", "heads", "orientation", "temp_K", "temp_is_ambient", "temp_max_K",
+    "layer_materials", "layer_thicknesses_m", "jacket", "emissivity", "location", "ambient_K",
+    "wind_m_s", "rh_pct", "accessible", "condition", "damaged_pct", "service", "material",
+    "area_code", "valves", "flanges", "hours_h",
+)
+STRING_COLUMNS = ("tag", "source", "status", "reason", "warnings", "shape", "nps", "heads",
+                  "orientation", "jacket", "location", "condition", "service", "material",
+                  "area_code")
+
+
+@dataclass
+class SheetInfo:
+    """What was read from one sheet, for the data-quality summary."""
+
+    file: str
+    sheet: str
+    header_row: int
+    rows: int
+    recognised: dict[str, str]
+    ignored: list[str]
+    shadowed: list[tuple[str, str]]
+    units_assumed: dict[str, tuple[str, int]] = field(default_factory=dict)
+    notes: list[str] = field(default_factory=list)
+
+
+def _check_header_units(raw: RawSheet, header_map: HeaderMap) -> None:
+    for column, unit in header_map.units.items():
+        if unit is None:
+            continue
+        if column == "nps":
+            if unit not in (DN_UNIT, "mm", "in", "inch"):
+                raise RegisterError(f"header {header_map.headers[column]!r}: unit {unit!r} is "
+                                    "not a nominal-size unit", file=raw.path,
+                                    sheet=raw.sheet or None, column=header_map.headers[column],
+                                    expected="[in] for NPS or [DN] (or [mm]) for DN")
+            continue
+        if column not in UNIT_TARGETS:
+            continue
+        if column == "hours":
+            unit = _PER_YEAR.sub("", unit) or "h"
+        try:
+            parse_quantity(f"1 {unit}", unit, UNIT_TARGETS[column][1])
+        except UnitParseError as exc:
+            raise RegisterError(f"header {header_map.headers[column]!r}: {unit!r} is not a unit "
+                                f"of {_describe(UNIT_TARGETS[column][1])}",
+                                file=raw.path, sheet=raw.sheet or None,
+                                column=header_map.headers[column],
+                                expected="a pint unit in square brackets, e.g. "
+                                         "temp [degF], thickness [in], od [mm]") from exc
+
+
+def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[pd.DataFrame,
+                                                                               SheetInfo]:
+    """The item table of one sheet, and what was read, for the summary."""
+    header_map = match_headers(raw.header, lookup, raw.groups)
+    if "tag" not in header_map.columns:
+        raise RegisterError("missing the required tag column", file=raw.path,
+                            sheet=raw.sheet or None, row=raw.header_row,
+                            expected="a column named tag or " + ", ".join(tag_aliases))
+    _check_header_units(raw, header_map)
+    n = len(raw.data)
+    data = raw.data
+    col = {c: Column(c, raw.stripped[header_map.columns[c]] if c in header_map.columns else None,
+                      n,
+                      header_map.units.get(c), raw.decimal_comma and c in NUMERIC)
+           for c in COLUMNS}
+    notes = RowNotes(n)
+    blank = raw.blank
+    out: dict[str, object] = {}
+    info = SheetInfo(raw.file, raw.sheet, raw.header_row, n, dict(header_map.headers), [],
+                     header_map.shadowed, notes=list(raw.notes))
+    everyone = np.ones(n, dtype=bool)
+
+    tag = col["tag"]
+    out["tag"] = tag.uniques[tag.codes]
+    notes.reject(~tag.given, "tag: empty; expected an item identifier")
+
+    shape = _choice(col["shape"], SHAPES, _SHAPE_SYNONYMS, "pipe", notes, everyone)
+    out["shape"] = shape
+    sized, vessel = np.isin(shape, SIZED), np.isin(shape, VESSELS)
+    flat, lengthy = shape == "flat", np.isin(shape, ("pipe", *VESSELS))
+
+    _geometry(col, shape, sized, lengthy, flat, notes, out, info)
+    _orientation(col, shape, vessel, flat, notes, out)
+    heads = _choice(col["heads"], HEADS, _HEADS_SYNONYMS, "", notes, vessel)
+    out["heads"] = np.where(heads != "", heads, np.where(vessel, "ellipsoidal", "none"))
+    _temperature(col["temp"], notes, out, info)
+    condition = _choice(col["condition"], CONDITIONS, _CONDITION_SYNONYMS, "intact", notes,
+                        everyone)
+    out["condition"] = condition
+    out["layer_materials"], out["layer_thicknesses_m"] = insulation_layers(col, condition, notes)
+    _surface(col, notes, out, info)
+    for c, key in (("ambient", "ambient_K"), ("wind", "wind_m_s"), ("rh", "rh_pct"),
+                   ("damaged", "damaged_pct"), ("hours", "hours_h")):
+        out[key] = _quantity(col[c], notes, everyone, info)
+    notes.warn((condition == "damaged") & ~col["damaged"].given,
+               "damaged: empty for a damaged item; share of the length bare not known")
+    for c in ("location", "service", "material"):
+        out[c] = col[c].spread(col[c].parse(cells.name, empty=""))
+    out["area_code"] = col["area_code"].uniques[col["area_code"].codes]
+    answers = col["accessible"].parse(cells.yes_no, empty=(False, None))
+    out["accessible"] = col["accessible"].spread(answers, 0, dtype=bool)
+    notes.reject(everyone, col["accessible"].messages([a[1] for a in answers]))
+    for c in ("valves", "flanges"):
+        answers = col[c].parse(cells.count, empty=(0, None))
+        out[c] = col[c].spread(answers, 0, dtype=np.int64)
+        notes.reject(everyone, col[c].messages([a[1] for a in answers]))
+
+    # A blank row in the middle of a sheet stays an (empty) input row: rejected, one reason.
+    notes.reason[blank] = "row is blank"
+    notes.warning[blank] = ""
+    out["source"] = np.char.add(f"{raw.file}:{raw.sheet}:",
+                                raw.row_numbers.astype(str)).astype(object)
+    out["status"] = np.where(notes.reason == "", "ok", "rejected")
+    out["reason"], out["warnings"] = notes.reason, notes.warning
+    table = pd.DataFrame({c: out[c] for c in ITEM_COLUMNS})
+    for c in STRING_COLUMNS:
+        table[c] = table[c].astype("str")
+    for c, position in header_map.columns.items():
+        table[f"raw:{c}"] = data[position].astype("str").to_numpy()
+    _extras(table, data, header_map, info)
+    return table, info
+
+
+def _choice(column: Column, allowed, synonyms, default, notes: RowNotes, applies) -> np.ndarray:
+    answers = column.parse(cells.choice, allowed, synonyms, empty=(default, None))
+    notes.reject(applies, column.messages([a[1] for a in answers]))
+    return column.spread(answers, 0)
+
+
+def _quantity(column: Column, notes: RowNotes, applies, info: SheetInfo,
+              ignored_for: np.ndarray | None = None) -> np.ndarray:
+    """A number with a unit; its header unit, else its default unit, for bare numbers."""
+    default, target, what, low, high, low_open = QUANTITIES[column.name]
+    unit = column.unit or default
+    if column.name == "hours":
+        unit = _PER_YEAR.sub("", unit) or "h"
+        answers = column.parse(lambda t: cells.quantity(_PER_YEAR.sub("", t), unit, target,
+                                                        what, low, high, low_open),
+                               empty=(math.nan, None))
+    else:
+        answers = column.parse(cells.quantity, unit, target, what, low, high, low_open,
+                               empty=(math.nan, None))
+    messages = column.messages([a[1] for a in answers])
+    notes.reject(applies, messages)
+    if ignored_for is not None:
+        notes.warn(ignored_for, np.where(messages != "", messages + " (ignored for this shape)",
+                                         ""))
+    _note_units(column, unit, info, notes)
+    return column.spread(answers, 0, dtype=float)
+
+
+def _note_units(column: Column, unit: str, info: SheetInfo, notes: RowNotes) -> None:
+    """Record bare numbers read in the default unit; warn per row when the column mixes."""
+    if column.unit is not None or unit == "dimensionless":
+        return
+    bare = np.array([cells.is_unit_free(u) for u in column.uniques])
+    with_unit = np.array([cells.has_unit(u) for u in column.uniques])
+    rows = bare[column.codes]
+    if rows.any():
+        info.units_assumed[column.name] = (unit, int(rows.sum()))
+    if bare.any() and with_unit.any():
+        texts = np.array([f'{column.name}: "{u}" has no unit; {unit} assumed' if b else ""
+                          for u, b in zip(column.uniques, bare)], dtype=object)
+        notes.warn(rows, texts[column.codes])
+
+
+def _geometry(col, shape, sized, lengthy, flat, notes: RowNotes, out, info: SheetInfo) -> None:
+    nps, od = col["nps"], col["od"]
+    answers = nps.parse(cells.pipe_size, nps.unit if nps.unit != "mm" else DN_UNIT,
+                        empty=("", math.nan, None))
+    nps_text, nps_od = nps.spread(answers, 0), nps.spread(answers, 1, dtype=float) / 1000.0
+    nps_messages = nps.messages([a[2] for a in answers])
+    notes.reject(sized, nps_messages)
+    notes.warn(~sized, np.where(nps_messages != "", nps_messages + " (ignored for this shape)",
+                                ""))
+    od_m = _quantity(od, notes, sized, info, ignored_for=~sized)
+    notes.reject(sized & ~nps.given & ~od.given,
+                 "nps: empty; expected a nominal pipe size (nps) or an outside diameter (od)")
+    # Inch and metric tables of one size differ by rounding only (273.0 vs 273.1 mm).
+    disagree = nps.given & od.given & (np.abs(od_m - nps_od) > 0.01 * nps_od)
+    notes.warn(disagree & sized, "od: differs from the nominal size's outside diameter; od used")
+    # Below the smallest steel pipe (NPS 1/8, 10.3 mm): an NPS in inches written as an od?
+    notes.warn(sized & (od_m < SMALLEST_OD_M), od.messages(
+        ["is smaller than any steel pipe (10.3 mm); an NPS in inches in the od column? "
+         "read as written" for _ in od.uniques]))
+    out["od_m"] = np.where(od.given, od_m, nps_od)
+    out["nps"] = nps_text
+    out["length_m"] = _quantity(col["length"], notes, lengthy, info, ignored_for=~lengthy)
+    notes.reject(lengthy & ~col["length"].given,
+                 "length: empty; expected the run length or tangent-to-tangent length (m)")
+    out["area_m2"] = _quantity(col["area"], notes, flat, info, ignored_for=~flat)
+    notes.reject(flat & ~col["area"].given, "area: empty; expected the surface area (m2)")
+
+
+def _orientation(col, shape, vessel, flat, notes: RowNotes, out) -> None:
+    column = col["orientation"]
+    answers = column.parse(cells.choice, ORIENTATIONS, _ORIENTATION_SYNONYMS,
+                           empty=("", None))
+    given = column.spread(answers, 0)
+    notes.reject(np.ones(len(shape), dtype=bool), column.messages([a[1] for a in answers]))
+    by_shape = np.where(shape == "vertical-vessel", "vertical", "horizontal")
+    contradicts = vessel & (given != "") & (given != by_shape)
+    messages = np.full(len(shape), "", dtype=object)
+    messages[contradicts] = [f'orientation: "{g}" contradicts shape {s}; expected {b} or empty'
+                             for g, s, b in zip(given[contradicts], shape[contradicts],
+                                                by_shape[contradicts])]
+    notes.reject(contradicts, messages)
+    notes.reject(~flat & np.isin(given, ("up", "down")),
+                 "orientation: up/down apply to flat items only; expected horizontal or vertical")
+    notes.reject(flat & (given == "horizontal"),
+                 "orientation: \"horizontal\" is ambiguous for a flat item; expected vertical, "
+                 "up (hot face below, heat rising) or down")
+    notes.warn(flat & (given == ""), "orientation: empty for a flat item; vertical assumed")
+    default = np.where(flat, "vertical", by_shape)
+    out["orientation"] = np.where(given != "", given, default)
+
+
+def _temperature(column: Column, notes: RowNotes, out, info: SheetInfo) -> None:
+    unit = column.unit or "degC"
+    answers = column.parse(cells.temperature, unit,
+                           empty=(math.nan, math.nan, False, None, None))
+    out["temp_K"] = column.spread(answers, 0, dtype=float)
+    out["temp_max_K"] = column.spread(answers, 1, dtype=float)
+    out["temp_is_ambient"] = column.spread(answers, 2, dtype=bool)
+    everyone = np.ones(len(column.codes), dtype=bool)
+    notes.reject(everyone, column.messages([a[3] for a in answers]))
+    notes.reject(~column.given, "temp: empty; expected the operating temperature "
+                                f"({unit} if no unit), AMB or normal/max")
+    notes.warn(everyone, column.messages([a[4] for a in answers]))
+    _note_units(column, unit, info, notes)
+
+
+def _surface(col, notes: RowNotes, out, info: SheetInfo) -> None:
+    """Jacket name, or an emissivity written in the jacket column; the emissivity column wins."""
+    jacket = col["jacket"]
+    numeric = np.array([u != "" and cells.is_bare_number(u) for u in jacket.uniques])
+    answers = [cells.quantity(u, "dimensionless", "dimensionless", "an emissivity", 0.0, 1.0,
+                              True) if is_number else (math.nan, None)
+               for u, is_number in zip(jacket.uniques, numeric)]
+    notes.reject(np.ones(len(jacket.codes), dtype=bool),
+                 jacket.messages([a[1] for a in answers]))
+    names = [("" if u.lower() in cells.BARE_WORDS or is_number else cells.name(u))
+             for u, is_number in zip(jacket.uniques, numeric)]
+    out["jacket"] = jacket.spread(names)
+    emissivity = _quantity(col["emissivity"], notes, np.ones(len(jacket.codes), dtype=bool), info)
+    out["emissivity"] = np.where(col["emissivity"].given, emissivity,
+                                 jacket.spread(answers, 0, dtype=float))
+
+
+def _extras(table: pd.DataFrame, data: pd.DataFrame, header_map: HeaderMap,
+            info: SheetInfo) -> None:
+    """Carry unknown columns through under their header; name blank headers by position."""
+    for position, header in header_map.extras:
+        values = data[position].astype("str")
+        if not header and not values.str.strip().ne("").any():
+            continue
+        label = header or f"column {position + 1}"
+        if label.lower() in {str(c).lower() for c in table.columns} or label.startswith("raw:"):
+            label = f"extra:{label}"
+        base, k = label, 2
+        while label in table.columns:
+            label, k = f"{base} ({k})", k + 1
+        table[label] = values.to_numpy()
+        info.ignored.append(label)

@@ -1,0 +1,94 @@
+"""The data-quality summary printed by ``lagaudit validate``."""
+
+from __future__ import annotations
+
+import re
+from collections import Counter, defaultdict
+from dataclasses import dataclass, field
+
+import pandas as pd
+
+_SPLIT = re.compile(r"; (?=[a-z_/]+: |row is blank)")
+_RAW = re.compile(r'^([a-z_/]+): ".*" ')
+_DETAIL = re.compile(r" \([^()]*\)$")  # "(3 rows; first at ...)": one kind, many details
+
+
+@dataclass
+class Summary:
+    """Counts behind the summary text."""
+
+    rows: int
+    ok: int
+    rejected: int
+    warned: int
+    sheets: list[dict]
+    skipped: list[str]
+    reasons: dict[str, tuple[int, list[str]]] = field(default_factory=dict)
+    warnings: dict[str, tuple[int, list[str]]] = field(default_factory=dict)
+
+
+def reason_kind(reason: str) -> str:
+    """One reason without its raw value, details and 'expected' part: ``temp: "…" is not a``."""
+    head = _DETAIL.sub("", reason.split("; expected", 1)[0])
+    return _RAW.sub(r'\1: "…" ', head)
+
+
+def _group(texts: pd.Series, sources: pd.Series, examples: int):
+    counts: Counter = Counter()
+    where: dict[str, list[str]] = defaultdict(list)
+    for text, source in zip(texts, sources):
+        for part in _SPLIT.split(text):
+            kind = reason_kind(part)
+            counts[kind] += 1
+            if len(where[kind]) < examples:
+                where[kind].append(source)
+    return {k: (c, where[k]) for k, c in counts.most_common()}
+
+
+def summary(table: pd.DataFrame, examples: int = 3) -> Summary:
+    """Count rows, rejections by reason kind and warnings by kind in an item table."""
+    register = table.attrs.get("register", {"sheets": [], "skipped": []})
+    rejected = table["status"] == "rejected"
+    warned = table["warnings"] != ""
+    return Summary(
+        rows=len(table), ok=int((~rejected).sum()), rejected=int(rejected.sum()),
+        warned=int(warned.sum()), sheets=register["sheets"], skipped=register["skipped"],
+        reasons=_group(table.loc[rejected, "reason"], table.loc[rejected, "source"], examples),
+        warnings=_group(table.loc[warned, "warnings"], table.loc[warned, "source"], examples))
+
+
+def summarise(table: pd.DataFrame, examples: int = 3) -> str:
+    """The data-quality summary of an item table from :func:`audit.io.readers.read_register`.
+
+    Rows read per file and sheet, rejected rows grouped by reason kind (with example rows),
+    warnings by kind, columns recognised and carried through unused, units assumed by default.
+    """
+    s = summary(table, examples)
+    lines = [f"Rows read: {s.rows} ({s.ok} ok, {s.rejected} rejected, {s.warned} with warnings)",
+             "", "Files and sheets:"]
+    for sheet in s.sheets:
+        where = f"{sheet['file']}:{sheet['sheet']}" if sheet["sheet"] else sheet["file"]
+        lines.append(f"  {where}: {sheet['rows']} rows below the header in row "
+                     f"{sheet['header_row']}" + "".join(f"; {n}" for n in sheet["notes"]))
+    lines += [f"  {note}" for note in s.skipped]
+    lines += ["", "Columns recognised (column <- header):"]
+    for sheet in s.sheets:
+        where = f"{sheet['file']}:{sheet['sheet']}" if sheet["sheet"] else sheet["file"]
+        pairs = ", ".join(f"{c} <- {h!r}" for c, h in sheet["recognised"].items())
+        lines.append(f"  {where}: {pairs}")
+        if sheet["ignored"]:
+            lines.append(f"    carried through, not used: {', '.join(sheet['ignored'])}")
+        for header, column in sheet["shadowed"]:
+            lines.append(f"    {header!r} also names {column}; "
+                         f"{sheet['recognised'].get(column, '')!r} was used")
+        for column, (unit, count) in sheet["units_assumed"].items():
+            lines.append(f"    units assumed by default: {column} in {unit} "
+                         f"({count} cell{'s' if count != 1 else ''} without a unit)")
+    for title, groups in (("Rejected rows by reason:", s.reasons),
+                          ("Warnings:", s.warnings)):
+        lines += ["", title]
+        if not groups:
+            lines.append("  none")
+        for kind, (count, where) in groups.items():
+            lines.append(f"  {count:6d}  {kind}  (e.g. {', '.join(where)})")
+    return "\n".join(lines)
