@@ -16,7 +16,7 @@ import pandas as pd
 
 from audit.engine import ConductivityTables, ItemBatch, solve_items
 from audit.engine.items import HEAD_CODES, ORIENTATION_CODES, SHAPE_CODES
-from audit.io.readers.pipe_sizes import NOMINAL_PIPE_SIZES
+from audit.pipe_sizes import NOMINAL_PIPE_SIZES
 from audit.rules import Rules
 
 ZERO_CELSIUS = 273.15

@@ -13,7 +13,7 @@ import re
 from functools import lru_cache
 
 from audit.io.readers.headers import DN_UNIT
-from audit.io.readers.pipe_sizes import NPS_BY_DN, NPS_BY_VALUE, OD_MM_BY_NPS
+from audit.pipe_sizes import NPS_BY_DN, NPS_BY_VALUE, OD_MM_BY_NPS
 from audit.units import UnitParseError, _normalise, parse_quantity
 
 BARE_WORDS = frozenset({"none", "bare", "uninsulated"})

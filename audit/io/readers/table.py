@@ -22,7 +22,7 @@ from audit.io.readers.column import Column, RowNotes
 from audit.io.readers.sheet import RawSheet
 from audit.io.readers.headers import COLUMNS, DN_UNIT, HeaderMap, Lookup, match_headers
 from audit.io.readers.insulation import insulation_layers
-from audit.io.readers.pipe_sizes import OD_MM_BY_NPS
+from audit.pipe_sizes import OD_MM_BY_NPS
 from audit.units import UnitParseError, _describe, parse_quantity
 
 SHAPES = ("pipe", "vertical-vessel", "horizontal-vessel", "sphere", "flat")

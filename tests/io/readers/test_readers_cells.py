@@ -13,7 +13,7 @@ import pytest
 from hypothesis import given, strategies as st
 
 from audit.io.readers import cells
-from audit.io.readers.pipe_sizes import NOMINAL_PIPE_SIZES
+from audit.pipe_sizes import NOMINAL_PIPE_SIZES
 
 UREG = pint.UnitRegistry()
 

@@ -7,7 +7,7 @@ ASME B36.19M stainless tables, the DN designation of each NPS (NPSS10/SS10DN).
 import pytest
 from fluids import piping
 
-from audit.io.readers.pipe_sizes import NOMINAL_PIPE_SIZES, NPS_BY_DN, NPS_BY_VALUE, OD_MM_BY_NPS
+from audit.pipe_sizes import NOMINAL_PIPE_SIZES, NPS_BY_DN, NPS_BY_VALUE, OD_MM_BY_NPS
 
 
 def test_sizes_are_the_standard_weight_sizes_of_b36_10m():
