@@ -4,7 +4,7 @@
 """
 
 from audit.rules.loader import load_rules, shipped_rules_dir
-from audit.rules.model import Fitting, Jacket, Material, Metal, Rules, Site
+from audit.rules.model import SEVERITIES, Check, Fitting, Jacket, Material, Metal, Rules, Site, Spec
 
-__all__ = ["Fitting", "Jacket", "Material", "Metal", "Rules", "Site", "load_rules",
+__all__ = ["SEVERITIES", "Check", "Spec", "Fitting", "Jacket", "Material", "Metal", "Rules", "Site", "load_rules",
            "shipped_rules_dir"]

@@ -19,7 +19,10 @@ from pathlib import Path
 
 from audit.errors import Problem, RuleError
 from audit.rules.model import Fitting, Jacket, Material, Metal, Rules, Site
-from audit.units import UnitParseError, parse_quantity, parse_temperature
+from audit.rules.converters import (boolean, choice, list_of, quantity, rows, temperature, text)
+from audit.rules.model import SEVERITIES, Check, Spec
+from audit.rules.selector import SelectorError, parse_selector
+from audit.units import UnitParseError
 
 
 def shipped_rules_dir() -> Path:
@@ -32,100 +35,74 @@ def shipped_rules_dir() -> Path:
                     expected="a 'rules' folder beside the 'audit' package; reinstall lagaudit")
 
 
-# --------------------------------------------------------------------------------------
-# value converters: each takes the raw TOML value and returns the SI value or raises ValueError
-
-def _temperature(value):
-    return parse_temperature(value, "degC")
-
-
-def _quantity(default_unit, target_unit, low=None, high=None, low_open=False):
-    def convert(value):
-        number = parse_quantity(value, default_unit, target_unit)
-        if low is not None and (number < low or (low_open and number == low)):
-            raise ValueError(f"{number:g} is below {'or at ' if low_open else ''}{low:g} {target_unit}")
-        if high is not None and number > high:
-            raise ValueError(f"{number:g} is above {high:g} {target_unit}")
-        return number
-    return convert
+def _band(value):
+    if not isinstance(value, list) or len(value) != 2:
+        raise ValueError(f"{value!r} is not a band [low degC, high degC]")
+    low, high = temperature(value[0]), temperature(value[1])
+    if not low < high:
+        raise ValueError(f"band {value!r} does not run from low to high")
+    return (low, high)
 
 
-def _text(value):
-    if not isinstance(value, str) or not value.strip():
-        raise ValueError("not a non-empty string")
-    return value.strip()
-
-
-def _choice(*allowed):
-    def convert(value):
-        if value not in allowed:
-            raise ValueError(f"{value!r} is not one of {', '.join(allowed)}")
-        return value
-    return convert
-
-
-def _rows(first, second, what):
-    def convert(value):
-        if not isinstance(value, list) or not value:
-            raise ValueError(f"not a list of [{what}] rows")
-        rows = []
-        for row in value:
-            if not isinstance(row, list) or len(row) != 2:
-                raise ValueError(f"row {row!r} is not a pair [{what}]")
-            rows.append((first(row[0]), second(row[1])))
-        keys = [r[0] for r in rows]
-        if any(b <= a for a, b in zip(keys, keys[1:])):
-            raise ValueError("rows are not in strictly increasing order of their first entry")
-        return tuple(rows)
-    return convert
-
-
-_CONDUCTIVITY = _quantity("W/(m*K)", "W/(m*K)", low=0.0, low_open=True)
-_EMISSIVITY = _quantity("dimensionless", "dimensionless", low=0.0, high=1.0)
-_COEFFICIENT = _quantity("W/(m**2*K)", "W/(m**2*K)", low=0.0, low_open=True)
+_MM = quantity("mm", "m", low=0.0)
+_CONDUCTIVITY = quantity("W/(m*K)", "W/(m*K)", low=0.0, low_open=True)
+_EMISSIVITY = quantity("dimensionless", "dimensionless", low=0.0, high=1.0)
+_COEFFICIENT = quantity("W/(m**2*K)", "W/(m**2*K)", low=0.0, low_open=True)
 
 #: section -> (object type, {key: (converter, required)})
 SCHEMA = {
     "material": (Material, {
-        "k": (_rows(_temperature, _CONDUCTIVITY, "temperature degC, conductivity W/(m*K)"), True),
-        "max_temp": (_temperature, True),
-        "min_temp": (_temperature, False),
-        "wet_factor": (_quantity("dimensionless", "dimensionless", low=1.0), False),
-        "wet_source": (_text, False),
-        "density": (_quantity("kg/m**3", "kg/m**3", low=0.0, low_open=True), False),
-        "source": (_text, True),
+        "k": (rows(temperature, _CONDUCTIVITY, "temperature degC, conductivity W/(m*K)"), True),
+        "max_temp": (temperature, True),
+        "min_temp": (temperature, False),
+        "wet_factor": (quantity("dimensionless", "dimensionless", low=1.0), False),
+        "wet_source": (text, False),
+        "density": (quantity("kg/m**3", "kg/m**3", low=0.0, low_open=True), False),
+        "source": (text, True),
     }),
     "jacket": (Jacket, {
         "emissivity": (_EMISSIVITY, True),
-        "surface": (_choice("metal", "non-metal"), True),
+        "surface": (choice("metal", "non-metal"), True),
         "iso12241_ca": (_COEFFICIENT, False),
         "iso12241_cb": (_COEFFICIENT, False),
-        "source": (_text, True),
+        "source": (text, True),
     }),
     "metal": (Metal, {
         "emissivity": (_EMISSIVITY, True),
         "conductivity": (_CONDUCTIVITY, False),
         "iso12241_ca": (_COEFFICIENT, False),
         "iso12241_cb": (_COEFFICIENT, False),
-        "source": (_text, True),
+        "source": (text, True),
     }),
     "site": (Site, {
-        "ambient": (_temperature, True),
-        "wind": (_quantity("m/s", "m/s", low=0.0), True),
-        "rh": (_quantity("percent", "percent", low=0.0, high=100.0), True),
-        "surroundings": (_temperature, False),
-        "description": (_text, False),
-        "source": (_text, True),
+        "ambient": (temperature, True),
+        "wind": (quantity("m/s", "m/s", low=0.0), True),
+        "rh": (quantity("percent", "percent", low=0.0, high=100.0), True),
+        "surroundings": (temperature, False),
+        "description": (text, False),
+        "source": (text, True),
     }),
     "fitting": (Fitting, {
-        "equivalent_length": (_rows(_quantity("dimensionless", "dimensionless", low=0.0, low_open=True),
-                                    _quantity("m", "m", low=0.0), "NPS inch, metres of bare pipe"), True),
-        "source": (_text, True),
+        "equivalent_length": (rows(quantity("dimensionless", "dimensionless", low=0.0, low_open=True),
+                                    quantity("m", "m", low=0.0), "NPS inch, metres of bare pipe"), True),
+        "source": (text, True),
+    }),
+    "spec": (Spec, {
+        "material": (text, True),
+        "bands": (list_of(_band, "temperature bands [low degC, high degC]"), True),
+        "sizes": (list_of(quantity("dimensionless", "dimensionless", low=0.0, low_open=True),
+                          "NPS upper bounds", increasing=True), True),
+        "thickness": (list_of(list_of(_MM, "thicknesses"), "rows of thicknesses"), True),
+        "flat": (list_of(_MM, "thicknesses"), True),
+        "tolerance": (_MM, True),
+        "source": (text, True),
     }),
 }
 _PLURAL = {"material": "materials", "jacket": "jackets", "metal": "metals", "site": "sites",
-           "fitting": "fittings"}
-_TOP_LEVEL = set(SCHEMA) | {"alias", "defaults"}
+           "fitting": "fittings", "spec": "specs"}
+_TOP_LEVEL = set(SCHEMA) | {"alias", "defaults", "check", "thicknesses"}
+#: Keys every [check.NAME] may have; any other key is the check kind's own parameter.
+_CHECK_KEYS = {"kind", "enabled", "site", "applies_to", "severity", "source", "description"}
 #: [defaults] key -> the section its value names
 _DEFAULT_KEYS = {"site": "site", "jacket": "jacket", "metal": "metal"}
 
@@ -148,6 +125,8 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
     """
     folders = ([shipped_rules_dir()] if shipped else []) + [Path(d) for d in extra_dirs]
     collected = {section: {} for section in SCHEMA}
+    collected["check"] = {}
+    collected["thicknesses"] = {}
     aliases: dict[str, list[str]] = {}
     defaults: dict[str, str] = {}
     files = []
@@ -158,7 +137,10 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
         for path in sorted(folder.glob("*.toml")):
             files.append(str(path))
             _read_file(path, collected, aliases, defaults)
-    rules = Rules(**{_PLURAL[s]: collected[s] for s in SCHEMA}, aliases=aliases,
+    thicknesses = collected["thicknesses"]
+    rules = Rules(**{_PLURAL[s]: collected[s] for s in SCHEMA}, checks=collected["check"],
+                  thicknesses=thicknesses.get("standard", ()),
+                  thicknesses_source=thicknesses.get("source", ""), aliases=aliases,
                   defaults=defaults, files=tuple(files))
     _check_references(rules)
     return rules
@@ -200,6 +182,13 @@ def _read_file(path: Path, collected, aliases, defaults) -> None:
                                                                for k, v in _DEFAULT_KEYS.items())))
                 else:
                     defaults[key] = value
+        elif section == "thicknesses":
+            collected["thicknesses"] = _thicknesses(body, path, problems)
+        elif section == "check":
+            for name, entry in body.items():
+                made = _check(name, entry, path, problems)
+                if made is not None:
+                    collected["check"][name] = made
         else:
             for name, entry in body.items():
                 made = _build(section, name, entry, path, problems)
@@ -243,6 +232,63 @@ def _build(section, name, entry, path, problems):
     return cls(name=name, origin=str(path), **values)
 
 
+def _thicknesses(body, path, problems) -> dict:
+    out = {}
+    for key, raw in body.items():
+        try:
+            if key == "standard":
+                out[key] = list_of(quantity("mm", "m", low=0.0, low_open=True), "thicknesses",
+                                   increasing=True)(raw)
+            elif key == "source":
+                out[key] = text(raw)
+            else:
+                raise KeyError(key)
+        except KeyError:
+            problems.append(Problem(f"unknown key {key!r}", file=str(path), column=f"thicknesses.{key}",
+                                    expected="standard = [mm, ...] and source"))
+        except (ValueError, UnitParseError) as exc:
+            problems.append(Problem(f"invalid value: {exc}", file=str(path),
+                                    column=f"thicknesses.{key}", value=raw))
+    if out and "source" not in out:
+        problems.append(Problem("missing key 'source'", file=str(path), column="thicknesses"))
+    return out
+
+
+def _check(name, entry, path, problems):
+    where = f"check.{name}"
+    if not isinstance(entry, dict):
+        problems.append(Problem(f"[{where}] is not a table", file=str(path), column=where, value=entry))
+        return None
+    before = len(problems)
+    generic = {}
+    converters = {"kind": text, "enabled": boolean, "site": text, "severity": choice(*SEVERITIES),
+                  "source": text, "description": text}
+    for key, convert in converters.items():
+        if key in entry:
+            try:
+                generic[key] = convert(entry[key])
+            except ValueError as exc:
+                problems.append(Problem(f"invalid value: {exc}", file=str(path),
+                                        column=f"{where}.{key}", value=entry[key]))
+    try:
+        selector = parse_selector(entry.get("applies_to", ""))
+    except SelectorError as exc:
+        problems.append(Problem(str(exc), file=str(path), column=f"{where}.applies_to",
+                                value=entry.get("applies_to")))
+        selector = None
+    for key in ("severity", "source"):
+        if key not in entry:
+            problems.append(Problem(f"missing key {key!r}", file=str(path), column=where,
+                                    expected=f"{key} = ..."))
+    if len(problems) > before:
+        return None
+    params = {k: v for k, v in entry.items() if k not in _CHECK_KEYS}
+    return Check(name=name, kind=generic.get("kind", name), site=generic.get("site", ""),
+                 severity=generic["severity"], source=generic["source"],
+                 enabled=generic.get("enabled", True), applies_to=selector,
+                 description=generic.get("description", ""), params=params, origin=str(path))
+
+
 def _check_references(rules: Rules) -> None:
     where = ", ".join(rules.files) or None
     if rules.sites and "site" not in rules.defaults:
@@ -253,3 +299,20 @@ def _check_references(rules: Rules) -> None:
         if name is not None and name not in defined:
             raise RuleError(f"default {key} {name!r} is not defined", column=f"defaults.{key}",
                             value=name, expected="one of " + ", ".join(sorted(defined)), file=where)
+    for check in rules.checks.values():
+        if check.site and check.site not in rules.sites:
+            raise RuleError(f"check {check.name!r} names site {check.site!r}, which is not defined",
+                            file=check.origin, column=f"check.{check.name}.site", value=check.site,
+                            expected="one of " + ", ".join(sorted(rules.sites)))
+    for spec in rules.specs.values():
+        if spec.material not in rules.materials:
+            raise RuleError(f"spec {spec.name!r} names material {spec.material!r}, which is not "
+                            "defined", file=spec.origin, column=f"spec.{spec.name}.material",
+                            value=spec.material, expected="one of " + ", ".join(sorted(rules.materials)))
+        shapes = [len(row) for row in spec.thickness]
+        if len(spec.thickness) != len(spec.sizes) or any(n != len(spec.bands) for n in shapes) \
+                or len(spec.flat) != len(spec.bands):
+            raise RuleError(f"spec {spec.name!r}: thickness must have one row per size and one "
+                            "column per band, and flat one entry per band", file=spec.origin,
+                            column=f"spec.{spec.name}.thickness",
+                            expected=f"{len(spec.sizes)} rows of {len(spec.bands)} thicknesses")

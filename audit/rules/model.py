@@ -71,6 +71,41 @@ class Fitting:
 
 
 @dataclass(frozen=True)
+class Check:
+    """One check as the rule files define it; ``params`` are validated by its kind."""
+
+    name: str
+    kind: str           #: which check function evaluates it (defaults to the name)
+    site: str           #: the site condition it is evaluated under ("" = each item's own)
+    severity: str       #: info, low, medium, high or critical
+    source: str         #: where its limit comes from
+    enabled: bool = True
+    applies_to: object = None    #: a parsed Selector (audit.rules.selector)
+    description: str = ""
+    params: dict = field(default_factory=dict)   #: kind-specific keys, raw
+    origin: str = ""
+
+
+@dataclass(frozen=True)
+class Spec:
+    """A plant insulation specification for one service: thickness by size and temperature."""
+
+    name: str           #: the service it applies to (heat-conservation, personnel, cold, ...)
+    material: str       #: the material the thicknesses are for
+    bands: tuple        #: (low [K], high [K]) operating-temperature bands
+    sizes: tuple        #: upper NPS [inch] of each size row, ascending
+    thickness: tuple    #: [size row][band] thickness [m]; 0 = no insulation required
+    flat: tuple         #: per band, for vessels, spheres and flat surfaces [m]
+    tolerance: float    #: thinner by more than this counts as below spec [m]
+    source: str
+    origin: str = ""
+
+
+#: Severity levels, least to most severe.
+SEVERITIES = ("info", "low", "medium", "high", "critical")
+
+
+@dataclass(frozen=True)
 class Rules:
     """Everything the rule files define, after layering."""
 
@@ -79,6 +114,10 @@ class Rules:
     metals: dict = field(default_factory=dict)
     sites: dict = field(default_factory=dict)
     fittings: dict = field(default_factory=dict)
+    checks: dict = field(default_factory=dict)
+    specs: dict = field(default_factory=dict)     #: service -> Spec
+    thicknesses: tuple = ()                       #: standard insulation thicknesses [m]
+    thicknesses_source: str = ""
     aliases: dict = field(default_factory=dict)   #: column -> list of alias headers
     defaults: dict = field(default_factory=dict)  #: e.g. {"site": "outdoor-annual-mean"}
     files: tuple = ()                             #: rule files read, in order

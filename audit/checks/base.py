@@ -1,0 +1,133 @@
+"""What every check shares: the context it reads, the findings it returns, its parameters.
+
+A check is a pure function ``evaluate(context, check) -> findings`` of the item table, the
+thermal states of the scenario it declares, and the rules.  It formats no report text beyond
+a one-line ``message``; it never opens a file.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass, field
+
+import numpy as np
+import pandas as pd
+
+from audit.errors import Problem, RuleError
+from audit.rules import Check, Rules
+from audit.thermal import ZERO_CELSIUS, conductivity_tables, thermal_states
+from audit.units import UnitParseError
+
+#: Columns of a findings table, in order (``row`` indexes the item table).
+FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value", "limit", "unit",
+                   "site", "air_temp [degC]", "wind [m/s]", "rh [%]", "limit_source", "message",
+                   "remedy", "fixable_by_insulation", "remedy_thickness [mm]", "remedy_material"]
+
+
+@dataclass
+class CheckKind:
+    """A kind of check: its function, its own parameters and whether insulation can fix it."""
+
+    evaluate: Callable                 #: (CheckContext, Check) -> DataFrame of findings
+    params: dict                       #: key -> (converter, required); see audit.rules.converters
+    fixable_by_insulation: bool        #: the remedy search may add insulation for it
+    description: str
+
+
+@dataclass
+class CheckContext:
+    """The item table, the rules, and the thermal states per scenario, solved once each."""
+
+    table: pd.DataFrame
+    rules: Rules
+    surface_model: str = "correlations"
+    _states: dict = field(default_factory=dict)
+    _tables: tuple | None = None
+
+    def states(self, site: str = "") -> pd.DataFrame:
+        """Thermal states of every row under ``site`` ("" = each item's own conditions)."""
+        if site not in self._states:
+            if self._tables is None:
+                self._tables = conductivity_tables(self.rules)
+            self._states[site] = thermal_states(self.table, self.rules, site=site or None,
+                                                surface_model=self.surface_model,
+                                                tables=self._tables)
+        return self._states[site]
+
+    def selected(self, check: Check, site: str | None = None) -> np.ndarray:
+        """Rows the check applies to: computed under its site, and chosen by its selector."""
+        states = self.states(check.site if site is None else site)
+        mask = states["computed"].to_numpy(bool)
+        if check.applies_to is not None:
+            mask &= check.applies_to.mask(self.table)
+        return mask
+
+
+def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, limit, unit: str,
+             message, remedy, fixable=False) -> pd.DataFrame:
+    """A findings table for ``rows`` (positions in the item table) of one check.
+
+    ``value``, ``limit``, ``message`` and ``remedy`` are arrays aligned with ``rows`` or
+    scalars; the conditions come from the check's scenario.
+    """
+    rows = np.asarray(rows, int)
+    n = rows.size
+    states = context.states(check.site)
+    table = context.table
+
+    def spread(x, dtype=object):
+        return np.full(n, x, dtype=dtype) if np.isscalar(x) or x is None else np.asarray(x, dtype=dtype)
+
+    return pd.DataFrame({
+        "row": rows,
+        "tag": table["tag"].to_numpy(object)[rows],
+        "source": table["source"].to_numpy(object)[rows],
+        "check": check.name,
+        "kind": check.kind,
+        "severity": check.severity,
+        "value": spread(value, float),
+        "limit": spread(limit, float),
+        "unit": unit,
+        "site": check.site or "own conditions",
+        "air_temp [degC]": states["air_temp_K"].to_numpy(float)[rows] - ZERO_CELSIUS,
+        "wind [m/s]": states["wind_m_s"].to_numpy(float)[rows],
+        "rh [%]": states["rh_pct"].to_numpy(float)[rows],
+        "limit_source": check.source,
+        "message": spread(message),
+        "remedy": spread(remedy),
+        "fixable_by_insulation": spread(fixable, bool),
+        "remedy_thickness [mm]": np.nan,
+        "remedy_material": "",
+    }, columns=FINDING_COLUMNS)
+
+
+def empty_findings() -> pd.DataFrame:
+    return pd.DataFrame({c: pd.Series(dtype=object) for c in FINDING_COLUMNS})
+
+
+def validated_params(check: Check, kind: CheckKind) -> dict:
+    """The check's own parameters converted by its kind's schema; RuleError naming file and key."""
+    problems, values = [], {}
+    where = f"check.{check.name}"
+    for key, raw in check.params.items():
+        if key not in kind.params:
+            problems.append(Problem(f"unknown key {key!r} for a check of kind {check.kind!r}",
+                                    file=check.origin, column=f"{where}.{key}",
+                                    expected="one of " + ", ".join(
+                                        ["kind", "enabled", "site", "applies_to", "severity",
+                                         "source", "description", *kind.params])))
+            continue
+        convert, _ = kind.params[key]
+        try:
+            values[key] = convert(raw)
+        except (ValueError, UnitParseError) as exc:
+            problems.append(Problem(f"invalid value: {exc}", file=check.origin,
+                                    column=f"{where}.{key}", value=raw))
+    for key, (_, required) in kind.params.items():
+        if required and key not in check.params:
+            problems.append(Problem(f"missing key {key!r}", file=check.origin, column=where,
+                                    expected=f"{key} = ..."))
+    if problems:
+        raise RuleError(f"{len(problems)} problem(s) in check {check.name!r}", file=check.origin,
+                        problems=problems)
+    return values

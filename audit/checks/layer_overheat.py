@@ -1,0 +1,56 @@
+"""``layer-overheat``: a layer whose hot face runs above its material's maximum use temperature.
+
+Evaluated at the check's site condition (by default each item's own); the hot face of each
+layer comes from the engine's interface temperatures, and the limit from the material's
+``max_temp`` in the rules.  Insulation cannot fix it by adding thickness outside (that makes
+the inner face hotter): the remedy is a material rated for the temperature.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from audit.checks.base import CheckKind, findings
+from audit.thermal import ZERO_CELSIUS
+
+NAME = "layer-overheat"
+
+
+def evaluate(context, check, params):
+    table = context.table
+    states = context.states(check.site)
+    selected = context.selected(check)
+    materials = table["layer_materials"].to_numpy(object)
+    worst_excess = np.full(len(table), -np.inf)
+    worst_temp = np.full(len(table), np.nan)
+    worst_limit = np.full(len(table), np.nan)
+    worst_name = np.full(len(table), "", dtype=object)
+    n_layers = max((len(m) for m in materials if isinstance(m, tuple)), default=0)
+    max_temp = {name: m.max_temp for name, m in context.rules.materials.items()}
+    missing = table["condition"].to_numpy(object) == "missing"
+    for j in range(n_layers):
+        column = f"interface_{j}_K"
+        if column not in states:
+            break
+        hot_face = states[column].to_numpy(float)
+        names = np.array([m[j] if isinstance(m, tuple) and len(m) > j else "" for m in materials],
+                         dtype=object)
+        limit = np.array([max_temp.get(x, np.nan) for x in names], float)
+        with np.errstate(invalid="ignore"):
+            excess = hot_face - limit
+        better = selected & ~missing & np.isfinite(excess) & (excess > worst_excess)
+        worst_excess[better] = excess[better]
+        worst_temp[better] = hot_face[better]
+        worst_limit[better] = limit[better]
+        worst_name[better] = names[better]
+    rows = np.flatnonzero(worst_excess > 0)
+    message = [f"{worst_name[r]} hot face at {worst_temp[r] - ZERO_CELSIUS:.0f} degC, above its "
+               f"maximum use temperature of {worst_limit[r] - ZERO_CELSIUS:.0f} degC" for r in rows]
+    return findings(context, check, rows, value=worst_temp[rows] - ZERO_CELSIUS,
+                    limit=worst_limit[rows] - ZERO_CELSIUS, unit="degC", message=message,
+                    remedy="replace the overheated layer with a material rated for the "
+                           "temperature (or add a high-temperature inner layer)")
+
+
+KIND = CheckKind(evaluate=evaluate, params={}, fixable_by_insulation=False,
+                 description="a layer whose hot face is above its material's maximum use temperature")
