@@ -13,9 +13,10 @@ from audit.errors import LagauditError
 from audit.io.readers import read_register
 from audit.io.readers.validate import summarise
 from audit.io.writers import write_csv, write_json, write_xlsx
-from audit.results import build_results
-from audit.rules import load_rules
-from audit.thermal import resolve_names, thermal_states
+from audit.pipeline import audit_register
+from audit.rules import SEVERITIES, load_rules
+from audit.rules.describe import describe_rules
+from audit.thermal import resolve_names
 
 CAUTION = (
     "Caution: lagaudit is a screening calculation from register data. Confirm surface "
@@ -65,7 +66,17 @@ def _parser() -> argparse.ArgumentParser:
     run.add_argument("--sheet", action="append", metavar="NAME", help="read only this worksheet (repeatable)")
     run.add_argument("--surface-model", default="correlations", metavar="NAME",
                      help="outer-surface model: correlations (default) or iso12241-simplified")
+    run.add_argument("--fail-on", choices=SEVERITIES, metavar="SEVERITY",
+                     help="exit 1 when a finding at or above this severity exists "
+                          f"({', '.join(SEVERITIES)})")
     run.set_defaults(run=_run)
+
+    rules = sub.add_parser(
+        "rules", help="print the active materials, jackets, sites and checks, with sources",
+        description="Print the rules in force (shipped, with any --rules folders layered over).",
+        epilog="example:\n  lagaudit rules --rules plant-rules/", formatter_class=argparse.RawDescriptionHelpFormatter)
+    _rules_option(rules)
+    rules.set_defaults(run=_rules)
 
     validate = sub.add_parser(
         "validate", help="import only and print the data-quality findings",
@@ -97,31 +108,43 @@ def _formats(text: str) -> list[str]:
 
 def _run(args) -> int:
     formats = _formats(args.format)
-    rules = load_rules(args.rules)
-    table = read_register(args.registers, sheets=args.sheet, aliases=rules.aliases or None)
-    table = resolve_names(table, rules)
-    states = thermal_states(table, rules, surface_model=args.surface_model)
-    results = build_results(table, states)
+    audit = audit_register(args.registers, rules_dirs=args.rules, sheets=args.sheet,
+                           surface_model=args.surface_model)
+    results, findings = audit.results, audit.findings
     out = Path(args.out)
     out.mkdir(parents=True, exist_ok=True)
     meta = {"tool": f"lagaudit {__version__}",
             "run_at": datetime.now(timezone.utc).isoformat(timespec="seconds"),
             "registers": [{"file": str(p), "sha256": _sha256(p)} for p in args.registers],
-            "rules": list(rules.files), "surface_model": args.surface_model, "caution": CAUTION}
+            "rules": list(audit.rules.files), "surface_model": args.surface_model, "caution": CAUTION}
+    findings_out = findings.drop(columns=["row"])
     written = []
     if "csv" in formats:
         written.append(write_csv(results, out / "results.csv"))
+        written.append(write_csv(findings_out, out / "findings.csv"))
     if "json" in formats:
         written.append(write_json(results, out / "results.json", meta=meta))
     if "xlsx" in formats:
-        written.append(write_xlsx({"results": results}, out / "results.xlsx"))
+        rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
+        written.append(write_xlsx({"results": results, "findings": findings_out,
+                                   "rejected": rejected}, out / "results.xlsx"))
     audited = int((results["status"] == "audited").sum())
-    print(f"{len(results)} rows read: {audited} audited, {len(results) - audited} rejected.")
+    print(f"{len(results)} rows read: {audited} audited, {len(results) - audited} rejected; "
+          f"{len(findings)} findings on {findings['row'].nunique()} items.")
     for path in written:
         print(f"wrote {path}")
     if audited < len(results):
         print("See the 'reason' column for each rejected row, or run 'lagaudit validate'.")
     print(CAUTION)
+    if args.fail_on and len(findings):
+        threshold = SEVERITIES.index(args.fail_on)
+        if any(SEVERITIES.index(s) >= threshold for s in findings["severity"]):
+            return 1
+    return 0
+
+
+def _rules(args) -> int:
+    print(describe_rules(load_rules(args.rules)))
     return 0
 
 

@@ -17,7 +17,8 @@ CONTRACT_COLUMNS = ["tag", "source", "status", "reason", "surface_temp [degC]", 
                     "heat_loss [W]", "heat_flux [W/m2]", "findings", "severity"]
 
 
-def build_results(table: pd.DataFrame, states: pd.DataFrame) -> pd.DataFrame:
+def build_results(table: pd.DataFrame, states: pd.DataFrame, *, findings=None,
+                  severity=None) -> pd.DataFrame:
     """Combine the item table and the item's own-conditions states into the results table.
 
     A row the reader accepted but the engine could not compute is ``rejected`` with the
@@ -43,8 +44,8 @@ def build_results(table: pd.DataFrame, states: pd.DataFrame) -> pd.DataFrame:
         "heat_loss [W/m]": states["heat_loss_W_per_m"].to_numpy(float),
         "heat_loss [W]": states["heat_loss_W"].to_numpy(float),
         "heat_flux [W/m2]": states["heat_flux_W_m2"].to_numpy(float),
-        "findings": "",
-        "severity": "",
+        "findings": "" if findings is None else findings,
+        "severity": "" if severity is None else severity,
         "surface_temp_insulated [degC]": celsius("surface_temp_insulated_K"),
     })
     interfaces = sorted((c for c in states.columns if c.startswith("interface_")),

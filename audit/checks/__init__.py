@@ -46,10 +46,14 @@ def validate_checks(rules: Rules) -> dict[str, dict]:
     return params
 
 
-def run_checks(context: CheckContext) -> pd.DataFrame:
-    """Findings of every enabled check, sorted by row, then most severe first."""
+def run_checks(context: CheckContext, params: dict | None = None) -> pd.DataFrame:
+    """Findings of every enabled check, sorted by row, then most severe first.
+
+    ``params`` are the checks' validated parameters (:func:`validate_checks`), computed here
+    when not given.
+    """
     kinds = check_kinds()
-    params = validate_checks(context.rules)
+    params = validate_checks(context.rules) if params is None else params
     frames = []
     for check in context.rules.checks.values():
         if not check.enabled:

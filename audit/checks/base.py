@@ -57,7 +57,7 @@ class CheckContext:
     def selected(self, check: Check, site: str | None = None) -> np.ndarray:
         """Rows the check applies to: computed under its site, and chosen by its selector."""
         states = self.states(check.site if site is None else site)
-        mask = states["computed"].to_numpy(bool)
+        mask = states["computed"].to_numpy(bool).copy()
         if check.applies_to is not None:
             mask &= check.applies_to.mask(self.table)
         return mask

@@ -1,0 +1,50 @@
+"""One audit, start to finish, without files written: what ``lagaudit run`` does.
+
+read -> resolve names against the rules -> thermal states (own conditions) -> checks ->
+remedies -> results table.  Writers and the command line take it from here.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import pandas as pd
+
+from audit.checks import check_kinds, run_checks, summarise_per_row, validate_checks
+from audit.checks.base import CheckContext
+from audit.checks.remedy import fill_remedies
+from audit.io.readers import read_register
+from audit.results import build_results
+from audit.rules import Rules, load_rules
+from audit.thermal import resolve_names
+
+
+@dataclass
+class Audit:
+    """Everything one audit produced."""
+
+    rules: Rules
+    table: pd.DataFrame      #: the item table, names resolved
+    results: pd.DataFrame    #: one row per input row (contract columns first)
+    findings: pd.DataFrame   #: one row per finding
+
+
+def audit_register(registers, *, rules_dirs=(), sheets=None, surface_model="correlations",
+                   rules: Rules | None = None) -> Audit:
+    """Run the whole audit on register files."""
+    rules = load_rules(rules_dirs) if rules is None else rules
+    params = validate_checks(rules)  # an invalid check stops the run before any work
+    table = resolve_names(read_register(registers, sheets=sheets, aliases=rules.aliases or None), rules)
+    return audit_table(table, rules, surface_model=surface_model, params=params)
+
+
+def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlations",
+                params=None) -> Audit:
+    """Run the audit on an item table whose names are already resolved."""
+    params = validate_checks(rules) if params is None else params
+    context = CheckContext(table, rules, surface_model=surface_model)
+    findings = run_checks(context, params)
+    findings = fill_remedies(context, findings, check_kinds(), params)
+    names, worst = summarise_per_row(findings, len(table))
+    results = build_results(table, context.states(""), findings=names, severity=worst)
+    return Audit(rules, table, results, findings)

@@ -1,0 +1,54 @@
+"""The rules in force as plain text, with their sources: what ``lagaudit rules`` prints."""
+
+from __future__ import annotations
+
+import math
+
+from audit.rules.model import Rules
+
+C = 273.15
+
+
+def describe_rules(rules: Rules) -> str:
+    lines = ["Rule files in force (later ones win):", *[f"  {f}" for f in rules.files], ""]
+
+    def section(title, entries, describe):
+        lines.append(f"{title} ({len(entries)}):")
+        for name in sorted(entries):
+            entry = entries[name]
+            lines.append(f"  {name}: {describe(entry)}")
+            lines.append(f"      source: {' '.join(entry.source.split())}")
+        lines.append("")
+
+    def material(m):
+        temps = [t - C for t, _ in m.k]
+        ks = [k for _, k in m.k]
+        wet = "" if math.isnan(m.wet_factor) else f"; wet x{m.wet_factor:g}"
+        return (f"k {min(ks):.4g}-{max(ks):.4g} W/(m K) over {min(temps):.0f} to {max(temps):.0f} degC; "
+                f"max {m.max_temp - C:.0f} degC{wet}")
+
+    section("Materials", rules.materials, material)
+    section("Jackets", rules.jackets, lambda j: f"emissivity {j.emissivity:g}, {j.surface} surface")
+    section("Bare metals", rules.metals, lambda m: f"emissivity {m.emissivity:g}")
+    section("Site conditions", rules.sites,
+            lambda s: f"air {s.ambient - C:.1f} degC, wind {s.wind:g} m/s, RH {s.rh:g} %")
+    section("Fittings", rules.fittings,
+            lambda f: "bare-pipe equivalent " + ", ".join(f"NPS {n:g}: {m:g} m" for n, m in f.equivalent_length))
+    section("Specifications", rules.specs,
+            lambda s: f"{s.material}; {len(s.sizes)} sizes x {len(s.bands)} temperature bands; "
+                      f"tolerance {s.tolerance * 1000:g} mm")
+    if rules.thicknesses:
+        lines.append("Standard thicknesses: " + ", ".join(f"{t * 1000:g}" for t in rules.thicknesses) + " mm")
+        lines.append(f"      source: {' '.join(rules.thicknesses_source.split())}")
+        lines.append("")
+
+    def check(c):
+        state = "on" if c.enabled else "OFF"
+        where = c.site or "each item's own conditions"
+        selector = f"; applies to: {c.applies_to.text}" if c.applies_to is not None and c.applies_to.text else ""
+        params = "".join(f"; {k} = {v!r}" for k, v in c.params.items())
+        return f"[{state}] kind {c.kind}, severity {c.severity}, under {where}{selector}{params}"
+
+    section("Checks", rules.checks, check)
+    lines.append("Defaults: " + ", ".join(f"{k} = {v}" for k, v in sorted(rules.defaults.items())))
+    return "\n".join(lines)
