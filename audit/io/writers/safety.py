@@ -23,6 +23,13 @@ def neutralise_frame(frame: pd.DataFrame) -> pd.DataFrame:
     """A copy of ``frame`` with every text cell of every object column neutralised."""
     out = frame.copy()
     for column in out.columns:
-        if out[column].dtype == object or pd.api.types.is_string_dtype(out[column]):
-            out[column] = out[column].map(neutralise_text)
+        series = out[column]
+        if series.dtype == object or pd.api.types.is_string_dtype(series):
+            is_text = series.map(type).eq(str).to_numpy() if series.dtype == object else \
+                series.notna().to_numpy()
+            starts = series.astype(str).str.startswith(_TRIGGERS).to_numpy(bool) & is_text
+            if starts.any():
+                values = series.to_numpy(object).copy()
+                values[starts] = ["'" + v for v in values[starts]]
+                out[column] = values
     return out

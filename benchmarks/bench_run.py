@@ -1,0 +1,103 @@
+"""Benchmark: a whole ``lagaudit run --format csv`` on a generated register, stage by stage.
+
+Generates an invented register of N rows (default 100,000) whose names all exist in the
+shipped rules, then times: read, resolve names, thermal states (own conditions), checks and
+remedies, results table, CSV writing, and the whole command end to end as a user runs it.
+Target of issue 2: the 100,000-item CSV register through ``lagaudit run --format csv`` in under
+10 s on a 2-core machine.  Not a test: run ``python benchmarks/bench_run.py [--items N]``.
+"""
+
+from __future__ import annotations
+
+import argparse
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+
+def make_register(rows: int, seed: int = 2) -> pd.DataFrame:
+    """``rows`` invented items, mostly pipes, some vessels, with names from the shipped rules."""
+    rng = np.random.default_rng(seed)
+
+    def pick(options):
+        return rng.choice(np.array(options, dtype=object), rows)
+
+    shape = pick(["pipe"] * 18 + ["vertical-vessel", "horizontal-vessel"])
+    vessel = shape != "pipe"
+    return pd.DataFrame({
+        "tag": [f"BX-{i:06d}" for i in range(rows)],
+        "shape": shape,
+        "nps": np.where(vessel, "", pick(["1/2", "1", "1-1/2", "2", "3", "4", "6", "8", "10",
+                                          "12", "16", "24", "DN50", "DN150"])),
+        "od": np.where(vessel, pick(["1200 mm", "1800 mm", "2.4 m", "3 m"]), ""),
+        "length": pick([f"{x:.1f}" for x in np.arange(1, 60, 0.5)]),
+        "temp": pick([str(t) for t in range(-40, 420, 5)] + ["AMB", "300 F"]),
+        "layers": pick(["mineral-wool 50mm", "mineral-wool 2in", "calcium-silicate 50mm + mineral-wool 50mm",
+                        "cellular-glass 40mm", "mineral-wool 80mm", "none"]),
+        "jacket": pick(["aluminium-oxidised", "stainless-steel", "galvanised-steel-weathered"]),
+        "location": pick(["outdoor-annual-mean", "indoor"]),
+        "accessible": pick(["yes", "no"]),
+        "condition": pick(["intact"] * 17 + ["wet", "missing", "damaged"]),
+        "damaged": "20",
+        "material": pick(["carbon-steel", "stainless-steel"]),
+        "service": pick(["heat-conservation", "personnel", ""]),
+        "valves": pick(["0", "0", "1", "2"]),
+        "flanges": pick(["0", "2", "4"]),
+        "area_code": pick([f"U-{u}" for u in range(100, 140)]),
+    })
+
+
+def timed(label, function, *args, **kwargs):
+    start = time.perf_counter()
+    value = function(*args, **kwargs)
+    print(f"  {label:<28} {time.perf_counter() - start:7.2f} s")
+    return value
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--items", type=int, default=100_000)
+    args = parser.parse_args()
+
+    from audit.checks import check_kinds, run_checks, summarise_per_row, validate_checks
+    from audit.checks.base import CheckContext
+    from audit.checks.remedy import fill_remedies
+    from audit.io.readers import read_register
+    from audit.io.writers import write_csv
+    from audit.results import build_results
+    from audit.rules import load_rules
+    from audit.thermal import resolve_names
+
+    with tempfile.TemporaryDirectory() as folder:
+        register = Path(folder) / "register.csv"
+        make_register(args.items).to_csv(register, index=False)
+        print(f"register: {args.items} rows")
+        rules = timed("load rules", load_rules)
+        params = validate_checks(rules)
+        table = timed("read register", read_register, register, aliases=rules.aliases)
+        table = timed("resolve names", resolve_names, table, rules)
+        context = CheckContext(table, rules)
+        states = timed("thermal states (own)", context.states, "")
+        findings = timed("checks (all scenarios)", run_checks, context, params)
+        findings = timed("remedies", fill_remedies, context, findings, check_kinds(), params)
+        names, worst = summarise_per_row(findings, len(table))
+        results = timed("results table", build_results, table, states, findings=names, severity=worst)
+        timed("write results.csv", write_csv, results, Path(folder) / "results.csv")
+        audited = int((results["status"] == "audited").sum())
+        print(f"  audited {audited}, rejected {len(results) - audited}, findings {len(findings)}")
+
+        start = time.perf_counter()
+        subprocess.run([sys.executable, "-m", "audit", "run", str(register), "--format", "csv",
+                        "--out", str(Path(folder) / "out")], check=True, stdout=subprocess.DEVNULL)
+        total = time.perf_counter() - start
+        verdict = "PASS" if total < 10.0 or args.items != 100_000 else "MISS"
+        print(f"end to end: lagaudit run --format csv  {total:7.2f} s   (target < 10 s for 100,000: {verdict})")
+
+
+if __name__ == "__main__":
+    main()
