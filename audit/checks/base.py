@@ -64,11 +64,12 @@ class CheckContext:
 
 
 def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, limit, unit: str,
-             message, remedy, fixable=False) -> pd.DataFrame:
+             message, remedy, fixable=False, severity=None) -> pd.DataFrame:
     """A findings table for ``rows`` (positions in the item table) of one check.
 
-    ``value``, ``limit``, ``message`` and ``remedy`` are arrays aligned with ``rows`` or
-    scalars; the conditions come from the check's scenario.
+    ``value``, ``limit``, ``message``, ``remedy`` and ``severity`` are arrays aligned with
+    ``rows`` or scalars; ``severity`` defaults to the check's; the conditions come from the
+    check's scenario.
     """
     rows = np.asarray(rows, int)
     n = rows.size
@@ -84,7 +85,7 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
         "source": table["source"].to_numpy(object)[rows],
         "check": check.name,
         "kind": check.kind,
-        "severity": check.severity,
+        "severity": spread(check.severity if severity is None else severity),
         "value": spread(value, float),
         "limit": spread(limit, float),
         "unit": unit,

@@ -254,6 +254,13 @@ def _thicknesses(body, path, problems) -> dict:
     return out
 
 
+def _site_name(value):
+    """A site name, or "" for each item's own conditions."""
+    if not isinstance(value, str):
+        raise ValueError(f"{value!r} is not a site name")
+    return value.strip()
+
+
 def _check(name, entry, path, problems):
     where = f"check.{name}"
     if not isinstance(entry, dict):
@@ -261,7 +268,7 @@ def _check(name, entry, path, problems):
         return None
     before = len(problems)
     generic = {}
-    converters = {"kind": text, "enabled": boolean, "site": text, "severity": choice(*SEVERITIES),
+    converters = {"kind": text, "enabled": boolean, "site": _site_name, "severity": choice(*SEVERITIES),
                   "source": text, "description": text}
     for key, convert in converters.items():
         if key in entry:

@@ -1,0 +1,106 @@
+"""``condition``: missing, damaged or wet insulation, and uninsulated fittings on an insulated line.
+
+A check of this kind flags what its ``flags`` parameter names:
+
+* ``missing``: ``condition`` = ``missing`` (the whole item is bare);
+* ``damaged``: ``condition`` = ``damaged`` with a bare share (``damaged_pct``) above
+  ``damaged_threshold`` (default 0 %);
+* ``wet``: ``condition`` = ``wet``;
+* ``fittings``: at least ``min_fittings`` (default 1) uninsulated valves and flanges together,
+  on a line that is insulated (at least one layer and not ``missing``).
+
+One finding per item lists everything that applies ("damaged: 15 % of the length bare; 2
+uninsulated valves").  The finding's value is the bare share of the item's length in %
+(missing 100, damaged its ``damaged_pct``, wet 0: the insulation is there, but wet), with
+the damaged threshold as its limit; a check that flags only ``fittings`` reports instead the
+number of uninsulated fittings, with ``min_fittings`` as its limit.  Only accepted rows are
+read; the register's facts need no thermal state, so items the engine could not compute are
+still flagged.  The remedies are named repairs; insulation thickness does not fix them.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from audit.checks.base import CheckKind, findings
+from audit.rules.converters import choice, list_of, quantity
+
+NAME = "condition"
+
+FLAGS = ("missing", "damaged", "wet", "fittings")
+REINSTATE = "reinstate insulation to specification"
+DRY_OUT = "dry out or replace wet insulation; find and stop the water entry"
+COVERS = "fit removable insulation covers on fittings"
+
+
+def _count(value):
+    if isinstance(value, bool) or not isinstance(value, int) or value < 1:
+        raise ValueError(f"{value!r} is not a whole number of fittings, 1 or more")
+    return value
+
+
+def _plural(n: int, word: str) -> str:
+    return f"{n} uninsulated {word}{'' if n == 1 else 's'}"
+
+
+def evaluate(context, check, params):
+    table = context.table
+    flags = set(params["flags"])
+    threshold = params.get("damaged_threshold", 0.0)
+    least = params.get("min_fittings", 1)
+    chosen = (table["status"] == "ok").to_numpy()
+    if check.applies_to is not None:
+        chosen = chosen & check.applies_to.mask(table)
+    condition = table["condition"].to_numpy(object)
+    share = table["damaged_pct"].to_numpy(float)
+    valves = table["valves"].to_numpy(float)
+    flanges = table["flanges"].to_numpy(float)
+    insulated = np.array([isinstance(m, tuple) and len(m) > 0 for m in table["layer_materials"]])
+
+    missing = chosen & ("missing" in flags) & (condition == "missing")
+    with np.errstate(invalid="ignore"):
+        damaged = chosen & ("damaged" in flags) & (condition == "damaged") & (share > threshold)
+    wet = chosen & ("wet" in flags) & (condition == "wet")
+    fittings = (chosen & ("fittings" in flags) & insulated & (condition != "missing")
+                & (valves + flanges >= least))
+    rows = np.flatnonzero(missing | damaged | wet | fittings)
+
+    messages, remedies = [], []
+    for r in rows:
+        parts, actions = [], []
+        if missing[r]:
+            parts.append("insulation missing: 100 % of the length bare")
+            actions.append(REINSTATE)
+        if damaged[r]:
+            parts.append(f"damaged: {share[r]:g} % of the length bare")
+            actions.append(REINSTATE)
+        if wet[r]:
+            parts.append("wet insulation")
+            actions.append(DRY_OUT)
+        if fittings[r]:
+            parts.extend(_plural(int(n), word) for n, word in
+                         ((valves[r], "valve"), (flanges[r], "flange")) if n > 0)
+            actions.append(COVERS)
+        messages.append("; ".join(parts))
+        remedies.append("; ".join(dict.fromkeys(actions)))
+
+    if flags == {"fittings"}:
+        value, limit, unit = (valves + flanges)[rows], float(least), "fittings"
+    else:
+        value = np.select([condition[rows] == "missing", condition[rows] == "damaged"],
+                          [100.0, share[rows]], 0.0)
+        limit, unit = threshold, "%"
+    return findings(context, check, rows, value=value, limit=limit, unit=unit, message=messages,
+                    remedy=remedies, fixable=False)
+
+
+KIND = CheckKind(
+    evaluate=evaluate,
+    params={
+        "flags": (list_of(choice(*FLAGS), "flags: " + ", ".join(FLAGS)), True),
+        "damaged_threshold": (quantity("percent", "percent", low=0.0, high=100.0), False),
+        "min_fittings": (_count, False),
+    },
+    fixable_by_insulation=False,
+    description="missing, damaged or wet insulation, and uninsulated valves and flanges on an "
+                "insulated line")
