@@ -1,0 +1,78 @@
+"""``condensation``: a cold item whose outer surface is below the air's dew point plus a margin.
+
+Evaluated under the check's site condition (shipped: the humid design day with still air,
+which gives the coldest surface and the highest dew point).  The dew point comes from the
+air temperature and relative humidity of the scenario's states
+(:func:`audit.engine.psychrometrics.dew_point_hyland_wexler`).  The part compared is the
+coldest of the item: for a cold item that is the engine's worst part (``surface_temp_K``),
+which includes bare parts (missing or damaged insulation, uninsulated fittings).
+
+Only items colder than the air can fail.  Rows whose dew point cannot be computed (relative
+humidity of 0 %, where no water can condense, or air outside the psychrometric range) are not
+flagged.  Insulation fixes it: more thickness, with a continuous vapour retarder on the warm
+side, since a cold item draws moisture into its insulation.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from audit.checks.base import CheckKind, findings
+from audit.checks.touch_temperature import bare_parts
+from audit.engine.psychrometrics import dew_point_hyland_wexler
+from audit.rules.converters import temperature_difference
+from audit.thermal import ZERO_CELSIUS
+
+NAME = "condensation"
+
+DEFAULT_MARGIN_K = 1.0
+"""Margin above the dew point when the rule gives none [K] (common practice, see the rule file)."""
+
+
+def _margin(value):
+    """A margin above the dew point: a temperature difference, not negative [K]."""
+    margin = temperature_difference(value)
+    if margin < 0:
+        raise ValueError(f"{margin:g} K is negative; a margin is added above the dew point")
+    return margin
+
+
+def evaluate(context, check, params):
+    margin = params.get("margin", DEFAULT_MARGIN_K)
+    table = context.table
+    states = context.states(check.site)
+    selected = context.selected(check)
+    air = states["air_temp_K"].to_numpy(float)
+    rh = states["rh_pct"].to_numpy(float)
+    process = states["process_temp_K"].to_numpy(float)
+    worst = states["surface_temp_K"].to_numpy(float)
+    insulated = states["surface_temp_insulated_K"].to_numpy(float)
+    coldest = np.fmin(worst, insulated)
+    dew = np.asarray(dew_point_hyland_wexler(air, rh), float)
+    limit = dew + margin
+    with np.errstate(invalid="ignore"):
+        cold = process < air
+        fails = selected & cold & np.isfinite(limit) & (coldest < limit)
+    flagged = np.flatnonzero(fails)
+    has_bare, bare_words = bare_parts(table)
+    bare_is_coldest = has_bare & ~(insulated <= worst)
+
+    message, remedy = [], []
+    for r in flagged:
+        part = bare_words[r] if bare_is_coldest[r] else "insulated surface"
+        message.append(f"{part} at {coldest[r] - ZERO_CELSIUS:.1f} degC, below the dew point "
+                       f"{dew[r] - ZERO_CELSIUS:.1f} degC + {margin:g} K margin (air "
+                       f"{air[r] - ZERO_CELSIUS:.0f} degC, {rh[r]:.0f} % RH)")
+        remedy.append("insulate the bare parts, with a sealed vapour retarder" if bare_is_coldest[r]
+                      else "increase insulation thickness, with a sealed vapour retarder")
+    return findings(context, check, flagged, value=coldest[flagged] - ZERO_CELSIUS,
+                    limit=limit[flagged] - ZERO_CELSIUS, unit="degC",
+                    message=np.array(message, dtype=object), remedy=np.array(remedy, dtype=object),
+                    fixable=True)
+
+
+KIND = CheckKind(
+    evaluate=evaluate,
+    params={"margin": (_margin, False)},
+    fixable_by_insulation=True,
+    description="a cold item whose outer surface is below the dew point of the air plus a margin")

@@ -1,0 +1,149 @@
+"""``heat-loss-limit``: an item losing (in cold service: gaining) more heat than the rules allow.
+
+Parameters (at least one is required):
+
+``per_m``
+    W per metre of pipe run (pipes only): the item's whole heat loss, fittings and damage
+    included, over its run length.
+``per_m2``
+    W per m2 of outer surface (any item): the item's whole heat loss over its whole outer
+    surface.
+``multiple_of_spec``
+    A factor (>= 1): the item's heat loss against the same item insulated to its plant
+    specification, i.e. the specification's thickness of the specification's material, intact
+    and dry (see :mod:`audit.checks.below_spec` for which specification governs an item).  The
+    reference is computed with the engine on a modified copy of the item table under the same
+    site, keeping the item's jacket, emissivity and uninsulated fittings (bare valves and
+    flanges are the ``condition`` check's concern, and added thickness cannot fix them).
+    Items for which the specification asks for nothing are not compared, nor items whose
+    reference the engine cannot compute (e.g. a bare item with no jacket to assume).
+
+Heat gains (cold service) compare by magnitude.  Evaluated under the check's site: the shipped
+rules use the annual-mean condition, the one heat-loss energy is reckoned at.  An item over
+several limits gets one finding, for the limit it exceeds by the largest ratio; its message
+names every limit exceeded.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+
+from audit.checks.base import CheckKind, findings
+from audit.checks.below_spec import requirement
+from audit.errors import RuleError
+from audit.rules.converters import quantity
+from audit.thermal import resolve_names, thermal_states
+
+NAME = "heat-loss-limit"
+
+_LIMITS = ("per_m", "per_m2", "multiple_of_spec")
+_UNITS = {"per_m": "W/m", "per_m2": "W/m2", "multiple_of_spec": "times spec"}
+_REMEDY = "add insulation to bring the heat loss within the limit"
+
+
+def specified_copy(table: pd.DataFrame, need) -> pd.DataFrame:
+    """The item table with every row that has a requirement insulated exactly to it.
+
+    Rows without a requirement are marked rejected so that the engine skips them.
+    """
+    out = table.copy()
+    has = need.thickness_m > 0
+    layers = out["layer_materials"].to_numpy(object).copy()
+    thick = out["layer_thicknesses_m"].to_numpy(object).copy()
+    for i in np.flatnonzero(has):
+        layers[i] = (need.material[i],)
+        thick[i] = (float(need.thickness_m[i]),)
+    out["layer_materials"] = layers
+    out["layer_thicknesses_m"] = thick
+    out.loc[has, "condition"] = "intact"
+    out.loc[has, "damaged_pct"] = np.nan
+    out.loc[~has, "status"] = "rejected"
+    return out
+
+
+def reference_heat_loss(context, check) -> tuple[np.ndarray, object]:
+    """Heat loss [W] of every row insulated to its specification (NaN where not computed)."""
+    states = context.states(check.site)
+    need = requirement(context.table, context.rules, states["process_temp_K"].to_numpy(float),
+                       states["air_temp_K"].to_numpy(float))
+    q_ref = np.full(len(context.table), np.nan)
+    if not (need.thickness_m > 0).any():
+        return q_ref, need
+    copy = resolve_names(specified_copy(context.table, need), context.rules)
+    ref = thermal_states(copy, context.rules, site=check.site or None,
+                         surface_model=context.surface_model, tables=context._tables)
+    computed = ref["computed"].to_numpy(bool)
+    q_ref[computed] = ref["heat_loss_W"].to_numpy(float)[computed]
+    return q_ref, need
+
+
+def evaluate(context, check, params):
+    if not any(key in params for key in _LIMITS):
+        raise RuleError(f"check {check.name!r} sets no limit", file=check.origin,
+                        column=f"check.{check.name}",
+                        expected="at least one of per_m = W/m, per_m2 = W/m2, "
+                                 "multiple_of_spec = factor")
+    table = context.table
+    states = context.states(check.site)
+    selected = context.selected(check)
+    heat = states["heat_loss_W"].to_numpy(float)
+    n = len(table)
+    values, limits, need = {}, {}, None
+    with np.errstate(invalid="ignore", divide="ignore"):
+        if "per_m" in params:
+            pipe = (table["shape"] == "pipe").to_numpy()
+            values["per_m"] = np.where(pipe, np.abs(states["heat_loss_W_per_m"].to_numpy(float)),
+                                       np.nan)
+        if "per_m2" in params:
+            values["per_m2"] = np.abs(heat) / states["outer_area_m2"].to_numpy(float)
+        if "multiple_of_spec" in params:
+            q_ref, need = reference_heat_loss(context, check)
+            values["multiple_of_spec"] = np.where(q_ref != 0, np.abs(heat) / np.abs(q_ref), np.nan)
+        ratios = np.full((n, len(values)), -np.inf)
+        for k, key in enumerate(values):
+            limits[key] = params[key]
+            ratio = values[key] / limits[key]
+            ratios[:, k] = np.where(selected & (values[key] > limits[key]), ratio, -np.inf)
+    worst = np.argmax(ratios, axis=1)
+    over = np.isfinite(ratios.max(axis=1))
+    keys = list(values)
+    frames = []
+    for k, key in enumerate(keys):
+        rows = np.flatnonzero(over & (worst == k))
+        if not rows.size:
+            continue
+        message = [_message(r, keys, values, limits, ratios, heat, need) for r in rows]
+        frames.append(findings(context, check, rows, value=values[key][rows], limit=limits[key],
+                               unit=_UNITS[key], message=message, remedy=_REMEDY, fixable=True))
+    if not frames:
+        return findings(context, check, np.empty(0, int), value=np.nan, limit=np.nan, unit="",
+                        message="", remedy="", fixable=True)
+    return pd.concat(frames, ignore_index=True).sort_values("row", kind="stable",
+                                                            ignore_index=True)
+
+
+def _message(r, keys, values, limits, ratios, heat, need) -> str:
+    what = "heat gain" if heat[r] < 0 else "heat loss"
+    parts = []
+    for k, key in enumerate(keys):
+        if not np.isfinite(ratios[r, k]):
+            continue
+        if key == "multiple_of_spec":
+            parts.append(f"{values[key][r]:.2f} times that of the item insulated to the "
+                         f"{need.spec[r]} specification ({need.thickness_m[r] * 1000:.0f} mm of "
+                         f"{need.material[r]}), above the limit of {limits[key]:g} times")
+        else:
+            parts.append(f"{values[key][r]:.1f} {_UNITS[key]}, above the limit of "
+                         f"{limits[key]:g} {_UNITS[key]}")
+    return f"{what} " + "; ".join(parts)
+
+
+KIND = CheckKind(
+    evaluate=evaluate,
+    params={"per_m": (quantity("W/m", "W/m", low=0.0, low_open=True), False),
+            "per_m2": (quantity("W/m**2", "W/m**2", low=0.0, low_open=True), False),
+            "multiple_of_spec": (quantity("dimensionless", "dimensionless", low=1.0), False)},
+    fixable_by_insulation=True,
+    description="heat loss (or gain) above a limit per metre, per m2, or as a multiple of the "
+                "same item insulated to specification")

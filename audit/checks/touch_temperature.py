@@ -1,0 +1,163 @@
+"""``touch-temperature``: an accessible item whose outer surface is hot enough to burn.
+
+Evaluated under the check's site condition (shipped: the hot still day, which makes surfaces
+hottest).  Each part of the item is held to the burn limit of its surface class:
+
+* the insulated outer surface to the limit of its jacket's ``surface`` class in the rules
+  (``metal`` or ``non-metal``); a row that gives only an emissivity, no jacket, is held to the
+  metal limit (the stricter class in practice) and its finding says so;
+* any bare part (a bare item, missing insulation, the bare share of damaged insulation,
+  uninsulated valves and flanges on a pipe) is bare metal, held to the metal limit; for a hot
+  item it is the item's hottest part, the engine's ``surface_temp_K``.
+
+The limit comes from ``limit_metal`` / ``limit_non_metal``, or for metal from a table of burn
+thresholds by contact time (``burn_thresholds``, read at ``contact_time``; no interpolation
+between published points).  Insulation (or a personnel guard, where ``guard_allowed``) fixes it.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from audit.checks.base import CheckKind, findings
+from audit.errors import RuleError
+from audit.rules.converters import boolean, quantity, rows, temperature
+from audit.thermal import ZERO_CELSIUS
+
+NAME = "touch-temperature"
+
+_SECONDS = quantity("s", "s", low=0.0, low_open=True)
+
+
+def bare_parts(table):
+    """Per row of the item table: has it a bare metal part, and which, in words.
+
+    Fittings count on pipes only, as the engine counts them (see ``audit.thermal``).
+    """
+    layers = table["layer_materials"].to_numpy(object)
+    condition = table["condition"].fillna("").to_numpy(object)
+    damaged = table["damaged_pct"].to_numpy(float)
+    pipe = (table["shape"] == "pipe").to_numpy()
+    valves = np.nan_to_num(table["valves"].to_numpy(float))
+    flanges = np.nan_to_num(table["flanges"].to_numpy(float))
+    words = np.full(len(table), "", dtype=object)
+    for i in range(len(table)):
+        parts = []
+        if not (isinstance(layers[i], tuple) and layers[i]):
+            parts.append("bare metal")
+        elif condition[i] == "missing":
+            parts.append("bare metal (insulation missing)")
+        elif condition[i] == "damaged" and damaged[i] > 0:
+            parts.append(f"the bare share of damaged insulation ({damaged[i]:g} %)")
+        fittings = [f"{n:g} {what}" for n, what in ((valves[i], "valves"), (flanges[i], "flanges"))
+                    if n > 0]
+        if pipe[i] and fittings:
+            parts.append(f"uninsulated fittings ({', '.join(fittings)})")
+        words[i] = " and ".join(parts)
+    return words != "", words
+
+
+def insulated_surface_class(table, rules):
+    """Per row: burn class of the insulated outer surface, and whether it was assumed.
+
+    The row's jacket, else the rules' default jacket when the row gives no emissivity (as the
+    thermal glue does); a row with only an emissivity is taken as metal (assumed = True).
+    """
+    default = rules.defaults.get("jacket", "")
+    jackets = table["jacket"].fillna("").to_numpy(object)
+    has_eps = np.isfinite(table["emissivity"].to_numpy(float))
+    kind = np.full(len(table), "metal", dtype=object)
+    assumed = np.zeros(len(table), bool)
+    for i, name in enumerate(jackets):
+        name = name or ("" if has_eps[i] else default)
+        if name in rules.jackets:
+            kind[i] = rules.jackets[name].surface
+        else:
+            assumed[i] = True
+    return kind, assumed
+
+
+def _limits(check, params):
+    """(metal limit [K], non-metal limit [K]); RuleError naming the key when they conflict."""
+    def error(message, key, value=None, expected=None):
+        return RuleError(message, file=check.origin, column=f"check.{check.name}.{key}",
+                         value=value, expected=expected)
+
+    table = params.get("burn_thresholds")
+    if table is None:
+        if "limit_metal" not in params:
+            raise error("missing key 'limit_metal'", "limit_metal",
+                        expected="limit_metal = <degC>, or burn_thresholds with contact_time")
+        return params["limit_metal"], params["limit_non_metal"]
+    if "limit_metal" in params:
+        raise error("limit_metal and burn_thresholds both given", "limit_metal",
+                    expected="one of them: the metal limit is read from burn_thresholds at "
+                             "contact_time")
+    if "contact_time" not in params:
+        raise error("burn_thresholds needs contact_time", "contact_time",
+                    expected="contact_time = <s>, one of the table's contact times")
+    for time, threshold in table:
+        if np.isclose(time, params["contact_time"], rtol=1e-9, atol=0.0):
+            return threshold, params["limit_non_metal"]
+    raise error("contact_time is not a row of burn_thresholds", "contact_time",
+                value=params["contact_time"],
+                expected="one of " + ", ".join(f"{t:g} s" for t, _ in table)
+                         + " (values between published points are not interpolated)")
+
+
+def evaluate(context, check, params):
+    limit_metal, limit_non_metal = _limits(check, params)
+    table = context.table
+    states = context.states(check.site)
+    selected = context.selected(check)
+    worst = states["surface_temp_K"].to_numpy(float)
+    insulated_temp = states["surface_temp_insulated_K"].to_numpy(float)
+    has_bare, bare_words = bare_parts(table)
+    kind, assumed = insulated_surface_class(table, context.rules)
+    insulated_limit = np.where(kind == "metal", limit_metal, limit_non_metal)
+
+    # The insulated surface: the worst part when nothing is bare, else the main insulated wall.
+    ins_temp = np.where(has_bare, insulated_temp, worst)
+    with np.errstate(invalid="ignore"):
+        ins_excess = np.where(np.isfinite(ins_temp), ins_temp - insulated_limit, -np.inf)
+        bare_excess = np.where(has_bare & np.isfinite(worst), worst - limit_metal, -np.inf)
+    bare_is_worse = bare_excess >= ins_excess
+    excess = np.maximum(ins_excess, bare_excess)
+    flagged = np.flatnonzero(selected & (excess > 0))
+
+    value = np.where(bare_is_worse, worst, ins_temp)[flagged] - ZERO_CELSIUS
+    limit = np.where(bare_is_worse, limit_metal, insulated_limit)[flagged] - ZERO_CELSIUS
+    guard = params.get("guard_allowed", False)
+    contact = params.get("contact_time")
+    suffix = f" (contact time {contact:g} s)" if contact is not None else ""
+    message, remedy = [], []
+    for r, v, lim in zip(flagged, value, limit):
+        if bare_is_worse[r]:
+            text = f"{bare_words[r]} at {v:.0f} degC, above the {lim:.0f} degC burn limit for metal"
+            action = "insulate the bare parts"
+        else:
+            text = (f"{kind[r]} jacket surface at {v:.0f} degC, above the {lim:.0f} degC burn "
+                    f"limit for {kind[r]} surfaces")
+            if assumed[r]:
+                text += "; no jacket named, only an emissivity: taken as metal (conservative)"
+            action = "increase insulation thickness"
+        message.append(text + suffix)
+        remedy.append(action + (" or fit a personnel guard" if guard else ""))
+    return findings(context, check, flagged, value=value, limit=limit, unit="degC",
+                    message=np.array(message, dtype=object), remedy=np.array(remedy, dtype=object),
+                    fixable=True)
+
+
+KIND = CheckKind(
+    evaluate=evaluate,
+    params={
+        "limit_metal": (temperature, False),
+        "limit_non_metal": (temperature, True),
+        "burn_thresholds": (rows(_SECONDS, temperature, "contact time s, burn threshold degC"),
+                            False),
+        "contact_time": (_SECONDS, False),
+        "guard_allowed": (boolean, False),
+    },
+    fixable_by_insulation=True,
+    description="an accessible item whose outer surface exceeds the burn limit of its surface "
+                "class")
