@@ -32,6 +32,9 @@ class CheckKind:
     params: dict                       #: key -> (converter, required); see audit.rules.converters
     fixable_by_insulation: bool        #: the remedy search may add insulation for it
     description: str
+    #: (check, params) -> None; raises RuleError for rules across keys that the per-key
+    #: schema cannot express (e.g. "at least one of"), so they fail at load, not mid-run
+    validate: Callable | None = None
 
 
 @dataclass
@@ -131,4 +134,34 @@ def validated_params(check: Check, kind: CheckKind) -> dict:
     if problems:
         raise RuleError(f"{len(problems)} problem(s) in check {check.name!r}", file=check.origin,
                         problems=problems)
+    if kind.validate is not None:
+        kind.validate(check, values)
     return values
+
+
+def bare_parts(table: pd.DataFrame):
+    """Per row of the item table: has it a bare metal part, and which, in words.
+
+    Fittings count on pipes only, as the engine counts them (see ``audit.thermal``).
+    """
+    layers = table["layer_materials"].to_numpy(object)
+    condition = table["condition"].fillna("").to_numpy(object)
+    damaged = table["damaged_pct"].to_numpy(float)
+    pipe = (table["shape"] == "pipe").to_numpy()
+    valves = np.nan_to_num(table["valves"].to_numpy(float))
+    flanges = np.nan_to_num(table["flanges"].to_numpy(float))
+    words = np.full(len(table), "", dtype=object)
+    for i in range(len(table)):
+        parts = []
+        if not (isinstance(layers[i], tuple) and layers[i]):
+            parts.append("bare metal")
+        elif condition[i] == "missing":
+            parts.append("bare metal (insulation missing)")
+        elif condition[i] == "damaged" and damaged[i] > 0:
+            parts.append(f"the bare share of damaged insulation ({damaged[i]:g} %)")
+        fittings = [f"{n:g} {what}" for n, what in ((valves[i], "valves"), (flanges[i], "flanges"))
+                    if n > 0]
+        if pipe[i] and fittings:
+            parts.append(f"uninsulated fittings ({', '.join(fittings)})")
+        words[i] = " and ".join(parts)
+    return words != "", words

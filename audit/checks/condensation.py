@@ -17,8 +17,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, findings
-from audit.checks.touch_temperature import bare_parts
+from audit.checks.base import CheckKind, bare_parts, findings
 from audit.engine.psychrometrics import dew_point_hyland_wexler
 from audit.rules.converters import temperature_difference
 from audit.thermal import ZERO_CELSIUS

@@ -78,12 +78,15 @@ def reference_heat_loss(context, check) -> tuple[np.ndarray, object]:
     return q_ref, need
 
 
-def evaluate(context, check, params):
+def _validate(check, params):
     if not any(key in params for key in _LIMITS):
         raise RuleError(f"check {check.name!r} sets no limit", file=check.origin,
                         column=f"check.{check.name}",
                         expected="at least one of per_m = W/m, per_m2 = W/m2, "
                                  "multiple_of_spec = factor")
+
+
+def evaluate(context, check, params):
     table = context.table
     states = context.states(check.site)
     selected = context.selected(check)
@@ -146,4 +149,5 @@ KIND = CheckKind(
             "multiple_of_spec": (quantity("dimensionless", "dimensionless", low=1.0), False)},
     fixable_by_insulation=True,
     description="heat loss (or gain) above a limit per metre, per m2, or as a multiple of the "
-                "same item insulated to specification")
+                "same item insulated to specification",
+    validate=_validate)

@@ -6,8 +6,9 @@ of the item table, by one layer of the remedy material at each standard thicknes
 plus ``layer-overheat``, is evaluated again on the copies, for the whole register at once.
 The first thickness at which an item has none of those findings is its remedy.
 
-The remedy material is the item's specification material for its service, else its
-outermost installed material; an item with neither gets a named action without a thickness.
+The remedy material is the material of the specification the item is held to (see
+``below-spec``), else its outermost installed material; an item with neither gets a named
+action without a thickness.
 """
 
 from __future__ import annotations
@@ -16,6 +17,7 @@ import numpy as np
 import pandas as pd
 
 from audit.checks.base import CheckContext
+from audit.checks.below_spec import requirement
 
 
 def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, params: dict) -> pd.DataFrame:
@@ -25,7 +27,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
         return findings
     rules, table = context.rules, context.table
     rows = np.unique(findings.loc[findings["fixable_by_insulation"].astype(bool), "row"].astype(int))
-    material = _remedy_material(table, rules, rows)
+    material = _remedy_material(context, rows)
     has_material = material != ""
     recheck = [c for c in rules.checks.values() if c.enabled and
                (kinds[c.kind].fixable_by_insulation or c.kind == "layer-overheat")]
@@ -64,18 +66,20 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
             mm = thickness[i] * 1000.0
             out.at[k, "remedy_thickness [mm]"] = mm
             out.at[k, "remedy_material"] = material[i]
-            out.at[k, "remedy"] = f"insulate with {mm:.0f} mm of {material[i]} (replacing what is there)"
+            out.at[k, "remedy"] = f"insulate with {mm:.3g} mm of {material[i]} (replacing what is there)"
     return out
 
 
-def _remedy_material(table: pd.DataFrame, rules, rows: np.ndarray) -> np.ndarray:
-    services = table["service"].fillna("").to_numpy(object)[rows]
-    layers = table["layer_materials"].to_numpy(object)[rows]
-    out = np.full(rows.size, "", dtype=object)
-    for i, (service, installed) in enumerate(zip(services, layers)):
-        if service in rules.specs:
-            out[i] = rules.specs[service].material
-        elif isinstance(installed, tuple) and installed:
+def _remedy_material(context: CheckContext, rows: np.ndarray) -> np.ndarray:
+    """The governing specification's material (below-spec's choice of spec, so an item with no
+    declared service gets the spec it would be held to), else the outermost installed one."""
+    states = context.states("")
+    spec = requirement(context.table, context.rules, states["process_temp_K"].to_numpy(float),
+                       states["air_temp_K"].to_numpy(float))
+    layers = context.table["layer_materials"].to_numpy(object)[rows]
+    out = np.asarray(spec.material, dtype=object)[rows].copy()
+    for i, installed in enumerate(layers):
+        if not out[i] and isinstance(installed, tuple) and installed:
             out[i] = installed[-1]
     return out
 

@@ -19,7 +19,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, findings
+from audit.checks.base import CheckKind, bare_parts, findings
 from audit.errors import RuleError
 from audit.rules.converters import boolean, quantity, rows, temperature
 from audit.thermal import ZERO_CELSIUS
@@ -27,34 +27,6 @@ from audit.thermal import ZERO_CELSIUS
 NAME = "touch-temperature"
 
 _SECONDS = quantity("s", "s", low=0.0, low_open=True)
-
-
-def bare_parts(table):
-    """Per row of the item table: has it a bare metal part, and which, in words.
-
-    Fittings count on pipes only, as the engine counts them (see ``audit.thermal``).
-    """
-    layers = table["layer_materials"].to_numpy(object)
-    condition = table["condition"].fillna("").to_numpy(object)
-    damaged = table["damaged_pct"].to_numpy(float)
-    pipe = (table["shape"] == "pipe").to_numpy()
-    valves = np.nan_to_num(table["valves"].to_numpy(float))
-    flanges = np.nan_to_num(table["flanges"].to_numpy(float))
-    words = np.full(len(table), "", dtype=object)
-    for i in range(len(table)):
-        parts = []
-        if not (isinstance(layers[i], tuple) and layers[i]):
-            parts.append("bare metal")
-        elif condition[i] == "missing":
-            parts.append("bare metal (insulation missing)")
-        elif condition[i] == "damaged" and damaged[i] > 0:
-            parts.append(f"the bare share of damaged insulation ({damaged[i]:g} %)")
-        fittings = [f"{n:g} {what}" for n, what in ((valves[i], "valves"), (flanges[i], "flanges"))
-                    if n > 0]
-        if pipe[i] and fittings:
-            parts.append(f"uninsulated fittings ({', '.join(fittings)})")
-        words[i] = " and ".join(parts)
-    return words != "", words
 
 
 def insulated_surface_class(table, rules):
@@ -160,4 +132,5 @@ KIND = CheckKind(
     },
     fixable_by_insulation=True,
     description="an accessible item whose outer surface exceeds the burn limit of its surface "
-                "class")
+                "class",
+    validate=_limits)

@@ -18,6 +18,7 @@ from collections.abc import Iterable
 from pathlib import Path
 
 from audit.errors import Problem, RuleError
+from audit.pipe_sizes import NPS_BY_VALUE
 from audit.rules.model import Fitting, Jacket, Material, Metal, Rules, Site
 from audit.rules.converters import (boolean, choice, list_of, quantity, rows, temperature, text)
 from audit.rules.model import SEVERITIES, Check, Spec
@@ -316,6 +317,11 @@ def _check_references(rules: Rules) -> None:
             raise RuleError(f"spec {spec.name!r} names material {spec.material!r}, which is not "
                             "defined", file=spec.origin, column=f"spec.{spec.name}.material",
                             value=spec.material, expected="one of " + ", ".join(sorted(rules.materials)))
+        unlisted = [n for n in spec.sizes if n not in NPS_BY_VALUE]
+        if unlisted:
+            raise RuleError(f"spec {spec.name!r}: size {unlisted[0]:g} is not a nominal pipe size of "
+                            "ASME B36.10M", file=spec.origin, column=f"spec.{spec.name}.sizes",
+                            value=unlisted[0], expected="NPS values such as 0.5, 1.5, 4, 24")
         shapes = [len(row) for row in spec.thickness]
         if len(spec.thickness) != len(spec.sizes) or any(n != len(spec.bands) for n in shapes) \
                 or len(spec.flat) != len(spec.bands):
