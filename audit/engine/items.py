@@ -449,9 +449,9 @@ def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
     np.fmax.at(balance, item, sol.balance_error)
 
     reason = reasons.copy()
-    failed = np.flatnonzero(~item_ok & (reason == ""))
-    for i in failed:
-        reason[i] = _failure_reason(i, e, sol, tables)
+    failed = ~item_ok & (reason == "")
+    if failed.any():
+        reason[failed] = _failure_reasons(np.flatnonzero(failed), e, sol, tables)
     computed = (reason == "")
     warnings = _warnings(n, e, sol, tables, w.present)
 
@@ -487,15 +487,23 @@ def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
     )
 
 
-def _failure_reason(i, e, sol, tables) -> str:
-    rows = np.flatnonzero(e.item == i)
-    bad = rows[~sol.converged[rows]]
-    temps = sol.interface_temps[bad]
-    if np.isnan(temps).any():
-        names = sorted({tables.names[t] for t in e.layer_table[bad].ravel() if t >= 0})
-        return ("conductivity of " + ", ".join(names) +
-                " extrapolates to zero or below within the item's temperature span")
-    return f"surface heat balance did not close (relative error {np.nanmax(sol.balance_error[bad]):.1e})"
+def _failure_reasons(items, e, sol, tables) -> list[str]:
+    """Why each of ``items`` did not converge, from its unconverged elements."""
+    bad = np.flatnonzero(~sol.converged & np.isin(e.item, items))
+    by_item: dict[int, list[int]] = {}
+    for element in bad:
+        by_item.setdefault(int(e.item[element]), []).append(element)
+    out = []
+    for i in items:
+        elements = by_item[int(i)]
+        if np.isnan(sol.interface_temps[elements]).any():
+            names = sorted({tables.names[t] for t in e.layer_table[elements].ravel() if t >= 0})
+            out.append("conductivity of " + ", ".join(names)
+                       + " extrapolates to zero or below within the item's temperature span")
+        else:
+            worst = np.nanmax(sol.balance_error[elements])
+            out.append(f"surface heat balance did not close (relative error {worst:.1e})")
+    return out
 
 
 def _warnings(n, e, sol, tables, present) -> np.ndarray:
@@ -509,12 +517,15 @@ def _warnings(n, e, sol, tables, present) -> np.ndarray:
             idx = np.flatnonzero(col)
             outside[idx, j] = tables.outside(e.layer_table[idx, j], temps[idx, j], temps[idx, j + 1])
     rows, cols = np.nonzero(outside)
-    notes: dict[int, set] = {}
-    for r, c in zip(rows, cols):
-        t = e.layer_table[r, c]
-        notes.setdefault(int(e.item[r]), set()).add(
-            f"conductivity of {tables.names[t]} extrapolated beyond its data "
-            f"({tables.t_min[t] - 273.15:g} to {tables.t_max[t] - 273.15:g} degC)")
-    for i, texts in notes.items():
-        out[i] = "; ".join(sorted(texts))
+    if rows.size == 0:
+        return out
+    text = np.array([f"conductivity of {name} extrapolated beyond its data "
+                     f"({lo - 273.15:g} to {hi - 273.15:g} degC)"
+                     for name, lo, hi in zip(tables.names, tables.t_min, tables.t_max)], dtype=object)
+    # One note per (item, material), in table order.
+    pairs = np.unique(np.stack([e.item[rows], e.layer_table[rows, cols]]), axis=1)
+    notes = text[pairs[1]]
+    items, starts = np.unique(pairs[0], return_index=True)
+    for i, a, b in zip(items, starts, np.r_[starts[1:], pairs.shape[1]]):
+        out[i] = "; ".join(notes[a:b])
     return out

@@ -99,7 +99,13 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
         return _Walls(t_process[rows], conductance[rows], table[rows], present[rows],
                       r_inner[rows], outer_area[rows], tables, flux_for(rows))
 
-    walls = walls_of(every)
+    temps = np.empty((n, n_layers + 1))
+    heat, q_conv, q_rad = np.empty(n), np.empty(n), np.empty(n)
+    stored = np.zeros(n, bool)
+
+    def store(at, state):
+        temps[at], heat[at], q_conv[at], q_rad[at] = state
+        stored[at] = True
 
     # Nothing to solve for an item at ambient, or for bare metal with no inner resistance.
     settled = (t_high - t_low <= _ulps(t_low, t_high)) | (~present.any(axis=1) & (r_inner == 0.0))
@@ -116,13 +122,16 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
         if rows.size == 0:
             break
         x = np.where(np.isfinite(x) & (x > low) & (x < high), x, 0.5 * (low + high))
-        f = walls.residual(x)
+        state = walls.march(x)
+        f = walls.residual(*state[:2])
         root[rows] = np.where(live, x, root[rows])
         below = f < 0
         low, high = np.where(below, x, low), np.where(below, high, x)
         drop = np.maximum(np.abs(walls.t_process - x), 1e-6)
-        live &= ~((np.abs(f) <= 1e-3 * BALANCE_TOLERANCE * drop) | (high - low <= _ulps(low, high))
-                  | np.isnan(f))
+        finished = live & ((np.abs(f) <= 1e-3 * BALANCE_TOLERANCE * drop)
+                           | (high - low <= _ulps(low, high)) | np.isnan(f))
+        store(rows[finished], tuple(part[finished] for part in state))
+        live &= ~finished
         with np.errstate(invalid="ignore", divide="ignore"):
             if x_prev is None:
                 # A fixed-point step: keep the share of the drop that fell across the surface.
@@ -141,7 +150,10 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
             low, high = low[keep], high[keep]
             x, x_prev, f_prev, live = x[keep], x_prev[keep], f_prev[keep], live[keep]
 
-    temps, heat, q_conv, q_rad = walls_of(every).march(root)
+    # Settled elements, and any the sweeps left unfinished, at their root.
+    rest = np.flatnonzero(~stored)
+    if rest.size:
+        store(rest, walls_of(rest).march(root[rest]))
     # Relative closure of the series balance: the marched stack needs a temperature drop
     # that misses the real one by |f|; for the heat rate that is a relative error of
     # |f| / drop (exact for constant conductivities, first order otherwise).  Drops below
@@ -215,9 +227,8 @@ class _Walls:
             temps[:, j] = t
         return temps, heat, q_conv, q_rad
 
-    def residual(self, t_surface):
-        """Computed minus actual process temperature [K] for trial surface temperatures."""
-        temps, heat, _, _ = self.march(t_surface)
+    def residual(self, temps, heat):
+        """Computed minus actual process temperature [K], from a march's temperatures and heat."""
         f = temps[:, 0] + heat * self.r_inner - self.t_process
         # No inner temperature can deliver this heat before the extrapolated conductivity
         # reaches zero: the trial surface is too far from the air, on the side heat flows to.

@@ -267,7 +267,8 @@ def _build_correlations(kind, *, diameter, length, wind, air_temp, surroundings_
 
     t_air = np.array(air_temp, dtype=float)
     eps_sigma = emissivity * STEFAN_BOLTZMANN
-    rad_offset = eps_sigma * np.asarray(surroundings_temp, dtype=float) ** 4
+    t_sur = np.asarray(surroundings_temp, dtype=float)
+    t_sur2 = t_sur * t_sur
 
     def flux(surface_temp):
         ts = _rows("surface_temp", surface_temp, n)
@@ -293,8 +294,10 @@ def _build_correlations(kind, *, diameter, length, wind, air_temp, surroundings_
                 # Coefficients, not Nusselt numbers: the two regimes may use different lengths.
                 h_g[g.windy] = cv.combine_nusselt(h_g[g.windy], g.h_forced)
             h[r] = h_g
-        ts2 = ts * ts
-        return h * dt, eps_sigma * (ts2 * ts2) - rad_offset
+        # Factored so that the exchange is exactly zero when the surface sits at the
+        # surroundings' temperature (T^4 - T^4 leaves rounding that a thick layer amplifies).
+        q_rad = eps_sigma * (ts * ts + t_sur2) * (ts + t_sur) * (ts - t_sur)
+        return h * dt, q_rad
 
     return flux
 
