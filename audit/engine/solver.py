@@ -74,7 +74,7 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
         ``flux_for(rows)`` returns ``flux(T_s) -> (q_conv, q_rad)`` [W/m2] for the elements
         ``rows`` (an index array); the solver asks again for fewer rows as elements converge.
     max_iter : int
-        Most sweeps of the root finder.  An element stops when its residual is a thousandth
+        Most sweeps of the root finder.  An element stops when its residual is a hundredth
         of what the balance tolerance allows, or when its bracket is a few float steps wide.
 
     Returns
@@ -128,7 +128,7 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
         below = f < 0
         low, high = np.where(below, x, low), np.where(below, high, x)
         drop = np.maximum(np.abs(walls.t_process - x), 1e-6)
-        finished = live & ((np.abs(f) <= 1e-3 * BALANCE_TOLERANCE * drop)
+        finished = live & ((np.abs(f) <= 1e-2 * BALANCE_TOLERANCE * drop)
                            | (high - low <= _ulps(low, high)) | np.isnan(f))
         store(rows[finished], tuple(part[finished] for part in state))
         live &= ~finished
@@ -143,7 +143,7 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
                 step = np.where(np.abs(f) > 0.5 * np.abs(f_prev), 0.5 * (low + high), secant)
         x_prev, f_prev = x, f
         x = np.where(live, step, x)
-        if live.sum() < 0.5 * rows.size:
+        if live.sum() < 0.75 * rows.size:
             keep = live
             rows = rows[keep]
             walls = walls_of(rows)
