@@ -75,3 +75,34 @@ def test_validate_prints_the_summary(register, capsys):
     assert main(["validate", str(register)]) == 0
     out = capsys.readouterr().out
     assert "line_list.csv" in out and "not a temperature" in out and "Rejected rows" in out
+
+
+def test_fail_on_exits_1_when_a_finding_reaches_the_severity(register, tmp_path):
+    # A bare accessible line at 200 degC fails touch-temperature, shipped as "high".
+    hot = tmp_path / "hot.csv"
+    hot.write_text("tag,nps,length,temp,layers,accessible\nH-1,2,5,200,none,yes\n", encoding="utf-8")
+    out = str(tmp_path / "o")
+    assert main(["run", str(hot), "--out", out, "--format", "csv", "--fail-on", "high"]) == 1
+    assert main(["run", str(hot), "--out", out, "--format", "csv", "--fail-on", "critical"]) == 0
+    assert main(["run", str(hot), "--out", out, "--format", "csv"]) == 0
+    findings = pd.read_csv(tmp_path / "o" / "findings.csv")
+    assert "touch-temperature" in set(findings["check"])
+
+
+def test_rules_command_lists_definitions_with_sources(capsys):
+    assert main(["rules"]) == 0
+    out = capsys.readouterr().out
+    for words in ("Materials", "mineral-wool", "Checks", "touch-temperature", "source:",
+                  "Site conditions", "hot-still-day"):
+        assert words in out
+
+
+def test_an_invalid_check_parameter_stops_the_run_with_exit_2(register, tmp_path, capsys):
+    rules = tmp_path / "rules"
+    rules.mkdir()
+    (rules / "plant.toml").write_text(
+        '[check.touch-temperature]\nsite = "hot-still-day"\nseverity = "high"\nsource = "x"\n'
+        'limit_metal = "hot"\nlimit_non_metal = 60\n', encoding="utf-8")
+    assert main(["run", str(register), "--rules", str(rules), "--out", str(tmp_path / "o")]) == 2
+    err = capsys.readouterr().err
+    assert "plant.toml" in err and "limit_metal" in err
