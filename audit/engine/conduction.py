@@ -116,20 +116,29 @@ class ConductivityTables:
         k = self._k0[seg] + self._slope[seg] * (temperature - self._t0[seg])
         return np.where(_physical(temperature), k, np.nan)
 
-    def phi(self, table, temperature):
-        """Conductivity integral Phi [W/m] from the table's first point to ``temperature`` [K]."""
+    def phi(self, table, temperature, *, with_conductivity=False):
+        """Conductivity integral Phi [W/m] from the table's first point to ``temperature`` [K].
+
+        With ``with_conductivity``, also the conductivity there [W/(m K)] (same lookup).
+        """
         table = np.asarray(table, int)
         temperature = np.asarray(temperature, float)
         seg = self._segment_by_temperature(table, temperature)
         x = temperature - self._t0[seg]
-        phi = self._phi0[seg] + x * (self._k0[seg] + 0.5 * self._slope[seg] * x)
-        return np.where(_physical(temperature), phi, np.nan)
+        slope_x = self._slope[seg] * x
+        physical = _physical(temperature)
+        phi = np.where(physical, self._phi0[seg] + x * (self._k0[seg] + 0.5 * slope_x), np.nan)
+        if with_conductivity:
+            return phi, np.where(physical, self._k0[seg] + slope_x, np.nan)
+        return phi
 
-    def phi_inverse(self, table, potential):
+    def phi_inverse(self, table, potential, *, with_conductivity=False):
         """Temperature [K] at which ``table`` reaches the conductivity integral ``potential`` [W/m].
 
         NaN where no such temperature exists because the extrapolated conductivity would
-        fall to zero or below first, or where it would lie below absolute zero.
+        fall to zero or below first, or where it would lie below absolute zero.  With
+        ``with_conductivity``, also the conductivity at that temperature [W/(m K)], which
+        the inversion yields for free.
         """
         table = np.asarray(table, int)
         potential = np.asarray(potential, float)
@@ -143,7 +152,12 @@ class ConductivityTables:
         # Stable root of slope/2 x^2 + k0 x - d = 0 on the branch where k = k0 + slope x > 0.
         x = 2.0 * d / (k0 + root)
         temperature = self._t0[seg] + x
-        return np.where((disc > 0.0) & _physical(temperature), temperature, np.nan)
+        valid = (disc > 0.0) & _physical(temperature)
+        temperature = np.where(valid, temperature, np.nan)
+        if with_conductivity:
+            # k = k0 + slope x = sqrt(disc) on the branch the root was taken from.
+            return temperature, np.where(valid, root, np.nan)
+        return temperature
 
     def mean_conductivity(self, table, t1, t2):
         """Integral-mean conductivity [W/(m K)] between ``t1`` and ``t2`` [K]."""

@@ -28,6 +28,8 @@ from audit.engine.conduction import ConductivityTables
 
 #: Relative closure of the surface heat balance that counts as converged.
 BALANCE_TOLERANCE = 1e-6
+#: Surface-temperature step of the forward difference for the surface model's slope [K].
+_STEP = 1e-4
 
 
 @dataclass
@@ -115,14 +117,14 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
     # f(t_low) <= 0 <= f(t_high) (module docstring): the bracket.
     low, high = t_low[rows].astype(float), t_high[rows].astype(float)
     x = _first_estimate(walls, t_air[rows])
-    x_prev = f_prev = None
+    f_prev = None
     live = np.ones(rows.size, bool)
     iterations = 0
     for iterations in range(1, max_iter + 1):
         if rows.size == 0:
             break
         x = np.where(np.isfinite(x) & (x > low) & (x < high), x, 0.5 * (low + high))
-        state = walls.march(x)
+        state, df = walls.march(x, slope=True)
         f = walls.residual(*state[:2])
         root[rows] = np.where(live, x, root[rows])
         below = f < 0
@@ -133,22 +135,18 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
         store(rows[finished], tuple(part[finished] for part in state))
         live &= ~finished
         with np.errstate(invalid="ignore", divide="ignore"):
-            if x_prev is None:
-                # A fixed-point step: keep the share of the drop that fell across the surface.
-                step = t_air[rows] + (walls.t_process - t_air[rows]) * (x - t_air[rows]) \
-                    / (f + walls.t_process - t_air[rows])
-            else:
-                secant = x - f * (x - x_prev) / (f - f_prev)
+            step = x - f / df
+            if f_prev is not None:
                 # A step that did not halve the residual is followed by bisection.
-                step = np.where(np.abs(f) > 0.5 * np.abs(f_prev), 0.5 * (low + high), secant)
-        x_prev, f_prev = x, f
+                step = np.where(np.abs(f) > 0.5 * np.abs(f_prev), 0.5 * (low + high), step)
+        f_prev = f
         x = np.where(live, step, x)
         if live.sum() < 0.75 * rows.size:
             keep = live
             rows = rows[keep]
             walls = walls_of(rows)
             low, high = low[keep], high[keep]
-            x, x_prev, f_prev, live = x[keep], x_prev[keep], f_prev[keep], live[keep]
+            x, f_prev, live = x[keep], f_prev[keep], live[keep]
 
     # Settled elements, and any the sweeps left unfinished, at their root.
     rest = np.flatnonzero(~stored)
@@ -205,10 +203,19 @@ class _Walls:
                 idx = np.flatnonzero(column)
                 self.slots.append((idx, table[idx, j], conductance[idx, j]))
 
-    def march(self, t_surface):
-        """Interface temperatures, heat rate and fluxes for trial surface temperatures."""
+    def march(self, t_surface, *, slope=False):
+        """Interface temperatures, heat rate and fluxes for trial surface temperatures.
+
+        With ``slope``, also d(T_hot_computed)/d(T_s): through each layer
+        k(T_hot) dT_hot = k(T_cold) dT_cold + dQ / G, with dQ/dT_s of the surface model
+        by a forward difference.
+        """
         q_conv, q_rad = self.flux(t_surface)
         heat = self.outer_area * (q_conv + q_rad)
+        if slope:
+            q_conv_up, q_rad_up = self.flux(t_surface + _STEP)
+            dheat = (self.outer_area * (q_conv_up + q_rad_up) - heat) / _STEP
+            d = np.ones_like(t_surface)
         n_layers = len(self.slots)
         temps = np.empty((t_surface.size, n_layers + 1))
         temps[:, n_layers] = t_surface
@@ -217,14 +224,17 @@ class _Walls:
             slot = self.slots[j]
             if slot is not None:
                 idx, tab, g = slot
-                t_cold, q = (t, heat) if idx is None else (t[idx], heat[idx])
+                rows = slice(None) if idx is None else idx
                 with np.errstate(invalid="ignore", divide="ignore"):
-                    t_hot = self.tables.phi_inverse(tab, self.tables.phi(tab, t_cold) + q / g)
-                if idx is None:
-                    t = t_hot
-                else:
-                    t[idx] = t_hot
+                    phi_cold, k_cold = self.tables.phi(tab, t[rows], with_conductivity=True)
+                    t_hot, k_hot = self.tables.phi_inverse(tab, phi_cold + heat[rows] / g,
+                                                           with_conductivity=True)
+                    if slope:
+                        d[rows] = (k_cold * d[rows] + dheat[rows] / g) / k_hot
+                t[rows] = t_hot
             temps[:, j] = t
+        if slope:
+            return (temps, heat, q_conv, q_rad), d + dheat * self.r_inner
         return temps, heat, q_conv, q_rad
 
     def residual(self, temps, heat):

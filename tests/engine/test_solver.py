@@ -87,7 +87,8 @@ def test_variable_conductivity_uses_the_integral_not_a_guessed_mean():
     g = 2 * np.pi / np.log(radii[1] / radii[0])
     t_s = sol.surface_temp[0]
     exact = g * (0.03 * (800.0 - t_s) + 1e-4 / 2 * (500.0 ** 2 - (t_s - 300.0) ** 2))
-    assert sol.heat_rate[0] == pytest.approx(exact, rel=1e-9)
+    # The solver stops once the balance closes to a hundredth of BALANCE_TOLERANCE (1e-8).
+    assert sol.heat_rate[0] == pytest.approx(exact, rel=2e-8)
 
 
 def test_kinked_conductivity_is_integrated_not_taken_at_the_mean():
