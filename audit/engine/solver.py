@@ -12,10 +12,11 @@ Q * R.  The residual
 increases with T_s (a hotter surface sheds more heat, which needs a hotter inside), is <= 0
 at the lowest of process, air and surroundings temperatures and >= 0 at the highest, so a
 bracketed root always exists and is unique.  The root is found for every element at once by
-secant steps safeguarded by the bracket, in the manner of Dekker, T.J. (1969), "Finding a
-zero by means of successive linear interpolation", in Dejon, B. and Henrici, P. (eds.),
-Constructive Aspects of the Fundamental Theorem of Algebra, Wiley, 37-48: superlinear
-where the residual is smooth, never worse than bisection.
+Newton steps kept inside that bracket, falling back to bisection when a step leaves the
+bracket or fails to halve the residual (the safeguarded Newton method, Press, W.H. et al.
+(2007), Numerical Recipes, 3rd ed., Cambridge, section 9.4): quadratic where the residual is
+smooth, never worse than bisection.  The derivative comes from the march itself: through each
+layer k(T_hot) dT_hot = k(T_cold) dT_cold + dQ/G.
 """
 
 from __future__ import annotations
@@ -86,10 +87,8 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
     Notes
     -----
     The root finder starts from a linearised series network (conductivities at the mean of
-    process and air temperature, 10 W/(m2 K) at the surface), takes one fixed-point step
-    with the resistances that estimate revealed, then secant steps; a step that leaves the
-    bracket, or follows one that did not halve the residual, is replaced by bisection, so
-    every element converges.  Converged elements leave
+    process and air temperature, 10 W/(m2 K) at the surface), then takes safeguarded Newton
+    steps (module docstring), so every element converges.  Converged elements leave
     the working set, so the sweeps cost only what is left to solve.
     """
     n, n_layers = conductance.shape
