@@ -17,23 +17,22 @@ import tomllib
 from collections.abc import Iterable
 from pathlib import Path
 
-from audit.errors import Problem, RuleError
+from audit.errors import LagauditError, Problem, RuleError
 from audit.pipe_sizes import NPS_BY_VALUE
-from audit.rules.model import Fitting, Jacket, Material, Metal, Rules, Site
-from audit.rules.converters import (boolean, choice, list_of, quantity, rows, temperature, text)
-from audit.rules.model import SEVERITIES, Check, Spec
+from audit.rules.converters import boolean, choice, list_of, quantity, rows, temperature, text
+from audit.rules.model import (SEVERITIES, Check, Fitting, Jacket, Material, Metal, Rules, Site,
+                               Spec)
 from audit.rules.selector import SelectorError, parse_selector
+from audit.shipped import shipped_dir
 from audit.units import UnitParseError
 
 
 def shipped_rules_dir() -> Path:
     """The rule folder that ships with the package (wheel) or the repository's ``rules/``."""
-    package = Path(__file__).resolve().parent.parent
-    for candidate in (package / "_shipped" / "rules", package.parent / "rules"):
-        if candidate.is_dir():
-            return candidate
-    raise RuleError("the shipped rules folder is missing from this installation",
-                    expected="a 'rules' folder beside the 'audit' package; reinstall lagaudit")
+    try:
+        return shipped_dir("rules")
+    except LagauditError as exc:
+        raise RuleError(str(exc), expected="reinstall lagaudit") from exc
 
 
 def _band(value):

@@ -15,8 +15,8 @@ from pathlib import Path
 
 import pint
 
-import audit
-from audit.errors import RuleError
+from audit.errors import LagauditError, RuleError
+from audit.shipped import shipped_dir
 from audit.units import _normalise, _unit
 
 COLUMNS: tuple[str, ...] = (
@@ -75,10 +75,12 @@ def _is_unit(unit: str) -> bool:
 
 def shipped_aliases_path() -> Path:
     """The shipped ``aliases.toml``: inside the wheel first, else the repository's ``rules/``."""
-    package = Path(audit.__file__).parent
-    for folder in (package / "_shipped" / "rules", package.parent / "rules"):
-        if (folder / "aliases.toml").is_file():
-            return folder / "aliases.toml"
+    try:
+        path = shipped_dir("rules") / "aliases.toml"
+    except LagauditError:
+        path = None
+    if path is not None and path.is_file():
+        return path
     raise RuleError("the shipped column-alias table is missing", file="rules/aliases.toml",
                     expected="a lagaudit installation with its rules/ folder")
 
