@@ -4,25 +4,25 @@ from __future__ import annotations
 
 import argparse
 import hashlib
+import io
 import sys
 from datetime import datetime, timezone
 from pathlib import Path
 
 from audit import __version__
+from audit.calc import add_calc_arguments, run_calc
+from audit.cautions import CAUTION
 from audit.errors import LagauditError
 from audit.io.readers import read_register
 from audit.io.readers.validate import summarise
 from audit.io.writers import write_csv, write_json, write_xlsx
 from audit.pipeline import audit_register
+from audit.progress import progress
 from audit.rules import SEVERITIES, load_rules
 from audit.rules.describe import describe_rules
+from audit.shipped import shipped_dir
 from audit.thermal import resolve_names
 
-CAUTION = (
-    "Caution: lagaudit is a screening calculation from register data. Confirm surface "
-    "temperatures by measurement before acting; burn and corrosion-under-insulation findings "
-    "need a competent person; old insulation may contain asbestos and must be surveyed before "
-    "it is disturbed; local codes, the owner's standards and licensed engineers govern.")
 
 FORMATS = ("csv", "xlsx", "json")
 PLANNED_FORMATS = ("html", "pdf")
@@ -59,17 +59,33 @@ def _parser() -> argparse.ArgumentParser:
         epilog="example:\n  lagaudit run line_list.csv equipment.xlsx --out audit-2026/\n\n" + CAUTION,
         formatter_class=argparse.RawDescriptionHelpFormatter)
     run.add_argument("registers", nargs="+", metavar="REGISTER", help="CSV or XLSX register files")
-    _rules_option(run)
-    run.add_argument("--out", default="reports", metavar="DIR", help="output folder (default: reports)")
-    run.add_argument("--format", default=",".join(FORMATS), metavar="LIST",
-                     help=f"comma list of {','.join(FORMATS)} (default: all of them)")
     run.add_argument("--sheet", action="append", metavar="NAME", help="read only this worksheet (repeatable)")
-    run.add_argument("--surface-model", default="correlations", metavar="NAME",
-                     help="outer-surface model: correlations (default) or iso12241-simplified")
-    run.add_argument("--fail-on", choices=SEVERITIES, metavar="SEVERITY",
-                     help="exit 1 when a finding at or above this severity exists "
-                          f"({', '.join(SEVERITIES)})")
+    _audit_options(run)
     run.set_defaults(run=_run)
+
+    demo = sub.add_parser(
+        "demo", help="run the audit on the bundled demo plant",
+        description="Run the audit on the invented demo plant that ships with lagaudit "
+                    "(a line list and an equipment list), to see what it produces.",
+        epilog="example:\n  lagaudit demo --out demo-report/\n\n" + CAUTION,
+        formatter_class=argparse.RawDescriptionHelpFormatter)
+    _audit_options(demo)
+    demo.set_defaults(run=_demo, sheet=None)
+
+    calc = sub.add_parser(
+        "calc", help="one item from flags, printed as a table (what-if)",
+        description="Compute one item given in register notation: surface and interface "
+                    "temperatures, heat loss, and the checks it would fail.",
+        epilog="examples:\n"
+               "  lagaudit calc --nps 4 --length 30 --temp 250 "
+               "--layers \"calcium-silicate 50mm + mineral-wool 2in\" --accessible\n"
+               "  lagaudit calc --nps 2 --temp -30 --layers \"elastomeric-foam 25mm\" "
+               "--service cold --units us\n"
+               "  lagaudit calc --shape vertical-vessel --od \"2.4 m\" --length 9 --temp \"480 F\" "
+               "--layers \"mineral-wool 3in\" --location hot-still-day\n\n" + CAUTION,
+        formatter_class=argparse.RawDescriptionHelpFormatter)
+    add_calc_arguments(calc)  # adds its own --rules
+    calc.set_defaults(run=run_calc)
 
     rules = sub.add_parser(
         "rules", help="print the active materials, jackets, sites and checks, with sources",
@@ -87,6 +103,20 @@ def _parser() -> argparse.ArgumentParser:
     validate.add_argument("--sheet", action="append", metavar="NAME")
     validate.set_defaults(run=_validate)
     return parser
+
+
+def _audit_options(parser):
+    _rules_option(parser)
+    parser.add_argument("--out", default="reports", metavar="DIR", help="output folder (default: reports)")
+    parser.add_argument("--format", default=",".join(FORMATS), metavar="LIST",
+                        help=f"comma list of {','.join(FORMATS)} (default: all of them)")
+    parser.add_argument("--surface-model", default="correlations", metavar="NAME",
+                        help="outer-surface model: correlations (default) or iso12241-simplified")
+    parser.add_argument("--fail-on", choices=SEVERITIES, metavar="SEVERITY",
+                        help="exit 1 when a finding at or above this severity exists "
+                             f"({', '.join(SEVERITIES)})")
+    parser.add_argument("-q", "--quiet", action="store_true",
+                        help="print nothing but errors (the exit code still tells)")
 
 
 def _rules_option(parser):
@@ -107,40 +137,62 @@ def _formats(text: str) -> list[str]:
 
 
 def _run(args) -> int:
+    return _audit_and_write(args.registers, args)
+
+
+def _demo(args) -> int:
+    folder = shipped_dir("sample_data")
+    return _audit_and_write([folder / "demo_line_list.xlsx", folder / "demo_equipment.xlsx"], args)
+
+
+def _audit_and_write(registers, args) -> int:
     formats = _formats(args.format)
-    audit = audit_register(args.registers, rules_dirs=args.rules, sheets=args.sheet,
-                           surface_model=args.surface_model)
+    say = (lambda *_: None) if args.quiet else print
+    # A stream that is not a terminal draws no bar.
+    with progress("Auditing", total=1 + len(formats), stream=io.StringIO() if args.quiet else None) as bar:
+        audit = audit_register(registers, rules_dirs=args.rules, sheets=args.sheet,
+                               surface_model=args.surface_model)
+        bar.advance()
+        written = _write(audit, registers, args, formats, bar)
+    results, findings = audit.results, audit.findings
+    audited = int((results["status"] == "audited").sum())
+    say(f"{len(results)} rows read: {audited} audited, {len(results) - audited} rejected; "
+        f"{len(findings)} findings on {findings['row'].nunique()} items.")
+    for path in written:
+        say(f"wrote {path}")
+    if audited < len(results):
+        say("See the 'reason' column for each rejected row, or run 'lagaudit validate'.")
+    say(CAUTION)
+    if args.fail_on and len(findings):
+        threshold = SEVERITIES.index(args.fail_on)
+        if any(SEVERITIES.index(s) >= threshold for s in findings["severity"]):
+            return 1
+    return 0
+
+
+def _write(audit, registers, args, formats, bar) -> list[Path]:
     results, findings = audit.results, audit.findings
     out = Path(args.out)
     out.mkdir(parents=True, exist_ok=True)
     meta = {"tool": f"lagaudit {__version__}",
             "run_at": datetime.now(timezone.utc).isoformat(timespec="seconds"),
-            "registers": [{"file": str(p), "sha256": _sha256(p)} for p in args.registers],
+            "registers": [{"file": str(p), "sha256": _sha256(p)} for p in registers],
             "rules": list(audit.rules.files), "surface_model": args.surface_model, "caution": CAUTION}
     findings_out = findings.drop(columns=["row"])
     written = []
     if "csv" in formats:
         written.append(write_csv(results, out / "results.csv"))
         written.append(write_csv(findings_out, out / "findings.csv"))
+        bar.advance()
     if "json" in formats:
         written.append(write_json(results, out / "results.json", meta=meta))
+        bar.advance()
     if "xlsx" in formats:
         rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
         written.append(write_xlsx({"results": results, "findings": findings_out,
                                    "rejected": rejected}, out / "results.xlsx"))
-    audited = int((results["status"] == "audited").sum())
-    print(f"{len(results)} rows read: {audited} audited, {len(results) - audited} rejected; "
-          f"{len(findings)} findings on {findings['row'].nunique()} items.")
-    for path in written:
-        print(f"wrote {path}")
-    if audited < len(results):
-        print("See the 'reason' column for each rejected row, or run 'lagaudit validate'.")
-    print(CAUTION)
-    if args.fail_on and len(findings):
-        threshold = SEVERITIES.index(args.fail_on)
-        if any(SEVERITIES.index(s) >= threshold for s in findings["severity"]):
-            return 1
-    return 0
+        bar.advance()
+    return written
 
 
 def _rules(args) -> int:

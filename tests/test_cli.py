@@ -106,3 +106,29 @@ def test_an_invalid_check_parameter_stops_the_run_with_exit_2(register, tmp_path
     assert main(["run", str(register), "--rules", str(rules), "--out", str(tmp_path / "o")]) == 2
     err = capsys.readouterr().err
     assert "plant.toml" in err and "limit_metal" in err
+
+
+def test_demo_runs_on_the_shipped_demo_plant(tmp_path, capsys):
+    out = tmp_path / "demo"
+    assert main(["demo", "--out", str(out), "--format", "csv"]) == 0
+    results = pd.read_csv(out / "results.csv", keep_default_na=False)
+    assert len(results) == 340  # the demo plant's 300 lines and 40 equipment items
+    assert "Caution" in capsys.readouterr().out
+
+
+def test_quiet_prints_nothing(register, tmp_path, capsys):
+    assert main(["run", str(register), "--out", str(tmp_path / "q"), "--format", "csv", "-q"]) == 0
+    captured = capsys.readouterr()
+    assert captured.out == "" and captured.err == ""
+
+
+def test_help_of_every_command_shows_an_example_and_the_caution(capsys):
+    for command in ("run", "demo", "calc", "validate", "rules"):
+        with pytest.raises(SystemExit) as done:
+            main([command, "--help"])
+        assert done.value.code == 0
+        text = capsys.readouterr().out
+        assert "example" in text, command
+    with pytest.raises(SystemExit):
+        main(["--help"])
+    assert "asbestos" in capsys.readouterr().out
