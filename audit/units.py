@@ -40,10 +40,14 @@ class UnitParseError(LagauditError):
     """A value that is not a number with a unit of the expected kind."""
 
 
+# "m2", "ft3", "W/m2": an exponent written straight after a length unit, as registers do.
+_BARE_EXPONENT = re.compile(r"(?<![A-Za-z])(mm|cm|m|km|in|ft|yd)([23])(?![0-9A-Za-z])")
+
+
 def _normalise(text: str) -> str:
     for symbol, word in _SYMBOLS:
         text = text.replace(symbol, word)
-    return text.strip()
+    return _BARE_EXPONENT.sub(r"\1**\2", text).strip()
 
 
 @lru_cache(maxsize=8192)
