@@ -115,8 +115,23 @@ def _audit_options(parser):
     parser.add_argument("--fail-on", choices=SEVERITIES, metavar="SEVERITY",
                         help="exit 1 when a finding at or above this severity exists "
                              f"({', '.join(SEVERITIES)})")
+    parser.add_argument("--fuel-price", type=_positive, metavar="PRICE",
+                        help="this run's fuel price, in the currency and per the energy unit of "
+                             "the economic rules (shipped: per MWh)")
+    parser.add_argument("--hours", type=_positive, metavar="H",
+                        help="this run's operating hours per year for rows that give none")
     parser.add_argument("-q", "--quiet", action="store_true",
                         help="print nothing but errors (the exit code still tells)")
+
+
+def _positive(text: str) -> float:
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a number") from None
+    if not value > 0 or value != value or value == float("inf"):
+        raise argparse.ArgumentTypeError(f"{text!r} must be a number above zero")
+    return value
 
 
 def _rules_option(parser):
@@ -151,7 +166,8 @@ def _audit_and_write(registers, args) -> int:
     # A stream that is not a terminal draws no bar.
     with progress("Auditing", total=1 + len(formats), stream=io.StringIO() if args.quiet else None) as bar:
         audit = audit_register(registers, rules_dirs=args.rules, sheets=args.sheet,
-                               surface_model=args.surface_model)
+                               surface_model=args.surface_model, fuel_price=args.fuel_price,
+                               hours=args.hours)
         bar.advance()
         written = _write(audit, registers, args, formats, bar)
     results, findings = audit.results, audit.findings
@@ -177,7 +193,9 @@ def _write(audit, registers, args, formats, bar) -> list[Path]:
     meta = {"tool": f"lagaudit {__version__}",
             "run_at": datetime.now(timezone.utc).isoformat(timespec="seconds"),
             "registers": [{"file": str(p), "sha256": _sha256(p)} for p in registers],
-            "rules": list(audit.rules.files), "surface_model": args.surface_model, "caution": CAUTION}
+            "rules": list(audit.rules.files), "surface_model": args.surface_model,
+            "currency": audit.economics.currency, "energy_site": audit.economics.site,
+            "assumptions": audit.economics.assumptions, "caution": CAUTION}
     findings_out = findings.drop(columns=["row"])
     written = []
     if "csv" in formats:

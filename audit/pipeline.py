@@ -13,6 +13,7 @@ import pandas as pd
 from audit.checks import check_kinds, run_checks, summarise_per_row, validate_checks
 from audit.checks.base import CheckContext
 from audit.checks.remedy import fill_remedies
+from audit.economics import Economics, EconomicRules, compute_economics, load_economic_rules
 from audit.io.readers import read_register
 from audit.results import build_results
 from audit.rules import Rules, load_rules
@@ -27,24 +28,36 @@ class Audit:
     table: pd.DataFrame      #: the item table, names resolved
     results: pd.DataFrame    #: one row per input row (contract columns first)
     findings: pd.DataFrame   #: one row per finding
+    economics: Economics     #: energy, money, CO2, repairs, economic thickness, totals
 
 
 def audit_register(registers, *, rules_dirs=(), sheets=None, surface_model="correlations",
-                   rules: Rules | None = None) -> Audit:
-    """Run the whole audit on register files."""
+                   rules: Rules | None = None, fuel_price=None, hours=None) -> Audit:
+    """Run the whole audit on register files.
+
+    ``fuel_price`` and ``hours`` override the economic rules' fuel price and default operating
+    hours for this run.  Every rule file is read and validated before any register is.
+    """
     rules = load_rules(rules_dirs) if rules is None else rules
-    params = validate_checks(rules)  # an invalid check stops the run before any work
+    params = validate_checks(rules)
+    economic_rules = load_economic_rules(rules_dirs)
     table = resolve_names(read_register(registers, sheets=sheets, aliases=rules.aliases or None), rules)
-    return audit_table(table, rules, surface_model=surface_model, params=params)
+    return audit_table(table, rules, surface_model=surface_model, params=params,
+                       economic_rules=economic_rules, fuel_price=fuel_price, hours=hours)
 
 
 def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlations",
-                params=None) -> Audit:
+                params=None, economic_rules: EconomicRules | None = None, fuel_price=None,
+                hours=None) -> Audit:
     """Run the audit on an item table whose names are already resolved."""
     params = validate_checks(rules) if params is None else params
+    economic_rules = load_economic_rules(()) if economic_rules is None else economic_rules
     context = CheckContext(table, rules, surface_model=surface_model)
     findings = run_checks(context, params)
     findings = fill_remedies(context, findings, check_kinds(), params)
+    economics = compute_economics(context, findings, rules, economic_rules=economic_rules,
+                                  fuel_price=fuel_price, hours=hours)
     names, worst = summarise_per_row(findings, len(table))
-    results = build_results(table, context.states(""), findings=names, severity=worst)
-    return Audit(rules, table, results, findings)
+    results = build_results(table, context.states(""), findings=names, severity=worst,
+                            extra=economics.per_row)
+    return Audit(rules, table, results, findings, economics)

@@ -18,8 +18,11 @@ CONTRACT_COLUMNS = ["tag", "source", "status", "reason", "surface_temp [degC]", 
 
 
 def build_results(table: pd.DataFrame, states: pd.DataFrame, *, findings=None,
-                  severity=None) -> pd.DataFrame:
+                  severity=None, extra: pd.DataFrame | None = None) -> pd.DataFrame:
     """Combine the item table and the item's own-conditions states into the results table.
+
+    ``extra`` (the economics' per-row columns, aligned with the table's rows) follows the
+    contract's leading columns.
 
     A row the reader accepted but the engine could not compute is ``rejected`` with the
     engine's reason.  Columns the reader did not recognise follow the computed ones,
@@ -46,8 +49,11 @@ def build_results(table: pd.DataFrame, states: pd.DataFrame, *, findings=None,
         "heat_flux [W/m2]": states["heat_flux_W_m2"].to_numpy(float),
         "findings": "" if findings is None else findings,
         "severity": "" if severity is None else severity,
-        "surface_temp_insulated [degC]": celsius("surface_temp_insulated_K"),
     })
+    if extra is not None:
+        for column in extra.columns:
+            out[column] = extra[column].to_numpy()
+    out["surface_temp_insulated [degC]"] = celsius("surface_temp_insulated_K")
     interfaces = sorted((c for c in states.columns if c.startswith("interface_")),
                         key=lambda c: int(c.split("_")[1]))
     # interface_0 is the hot face of the first layer; the last one is the outer surface.

@@ -100,7 +100,7 @@ SCHEMA = {
 }
 _PLURAL = {"material": "materials", "jacket": "jackets", "metal": "metals", "site": "sites",
            "fitting": "fittings", "spec": "specs"}
-_TOP_LEVEL = set(SCHEMA) | {"alias", "defaults", "check", "thicknesses"}
+_TOP_LEVEL = set(SCHEMA) | {"alias", "defaults", "check", "thicknesses", "economics"}
 #: Keys every [check.NAME] may have; any other key is the check kind's own parameter.
 _CHECK_KEYS = {"kind", "enabled", "site", "applies_to", "severity", "source", "description"}
 #: [defaults] key -> the section its value names
@@ -165,6 +165,8 @@ def _read_file(path: Path, collected, aliases, defaults) -> None:
             problems.append(Problem(f"[{section}] is not a table", file=str(path), column=section,
                                     value=body))
             continue
+        if section == "economics":
+            continue  # read and validated by audit.economics.rules
         if section == "alias":
             for column, names in body.items():
                 if not (isinstance(names, list) and all(isinstance(n, str) for n in names)):

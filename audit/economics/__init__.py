@@ -1,0 +1,176 @@
+"""Energy and money: what each item's heat costs a year, what its repair saves, how fast it
+pays back, and the economic insulation thickness.
+
+``compute_economics`` runs after the checks on the audit's :class:`CheckContext`; the economic
+inputs come from ``load_economic_rules`` (``rules/economics/economics.toml`` layered with the
+``[economics]`` tables of each ``--rules`` folder, see :mod:`audit.economics.rules`).
+
+Conditions: the heat is the engine's under the energy site, which is the site of the check
+named by ``energy_check`` in the economic rules (``heat-loss-limit`` in the shipped file) when
+the rules define it, else ``energy_site``.  Operating hours: the row's ``hours``, else the
+economic rules' default (``--hours`` replaces that default for one run).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+import pandas as pd
+
+from audit.economics import totals
+from audit.economics.energy import yearly
+from audit.economics.repair import (payback_years, per_distinct, plan_repairs, repair_cost,
+                                    repaired_copy)
+from audit.economics.rules import EconomicRules, load_economic_rules
+from audit.economics.thickness import annuity_factor, economic_thickness
+from audit.errors import RuleError
+from audit.thermal import thermal_states
+
+__all__ = ["Economics", "EconomicRules", "compute_economics", "energy_site", "load_economic_rules"]
+
+#: Per-row columns, in order (the first six are the contract's energy columns):
+#: ``annual_energy [MWh]`` heat lost (or, cold service, gained) in a year of ``hours [h]``;
+#: ``annual_fuel [MWh]`` the energy bought for it (``energy_bought``: fuel over the heater's
+#: efficiency, or electricity over the refrigeration COP); ``annual_cost`` and ``annual_co2 [t]``
+#: of that energy; ``saving_if_repaired [MWh]`` energy bought as is minus repaired (0 when
+#: nothing is to be repaired); ``payback [yr]`` = ``repair_cost`` / ``annual_saving`` (money
+#: per year), empty when nothing is to be repaired or the repair saves nothing; ``repair`` what
+#: the repair is; ``installed_thickness [mm]``; ``economic_thickness [mm]`` of
+#: ``economic_material``; ``economics_note`` why a value is empty.  NaN for rows without a result.
+COLUMNS = ["annual_energy [MWh]", "annual_fuel [MWh]", "annual_cost", "annual_co2 [t]",
+           "saving_if_repaired [MWh]", "payback [yr]", "energy_bought", "hours [h]",
+           "repair", "repair_cost", "annual_saving", "installed_thickness [mm]",
+           "economic_thickness [mm]", "economic_material", "economics_note"]
+
+
+@dataclass
+class Economics:
+    """Everything the economics produced, for the results table and the reports."""
+
+    per_row: pd.DataFrame      #: aligned with the item table's rows; columns COLUMNS
+    currency: str
+    by_area: pd.DataFrame      #: sums per area code
+    by_check: pd.DataFrame     #: sums over the items each check flags (overlapping)
+    plant: dict                #: the plant's sums
+    top_repairs: pd.DataFrame  #: the 20 repairs with the shortest payback
+    assumptions: list          #: [{"what", "value", "source"}] for the report's cover
+    site: str                  #: the site condition the energy is reckoned under
+
+    @property
+    def totals(self) -> dict:
+        return {"by_area": self.by_area, "by_check": self.by_check, "plant": self.plant}
+
+
+def energy_site(rules, economic_rules: EconomicRules) -> str:
+    """The site the energy is reckoned under ("" = each item's own conditions)."""
+    check = rules.checks.get(economic_rules.energy_check) if economic_rules.energy_check else None
+    site = check.site if check is not None else economic_rules.energy_site
+    if site and site not in rules.sites:
+        raise RuleError(f"economics energy_site {site!r} is not a site condition in the rules",
+                        file=economic_rules.files[-1] if economic_rules.files else None,
+                        column="economics.energy_site", value=site,
+                        expected="one of " + ", ".join(sorted(rules.sites)))
+    return site
+
+
+def compute_economics(context, findings, rules, *, economic_rules: EconomicRules,
+                      fuel_price=None, hours=None) -> Economics:
+    """Energy, cost, CO2, repair savings and payback, and economic thickness of every row.
+
+    Parameters
+    ----------
+    context : CheckContext
+        The audit's context (item table, rules, states per site, solved once each).
+    findings : pandas.DataFrame
+        The findings table (``row``, ``check``), for the totals by check.
+    rules : Rules
+        The audit's rules (sites, checks, specifications, standard thicknesses).
+    economic_rules : EconomicRules
+        From :func:`load_economic_rules`.
+    fuel_price : float, optional
+        This run's fuel price, currency per the ``price_per`` unit of ``[economics.heat]``.
+    hours : float, optional
+        This run's default operating hours for rows without hours [h/yr].
+    """
+    econ = economic_rules.with_overrides(fuel_price=fuel_price, hours=hours)
+    table = context.table
+    site = energy_site(rules, econ)
+    states = context.states(site)
+    row_hours = table["hours_h"].to_numpy(float)
+    hours_h = np.where(np.isfinite(row_hours), row_hours, econ.hours)
+    now = yearly(states["heat_loss_W"].to_numpy(float), hours_h, econ)
+
+    spec_check = rules.checks.get("below-spec")
+    plan = plan_repairs(table, rules, context.states(spec_check.site if spec_check else ""))
+    repaired = thermal_states(repaired_copy(table, plan), rules, site=site or None,
+                              surface_model=context.surface_model, tables=context._tables)
+    after = yearly(repaired["heat_loss_W"].to_numpy(float), hours_h, econ)
+    fixed = repaired["computed"].to_numpy(bool)
+    saving_mwh = np.where(plan.needed, np.where(fixed, now["bought [MWh]"] - after["bought [MWh]"], np.nan),
+                          0.0)
+    saving_money = np.where(plan.needed, np.where(fixed, now["cost"] - after["cost"], np.nan), 0.0)
+    cost = repair_cost(econ.repair, table, plan, repaired)
+    computed = states["computed"].to_numpy(bool)
+
+    material = np.where(plan.spec_material != "", plan.spec_material, _outermost(table)).astype(object)
+    economic = economic_thickness(context, econ, site=site, hours_h=hours_h, material=material)
+
+    def known(values):
+        return np.where(computed, values, np.nan)
+
+    per_row = pd.DataFrame({
+        "annual_energy [MWh]": known(now["heat [MWh]"]),
+        "annual_fuel [MWh]": known(now["bought [MWh]"]),
+        "annual_cost": known(now["cost"]),
+        "annual_co2 [t]": known(now["co2 [t]"]),
+        "saving_if_repaired [MWh]": known(saving_mwh),
+        "payback [yr]": known(payback_years(cost, saving_money, plan.needed)),
+        "energy_bought": np.where(computed, np.where(now["cold"], "electricity", "fuel"), "").astype(object),
+        "hours [h]": np.where(computed, hours_h, np.nan),
+        "repair": np.where(computed, plan.scope(), "").astype(object),
+        "repair_cost": known(np.where(plan.needed, cost, np.nan)),
+        "annual_saving": known(saving_money),
+        "installed_thickness [mm]": np.where(table["status"] == "ok", plan.installed_m * 1000.0, np.nan),
+        "economic_thickness [mm]": economic * 1000.0,
+        "economic_material": np.where(np.isfinite(economic), material, "").astype(object),
+        "economics_note": _notes(computed, [
+            (plan.needed & ~fixed, "the repaired item could not be computed by the engine"),
+            (plan.needed & fixed & ~np.isfinite(cost),
+             "no repair cost: thickness or fitting size outside the [economics.repair] tables"),
+            (plan.needed & fixed & (saving_money <= 0), "the repair saves no money: no payback"),
+            (material == "", "no economic thickness: no specification or installed material"),
+            ((material != "") & ~np.isfinite(economic),
+             "no economic thickness: item at ambient, or no standard thickness could be costed"),
+            (np.isfinite(economic) & (economic >= max(rules.thicknesses, default=np.inf)),
+             "economic thickness is the thickest standard one: the optimum may lie beyond")]),
+    }, index=table.index, columns=COLUMNS)
+
+    return Economics(
+        per_row=per_row, currency=econ.currency,
+        by_area=totals.by_area(per_row, table["area_code"]),
+        by_check=totals.by_check(per_row, findings),
+        plant=totals.plant(per_row),
+        top_repairs=totals.top_repairs(per_row, table),
+        assumptions=econ.assumptions() + [
+            {"what": "energy conditions", "value": site or "each item's own conditions",
+             "source": f"the site of check {econ.energy_check!r}" if econ.energy_check in rules.checks
+             else "economics energy_site"},
+            {"what": "annuity factor", "value": f"{float(annuity_factor(econ.interest, econ.life)):.5f} /yr",
+             "source": "i(1+i)^n/((1+i)^n-1) of the interest rate and service life (VDI 2055)"}],
+        site=site)
+
+
+def _outermost(table: pd.DataFrame) -> np.ndarray:
+    """The outermost installed material of each row ("" if none)."""
+    return per_distinct(table["layer_materials"],
+                        lambda x: x[-1] if isinstance(x, tuple) and x else "", "").astype(object)
+
+
+def _notes(computed, reasons) -> np.ndarray:
+    """"; "-joined reasons per row, for rows with a result (empty elsewhere)."""
+    out = pd.Series("", index=range(len(computed)), dtype=object)
+    for mask, text in reasons:
+        hit = pd.Series(np.asarray(mask, bool) & computed)
+        out[hit] = np.where(out[hit] == "", text, out[hit] + "; " + text)
+    return out.to_numpy(object)

@@ -1,0 +1,162 @@
+"""Economic thickness: the standard thickness with the least yearly cost of insulation plus heat.
+
+The method of VDI 2055 and ISO 12241 (economic insulation thickness): the investment in
+insulation is spread over its service life with the annuity (capital recovery) factor of the
+interest rate, and added to the yearly cost of the heat that still flows through it; the
+thickness with the smallest sum is the economic one.  Here the candidates are the rules'
+standard thicknesses (``[thicknesses]``), the insulation is one intact layer of the item's
+specification material (else its outermost installed material), fittings are left out (they
+are the same at every thickness), and the heat is the engine's, under the energy site.  The
+whole register is solved once per candidate thickness.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+
+from audit.economics.energy import yearly
+from audit.economics.repair import insulation_cost, tuples_of
+from audit.thermal import thermal_states
+
+
+def annuity_factor(interest, years):
+    """Annuity (capital recovery) factor: the yearly payment that repays a capital of 1.
+
+    a = i (1 + i)^n / ((1 + i)^n - 1), and 1/n when i = 0 (its limit).
+
+    Parameters
+    ----------
+    interest : float or array_like
+        Interest rate per year, >= 0 (0.08 for 8 %) [-]
+    years : float or array_like
+        Service life (repayment period), > 0 [year]
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Annuity factor [1/year]
+
+    References
+    ----------
+    VDI 2055 Blatt 1 (2019), Thermal insulation of heated and refrigerated operational
+    installations: calculation rules (annuity method for the economic thickness); any
+    engineering-economy text's capital recovery factor (A/P, i, n).
+    """
+    i = np.asarray(interest, float)
+    n = np.asarray(years, float)
+    if np.any(i < 0) or np.any(n <= 0):
+        raise ValueError("interest must be >= 0 and the service life > 0")
+    # (1+i)^n - 1 through expm1/log1p: exact to round-off even for a tiny rate, where the
+    # plain difference cancels to 0.
+    excess = np.expm1(n * np.log1p(i))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        return np.where(i > 0, i * (1.0 + excess) / excess, 1.0 / n)
+
+
+def cheapest(candidates_m, yearly_heat_cost, investment, annuity):
+    """The candidate with the least total yearly cost, per item.
+
+    Parameters
+    ----------
+    candidates_m : array_like, shape (k,)
+        Candidate thicknesses [m]
+    yearly_heat_cost, investment : array_like, shape (n, k)
+        Per item and candidate: cost of the heat lost in a year [currency/yr] and cost of
+        the insulation [currency]; NaN where not known
+    annuity : float
+        Annuity factor [1/yr]
+
+    Returns
+    -------
+    thickness : numpy.ndarray, shape (n,)
+        Economic thickness [m]; NaN where no candidate is known
+    total : numpy.ndarray, shape (n,)
+        Its total yearly cost [currency/yr]
+    """
+    total = annuity * np.asarray(investment, float) + np.asarray(yearly_heat_cost, float)
+    known = np.isfinite(total).any(axis=1)
+    best = np.argmin(np.where(np.isfinite(total), total, np.inf), axis=1)
+    pick = total[np.arange(total.shape[0]), best]
+    return (np.where(known, np.asarray(candidates_m, float)[best], np.nan),
+            np.where(known, pick, np.nan))
+
+
+def economic_thickness(context, economic_rules, *, site, hours_h, material):
+    """Economic thickness [m] of every row of the context's table (NaN where not computed).
+
+    Parameters
+    ----------
+    context : CheckContext
+        Item table, rules (``thicknesses``), surface model and conductivity tables.
+    economic_rules : EconomicRules
+        Prices, annuity inputs and repair cost tables.
+    site : str
+        Site the energy is reckoned under ("" = each item's own conditions).
+    hours_h : numpy.ndarray
+        Operating hours per row [h]
+    material : numpy.ndarray of str
+        Insulation material per row ("" = none known: not computed).
+    """
+    table, rules = context.table, context.rules
+    n = len(table)
+    out = np.full(n, np.nan)
+    states = context.states(site)
+    rows = np.flatnonzero(states["computed"].to_numpy(bool) & (material != "")
+                          & ~table["temp_is_ambient"].fillna(False).to_numpy(bool))
+    candidates = np.asarray(rules.thicknesses, float)
+    if rows.size == 0 or candidates.size == 0:
+        return out
+    items = table.iloc[rows].reset_index(drop=True)
+    distinct, codes, scale = _distinct_states(items, material[rows])
+    shape = items["shape"].to_numpy(object)
+    heat_cost = np.full((rows.size, candidates.size), np.nan)
+    investment = np.full((rows.size, candidates.size), np.nan)
+    for k, t in enumerate(candidates):
+        trial = distinct.copy()
+        trial["layer_thicknesses_m"] = tuples_of(np.full(len(trial), t))
+        got = thermal_states(trial, rules, site=site or None, surface_model=context.surface_model,
+                             tables=context._tables)
+        heat = np.where(got["computed"].to_numpy(bool), got["heat_loss_W"].to_numpy(float), np.nan)
+        heat_cost[:, k] = yearly(heat[codes] * scale, hours_h[rows], economic_rules)["cost"]
+        investment[:, k] = insulation_cost(economic_rules.repair, shape, items["od_m"].to_numpy(float),
+                                           items["length_m"].to_numpy(float),
+                                           got["outer_area_m2"].to_numpy(float)[codes], t)
+    annuity = float(annuity_factor(economic_rules.interest, economic_rules.life))
+    out[rows] = cheapest(candidates, heat_cost, investment, annuity)[0]
+    return out
+
+
+#: Item-table columns that do not change the state of an intact item without bare fittings
+#: insulated with a given layer (bookkeeping, economics, checks' selectors, and the columns
+#: the trial sets itself).  Every other column, including any the engine may read in future
+#: and unknown carried-through columns, keeps items apart: merging is only ever too cautious.
+_NOT_THERMAL = {"tag", "source", "status", "reason", "warnings", "accessible", "service",
+                "area_code", "hours_h", "layer_materials", "layer_thicknesses_m", "condition",
+                "damaged_pct", "valves", "flanges"}
+
+
+def _distinct_states(items: pd.DataFrame, material: np.ndarray):
+    """The distinct thermal problems among ``items`` re-insulated with one intact layer of
+    ``material``: a register repeats the same size, temperature and conditions many times, so
+    each is solved once.  Pipes are solved per metre (length 1 m; heat is proportional to run
+    length without fittings or damage) and scaled back.
+
+    Returns the distinct trial table (thicknesses still to set), each item's row in it, and
+    each item's scale (its run length for pipes, 1 otherwise).
+    """
+    pipe = (items["shape"] == "pipe").to_numpy()
+    length = items["length_m"].to_numpy(float)
+    trial = items.copy()
+    trial["length_m"] = np.where(pipe, 1.0, length)
+    trial["_material"] = material
+    key = [c for c in trial.columns if c not in _NOT_THERMAL and not c.startswith("raw:")]
+    codes = trial.groupby(key, dropna=False, sort=False).ngroup().to_numpy()
+    _, first = np.unique(codes, return_index=True)
+    distinct = trial.iloc[first].drop(columns="_material").reset_index(drop=True)
+    distinct["layer_materials"] = tuples_of(material[first])
+    distinct["condition"] = "intact"
+    distinct["damaged_pct"] = np.nan
+    distinct["valves"] = 0
+    distinct["flanges"] = 0
+    return distinct, codes, np.where(pipe, length, 1.0)
