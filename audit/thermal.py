@@ -200,11 +200,12 @@ def _batch(rows: pd.DataFrame, rules: Rules, index: dict[str, int], site: str | 
     default_site = rules.defaults.get("site")
     site_names = (np.full(n, site, dtype=object) if site else
                   rows["location"].fillna("").replace("", default_site).to_numpy(object))
-    site_of = {name: sites[name] for name in set(site_names)}
-    site_air = np.array([site_of[s].ambient for s in site_names], float)
-    site_wind = np.array([site_of[s].wind for s in site_names], float)
-    site_rh = np.array([site_of[s].rh for s in site_names], float)
-    site_sur = np.array([site_of[s].surroundings for s in site_names], float)
+    names = pd.Series(site_names)
+
+    def of_site(attribute):
+        return names.map({name: getattr(site, attribute) for name, site in sites.items()}).to_numpy(float)
+
+    site_air, site_wind, site_rh, site_sur = (of_site(a) for a in ("ambient", "wind", "rh", "surroundings"))
 
     row_air = rows["ambient_K"].to_numpy(float)
     t_air = np.where(np.isfinite(row_air), row_air, site_air)
@@ -222,7 +223,8 @@ def _batch(rows: pd.DataFrame, rules: Rules, index: dict[str, int], site: str | 
     row_eps = rows["emissivity"].to_numpy(float)
 
     def lookup(names, named, attribute):
-        return np.array([getattr(named[x], attribute) if x in named else np.nan for x in names], float)
+        values = {name: getattr(entry, attribute) for name, entry in named.items()}
+        return pd.Series(names).map(values).to_numpy(float)
 
     emissivity = np.where(np.isfinite(row_eps), row_eps, lookup(jacket_names, rules.jackets, "emissivity"))
     bare_emissivity = np.where(np.isfinite(row_eps), row_eps, lookup(metal_names, rules.metals, "emissivity"))
@@ -248,11 +250,11 @@ def _batch(rows: pd.DataFrame, rules: Rules, index: dict[str, int], site: str | 
     table_idx[condition == "missing"] = -1
 
     return ItemBatch(
-        shape=np.array([SHAPE_CODES[s] for s in rows["shape"]], int),
+        shape=rows["shape"].map(SHAPE_CODES).to_numpy(int),
         od=rows["od_m"].to_numpy(float), length=rows["length_m"].to_numpy(float),
         area=rows["area_m2"].to_numpy(float),
-        heads=np.array([HEAD_CODES.get(h, HEAD_CODES["ellipsoidal"]) for h in rows["heads"]], int),
-        orientation=np.array([ORIENTATION_CODES.get(o, 0) for o in rows["orientation"]], int),
+        heads=rows["heads"].map(HEAD_CODES).fillna(HEAD_CODES["none"]).to_numpy(int),
+        orientation=rows["orientation"].map(ORIENTATION_CODES).fillna(0).to_numpy(int),
         t_process=t_process, t_air=t_air, t_surroundings=t_sur, wind=wind,
         emissivity=emissivity, bare_emissivity=bare_emissivity,
         layer_table=table_idx, layer_thickness=thickness, layer_factor=factor,
