@@ -27,56 +27,65 @@ def resolve_names(table: pd.DataFrame, rules: Rules) -> pd.DataFrame:
     """Reject rows whose names the rules do not define, or whose condition lacks data.
 
     Returns a copy of ``table`` with ``status`` and ``reason`` updated; rows already
-    rejected keep their reasons and gain any new ones.
+    rejected keep their reasons and gain any new ones.  Each distinct combination of the
+    cells involved is judged once (a register repeats a few hundred of them).
     """
     out = table.copy()
-    problems = [[] for _ in range(len(out))]
-    materials, jackets, sites, metals = rules.materials, rules.jackets, rules.sites, rules.metals
-    default_metal = rules.defaults.get("metal")
-    default_jacket = rules.defaults.get("jacket")
-    for i, row in enumerate(out.itertuples(index=False)):
-        names = row.layer_materials if isinstance(row.layer_materials, tuple) else ()
-        for name in dict.fromkeys(names):
-            if name not in materials:
-                problems[i].append(f'layers: material "{name}" is not in the rules; expected one of '
-                                   f'{_listing(materials)} (or add it to a rule file)')
-            elif row.condition == "wet" and not np.isfinite(materials[name].wet_factor):
-                problems[i].append(f'condition: "wet" but material "{name}" has no wet_factor in the '
-                                   "rules; add wet_factor and wet_source to it")
-        jacket = row.jacket or ""
-        if jacket and jacket not in jackets:
-            problems[i].append(f'jacket: "{jacket}" is not in the rules; expected one of '
-                               f"{_listing(jackets)}, or give an emissivity (0-1)")
-        elif names and not jacket and not np.isfinite(row.emissivity) and default_jacket is None:
-            problems[i].append("jacket: empty and no emissivity on the row; expected a jacket name "
-                               "or an emissivity, or [defaults] jacket in the rules")
-        location = row.location or ""
-        if location and location not in sites:
-            problems[i].append(f'location: "{location}" is not a site condition in the rules; '
-                               f"expected one of {_listing(sites)}")
-        metal = row.material or ""
-        if metal and metal not in metals:
-            problems[i].append(f'material: metal "{metal}" is not in the rules; expected one of '
-                               f"{_listing(metals)}")
-        bare_part = (not names) or row.condition in ("damaged", "missing") or (row.valves or 0) > 0 \
-            or (row.flanges or 0) > 0
-        if bare_part and not np.isfinite(row.emissivity) and not metal and default_metal is None:
-            problems[i].append("material: needed for the bare-metal emissivity; expected a metal "
-                               "name, an emissivity on the row, or [defaults] metal in the rules")
-        for column, fitting in (("valves", "valve"), ("flanges", "flange")):
-            if (getattr(row, column) or 0) > 0 and fitting not in rules.fittings:
-                problems[i].append(f"{column}: uninsulated fittings given but the rules define no "
-                                   f"[fitting.{fitting}] equivalent length; add one to a rule file")
-        if row.condition == "damaged" and not np.isfinite(row.damaged_pct):
-            problems[i].append('damaged: empty but condition is "damaged"; expected the share of the '
-                               "length without insulation, in %")
+    count = {c: pd.to_numeric(out[c], errors="coerce").fillna(0).to_numpy() > 0
+             for c in ("valves", "flanges")}
+    keys = list(zip(
+        out["layer_materials"].to_numpy(object), out["condition"].fillna("").to_numpy(object),
+        out["jacket"].fillna("").to_numpy(object), np.isfinite(out["emissivity"].to_numpy(float)),
+        out["location"].fillna("").to_numpy(object), out["material"].fillna("").to_numpy(object),
+        count["valves"], count["flanges"], np.isfinite(out["damaged_pct"].to_numpy(float))))
+    codes, uniques = pd.factorize(pd.Series(keys, dtype=object))
+    verdicts = np.array(["; ".join(_name_problems(key, rules)) for key in uniques], dtype=object)
+    added = verdicts[codes]
     _note_defaults(out, rules)
-    added = np.array(["; ".join(p) for p in problems], dtype=object)
     has = added != ""
     out.loc[has, "reason"] = [
         f"{old}; {new}" if old else new for old, new in zip(out.loc[has, "reason"], added[has])]
     out.loc[has, "status"] = "rejected"
     return out
+
+
+def _name_problems(key, rules: Rules) -> list[str]:
+    """What is wrong with one combination of a row's names and condition."""
+    layers, condition, jacket, has_eps, location, metal, valves, flanges, has_damage = key
+    materials, jackets, sites, metals = rules.materials, rules.jackets, rules.sites, rules.metals
+    problems = []
+    names = layers if isinstance(layers, tuple) else ()
+    for name in dict.fromkeys(names):
+        if name not in materials:
+            problems.append(f'layers: material "{name}" is not in the rules; expected one of '
+                            f'{_listing(materials)} (or add it to a rule file)')
+        elif condition == "wet" and not np.isfinite(materials[name].wet_factor):
+            problems.append(f'condition: "wet" but material "{name}" has no wet_factor in the '
+                            "rules; add wet_factor and wet_source to it")
+    if jacket and jacket not in jackets:
+        problems.append(f'jacket: "{jacket}" is not in the rules; expected one of '
+                        f"{_listing(jackets)}, or give an emissivity (0-1)")
+    elif names and not jacket and not has_eps and "jacket" not in rules.defaults:
+        problems.append("jacket: empty and no emissivity on the row; expected a jacket name "
+                        "or an emissivity, or [defaults] jacket in the rules")
+    if location and location not in sites:
+        problems.append(f'location: "{location}" is not a site condition in the rules; '
+                        f"expected one of {_listing(sites)}")
+    if metal and metal not in metals:
+        problems.append(f'material: metal "{metal}" is not in the rules; expected one of '
+                        f"{_listing(metals)}")
+    bare_part = (not names) or condition in ("damaged", "missing") or valves or flanges
+    if bare_part and not has_eps and not metal and "metal" not in rules.defaults:
+        problems.append("material: needed for the bare-metal emissivity; expected a metal "
+                        "name, an emissivity on the row, or [defaults] metal in the rules")
+    for given, column, fitting in ((valves, "valves", "valve"), (flanges, "flanges", "flange")):
+        if given and fitting not in rules.fittings:
+            problems.append(f"{column}: uninsulated fittings given but the rules define no "
+                            f"[fitting.{fitting}] equivalent length; add one to a rule file")
+    if condition == "damaged" and not has_damage:
+        problems.append('damaged: empty but condition is "damaged"; expected the share of the '
+                        "length without insulation, in %")
+    return problems
 
 
 def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
