@@ -421,7 +421,7 @@ def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
     side = np.sign(b.t_process - b.t_air)
     excess = (sol.surface_temp - t_air) * side[item]
     order = np.lexsort((excess, item))
-    last_of_item = np.r_[item[order][1:] != item[order][:-1], True]
+    last_of_item = np.r_[item[order][1:] != item[order][:-1], True][:order.size]
     worst = np.full(n, -1)
     worst[item[order][last_of_item]] = order[last_of_item]
 

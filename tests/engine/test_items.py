@@ -189,3 +189,11 @@ def test_conductivity_beyond_its_table_warns_but_computes():
     r = solve_item(temp=C + 600, ambient=C + 20, od=0.1143,
                    layers=[([(C + 0, 0.03), (C + 100, 0.04)], 0.05)])
     assert r.converged and any("extrapolated" in w for w in r.warnings)
+
+
+def test_a_batch_whose_every_item_is_invalid_returns_reasons_not_an_error():
+    batch = random_batch(5, 3)
+    batch.t_process[:] = -1.0
+    states = solve_items(batch, TABLES)
+    assert not states.converged.any()
+    assert all("absolute zero" in r for r in states.reason)

@@ -6,6 +6,13 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
+from audit.io.readers.sheet import QUOTE_CHARS
+
+
+def quoted(text: str) -> str:
+    """A raw cell as a reason quotes it: cut to QUOTE_CHARS characters, with an ellipsis."""
+    return text if len(text) <= QUOTE_CHARS else text[:QUOTE_CHARS] + "…"
+
 
 class RowNotes:
     """Reasons (rejections) and warnings, gathered per row as ``; ``-joined text."""
@@ -57,7 +64,7 @@ class Column:
 
     def messages(self, problems: list[str | None]) -> np.ndarray:
         """``column: "raw" problem`` for each row whose cell has a problem, else ``""``."""
-        texts = np.array([f'{self.name}: "{u}" {p}' if p else ""
+        texts = np.array([f'{self.name}: "{quoted(u)}" {p}' if p else ""
                           for u, p in zip(self.uniques, problems)], dtype=object)
         return texts[self.codes]
 

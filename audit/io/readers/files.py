@@ -6,9 +6,11 @@ header are skipped: the header is the first of the first 30 lines that names the
 XLSX: see :mod:`audit.io.readers.workbook`.
 
 Limits (a register past them is refused with a :class:`RegisterError`, never half read):
-``MAX_FILE_BYTES`` on disk for every file; ``MAX_ROWS`` rows per sheet or CSV file (Excel's own
-sheet limit); for XLSX also the zip limits of :mod:`audit.io.readers.workbook`
-(``MAX_UNCOMPRESSED_BYTES``, ``MAX_COMPRESSION_RATIO``).
+``MAX_FILE_BYTES`` on disk for every file; ``MAX_ROWS`` rows and ``MAX_COLUMNS`` columns per
+sheet or CSV file (Excel's own sheet limits); for XLSX also the zip limits of
+:mod:`audit.io.readers.workbook` (``MAX_UNCOMPRESSED_BYTES``, ``MAX_COMPRESSION_RATIO``).  A
+cell longer than ``MAX_CELL_CHARS`` (Excel's cell limit) rejects its row with a reason, and a
+raw value quoted in any reason is cut to 60 characters.
 """
 
 from __future__ import annotations
@@ -21,13 +23,13 @@ from pathlib import Path
 import pandas as pd
 
 from audit.io.readers.headers import Lookup
-from audit.io.readers.sheet import (HEADER_SEARCH_ROWS, MAX_ROWS, RawSheet, find_header,
-                                    finish, refuse)
+from audit.io.readers.sheet import (HEADER_SEARCH_ROWS, MAX_CELL_CHARS, MAX_COLUMNS, MAX_ROWS,
+                                    RawSheet, find_header, finish, refuse)
 from audit.io.readers.workbook import (MAX_COMPRESSION_RATIO, MAX_UNCOMPRESSED_BYTES,
                                        OLE_MAGIC, ZIP_MAGIC, read_xlsx)
 
-__all__ = ["read_raw", "MAX_FILE_BYTES", "MAX_ROWS", "MAX_UNCOMPRESSED_BYTES",
-           "MAX_COMPRESSION_RATIO"]
+__all__ = ["read_raw", "MAX_FILE_BYTES", "MAX_ROWS", "MAX_COLUMNS", "MAX_CELL_CHARS",
+           "MAX_UNCOMPRESSED_BYTES", "MAX_COMPRESSION_RATIO"]
 
 MAX_FILE_BYTES = 1 << 30
 CSV_SUFFIXES = frozenset({".csv", ".txt", ".tsv"})
@@ -105,10 +107,13 @@ def _read_csv(path: Path, lookup: Lookup) -> RawSheet:
     text, encoding = _decode(path, path.read_bytes())
     if not text.strip():
         raise refuse(path, "the file is empty", "a header row and at least one data row")
-    head_lines = [line.rstrip("\r") for line in text[:_head_end(text)].split("\n")]
+    # For finding the header only: a lone carriage return inside a quoted cell (valid CSV)
+    # would stop the line-by-line reader, and cells may exceed its default field size.
+    head_lines = [line.rstrip("\r").replace("\r", " ")
+                  for line in text[:_head_end(text)].split("\n")]
     best = (0, 0, -1, ",")  # (score, field count, -index, delimiter)
     for delimiter in _DELIMITERS:
-        rows = list(csv.reader(head_lines, delimiter=delimiter))
+        rows = _csv_rows(head_lines, delimiter)
         index, row_score = find_header(rows, lookup)
         candidate = (row_score, len(rows[index]) if index >= 0 else 0, -index, delimiter)
         if candidate > best:
@@ -119,7 +124,7 @@ def _read_csv(path: Path, lookup: Lookup) -> RawSheet:
         raise refuse(path, f"no header row found in the first {HEADER_SEARCH_ROWS} lines",
                      "a header row naming the columns (tag, nps, temp, ...; "
                      "see rules/aliases.toml)")
-    header = next(csv.reader([head_lines[header_index]], delimiter=delimiter))
+    header = _csv_rows([head_lines[header_index]], delimiter)[0]
     body = text[_line_start(text, header_index + 1):]
     data = _csv_body(path, body, delimiter)
     decimal_comma = delimiter != "," and bool(_DECIMAL_COMMA.search(body[:100_000]))
@@ -128,6 +133,22 @@ def _read_csv(path: Path, lookup: Lookup) -> RawSheet:
     sheet.notes.append(f"read as {encoding} text, separator {delimiter!r}, decimal "
                        f"{'comma' if decimal_comma else 'point'}")
     return sheet
+
+
+def _csv_rows(lines: list[str], delimiter: str) -> list[list[str]]:
+    """Lines split into cells; a line the csv module cannot split counts as one cell."""
+    limit = csv.field_size_limit()
+    csv.field_size_limit(max(limit, 1 << 30))  # the cell limit is enforced per row, later
+    try:
+        rows = []
+        for line in lines:
+            try:
+                rows.extend(csv.reader([line], delimiter=delimiter))
+            except csv.Error:
+                rows.append([line])
+        return rows
+    finally:
+        csv.field_size_limit(limit)
 
 
 def _line_start(text: str, line: int) -> int:

@@ -12,6 +12,9 @@ from audit.errors import RegisterError
 from audit.io.readers.headers import Lookup, score
 
 MAX_ROWS = 1_048_576  # rows per sheet or CSV file: Excel's own sheet limit
+MAX_COLUMNS = 16_384  # columns per sheet: Excel's own sheet limit
+MAX_CELL_CHARS = 32_767  # characters per cell: Excel's own cell limit
+QUOTE_CHARS = 60  # a raw value quoted in a reason is cut to this many characters
 HEADER_SEARCH_ROWS = 30
 
 
@@ -61,6 +64,9 @@ def finish(path: Path, sheet: str, header: list[str], groups, data: pd.DataFrame
            header_row: int, decimal_comma: bool, stripped: list | None = None) -> RawSheet:
     """Align header and data widths, drop blank rows at the end, number the rows."""
     width = max(len(header), data.shape[1])
+    if width > MAX_COLUMNS:
+        raise refuse(path, f"{width} columns, above the limit of {MAX_COLUMNS}",
+                     "a register of at most that many columns", sheet=sheet or None)
     header = header + [""] * (width - len(header))
     if groups is not None:
         groups = groups + [""] * (width - len(groups))

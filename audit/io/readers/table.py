@@ -19,7 +19,7 @@ import pandas as pd
 from audit.errors import RegisterError
 from audit.io.readers import cells
 from audit.io.readers.column import Column, RowNotes
-from audit.io.readers.sheet import RawSheet
+from audit.io.readers.sheet import MAX_CELL_CHARS, RawSheet
 from audit.io.readers.headers import COLUMNS, DN_UNIT, HeaderMap, Lookup, match_headers
 from audit.io.readers.insulation import insulation_layers
 from audit.pipe_sizes import OD_MM_BY_NPS
@@ -133,6 +133,7 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     info = SheetInfo(raw.file, raw.sheet, raw.header_row, n, dict(header_map.headers), [],
                      header_map.shadowed, notes=list(raw.notes))
     everyone = np.ones(n, dtype=bool)
+    _long_cells(raw, header_map, notes)
 
     tag = col["tag"]
     out["tag"] = tag.uniques[tag.codes]
@@ -181,7 +182,7 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
         table[c] = table[c].astype("str")
     for c, position in header_map.columns.items():
         table[f"raw:{c}"] = data[position].astype("str").to_numpy()
-    _extras(table, data, header_map, info)
+    table = _extras(table, data, header_map, info)
     return table, info
 
 
@@ -311,18 +312,39 @@ def _surface(col, notes: RowNotes, out, info: SheetInfo) -> None:
                                  jacket.spread(answers, 0, dtype=float))
 
 
+def _long_cells(raw: RawSheet, header_map: HeaderMap, notes: RowNotes) -> None:
+    """Reject rows with a cell longer than a spreadsheet cell holds (any column)."""
+    names = {position: column for column, position in header_map.columns.items()}
+    for position, (codes, uniques) in enumerate(raw.stripped):
+        lengths = np.fromiter((len(u) for u in uniques), dtype=np.int64, count=len(uniques))
+        if not len(codes) or lengths.max(initial=0) <= MAX_CELL_CHARS:
+            continue
+        label = names.get(position) or raw.header[position] or f"column {position + 1}"
+        too_long = lengths[codes] > MAX_CELL_CHARS
+        notes.reject(too_long, np.array([f"{label}: cell of {lengths[c]} characters, above the "
+                                         f"limit of {MAX_CELL_CHARS}; expected at most "
+                                         f"{MAX_CELL_CHARS} characters" for c in codes], dtype=object))
+
+
 def _extras(table: pd.DataFrame, data: pd.DataFrame, header_map: HeaderMap,
-            info: SheetInfo) -> None:
-    """Carry unknown columns through under their header; name blank headers by position."""
+            info: SheetInfo) -> pd.DataFrame:
+    """``table`` with the unknown columns carried through under their header (blank headers
+    named by position), added in one step."""
+    taken = {str(c).lower() for c in table.columns}
+    extra = {}
     for position, header in header_map.extras:
         values = data[position].astype("str")
         if not header and not values.str.strip().ne("").any():
             continue
         label = header or f"column {position + 1}"
-        if label.lower() in {str(c).lower() for c in table.columns} or label.startswith("raw:"):
+        if label.lower() in taken or label.startswith("raw:"):
             label = f"extra:{label}"
         base, k = label, 2
-        while label in table.columns:
+        while label.lower() in taken:
             label, k = f"{base} ({k})", k + 1
-        table[label] = values.to_numpy()
+        taken.add(label.lower())
+        extra[label] = values.to_numpy()
         info.ignored.append(label)
+    if not extra:
+        return table
+    return pd.concat([table, pd.DataFrame(extra, index=table.index)], axis=1)
