@@ -33,11 +33,15 @@ def resolve_names(table: pd.DataFrame, rules: Rules) -> pd.DataFrame:
     out = table.copy()
     count = {c: pd.to_numeric(out[c], errors="coerce").fillna(0).to_numpy() > 0
              for c in ("valves", "flanges")}
+    # A damaged share the reader could not read is its reason already, not "empty" here.
+    damaged_given = (out["raw:damaged"].fillna("").astype(str).str.strip() != "").to_numpy() \
+        if "raw:damaged" in out else np.zeros(len(out), bool)
     keys = list(zip(
         out["layer_materials"].to_numpy(object), out["condition"].fillna("").to_numpy(object),
         out["jacket"].fillna("").to_numpy(object), np.isfinite(out["emissivity"].to_numpy(float)),
         out["location"].fillna("").to_numpy(object), out["material"].fillna("").to_numpy(object),
-        count["valves"], count["flanges"], np.isfinite(out["damaged_pct"].to_numpy(float))))
+        count["valves"], count["flanges"],
+        np.isfinite(out["damaged_pct"].to_numpy(float)) | damaged_given))
     codes, uniques = pd.factorize(pd.Series(keys, dtype=object))
     verdicts = np.array(["; ".join(_name_problems(key, rules)) for key in uniques], dtype=object)
     added = verdicts[codes]

@@ -134,7 +134,12 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
         if not folder.is_dir():
             raise RuleError(f"rules folder {str(folder)!r} does not exist or is not a folder",
                             file=str(folder), expected="a folder holding *.toml rule files")
-        for path in sorted(folder.glob("*.toml")):
+        found = sorted(folder.glob("*.toml"))
+        if not found:
+            others = ", ".join(sorted(p.name for p in folder.iterdir() if p.is_file())[:5]) or "nothing"
+            raise RuleError(f"rules folder {str(folder)!r} holds no *.toml file (found: {others})",
+                            file=str(folder), expected="rule files named *.toml")
+        for path in found:
             files.append(str(path))
             _read_file(path, collected, aliases, defaults)
     thicknesses = collected["thicknesses"]
@@ -151,6 +156,9 @@ def _read_file(path: Path, collected, aliases, defaults) -> None:
         data = tomllib.loads(path.read_text(encoding="utf-8"))
     except tomllib.TOMLDecodeError as exc:
         raise RuleError(f"not valid TOML: {exc}", file=str(path),
+                        expected="TOML as described in the comment at the top of the shipped rule files") from exc
+    except RecursionError as exc:
+        raise RuleError("nested too deeply to read", file=str(path),
                         expected="TOML as described in the comment at the top of the shipped rule files") from exc
     except (OSError, UnicodeDecodeError) as exc:
         raise RuleError(f"cannot read the rule file: {exc}", file=str(path),

@@ -103,12 +103,6 @@ def test_json_keeps_the_text_exactly(hostile_run):
     assert records[1]["remarks"] == "\t=2+2" and records[3]["heat_loss [W]"] < 0
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "audit/io/writers/safety.py neutralise_frame neutralises cell values only, not column "
-    "labels, and unknown columns keep their header: a register column headed "
-    "'=HYPERLINK(\"http://example.invalid\";\"x\")' or '@SUM(1+1)' is written as a live header "
-    "field of results.csv. Proposed: neutralise the labels too (in CSV and XLSX), "
-    "e.g. out.columns = [neutralise_text(c) for c in out.columns]"))
 def test_csv_headers_taken_from_the_register_are_prefixed_too(lagaudit, tmp_path):
     register = tmp_path / "headers.csv"
     register.write_text('tag,nps,length,temp,layers,"=HYPERLINK(""http://example.invalid"";'

@@ -20,7 +20,7 @@ workbook.py; audit/thermal.py for names): these tests pin the behaviour, not a p
 | header-only CSV / XLSX                | header_only.csv / .xlsx     | exit 2                     |
 | workbook with an empty sheet          | empty_sheet.xlsx            | exit 2                     |
 | UTF-16 without BOM                    | utf16_no_bom.csv            | exit 2                     |
-| UTF-32                                | utf32.csv                   | exit 2 (message: see xfail)|
+| UTF-32                                | utf32.csv                   | exit 2, encoding named     |
 | Shift-JIS (not UTF-8)                 | shift_jis.csv               | read as Windows-1252, noted|
 | NUL byte in text                      | nul_byte.csv                | exit 2                     |
 | truncated XLSX                        | truncated.xlsx              | exit 2                     |
@@ -34,7 +34,7 @@ workbook.py; audit/thermal.py for names): these tests pin the behaviour, not a p
 | markup in cells                       | markup_cells.csv            | carried verbatim / rejected|
 | temperature beyond the engine's range | temp_beyond_engine.csv      | row rejected by the engine |
 | every row beyond the engine's range   | only_engine_rejects.csv     | row rejected by the engine |
-| unclosed quote                        | unclosed_quote.csv          | xfail: rows swallowed (bug)|
+| unclosed quote                        | unclosed_quote.csv          | exit 2, the line named     |
 | carriage return inside a quoted cell  | carriage_return_in_cell.csv | read as written            |
 | huge cell in the first lines          | huge_cell_head.csv          | row rejected (cell limit)  |
 | cell longer than a spreadsheet cell   | long_cell.csv               | row rejected (cell limit)  |
@@ -124,11 +124,6 @@ def test_impossible_values_reject_their_rows(results_of):
                                     'length at least 0 and at most 100 percent')
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "audit/thermal.py resolve_names (the 'damaged' check near line 70) adds 'damaged: empty but "
-    "condition is \"damaged\"' when the reader already rejected a damaged cell that was NOT empty "
-    "(150 %): the second reason contradicts the first; it should only be added when raw:damaged "
-    "is empty"))
 def test_a_bad_damaged_share_is_not_also_called_empty(results_of):
     r = results_of(REGISTERS / "impossible_values.csv")
     assert "empty" not in reasons(r)["BD-308"]
@@ -195,8 +190,8 @@ def test_duplicated_tags_are_audited_and_each_copy_is_warned(results_of):
                          "the header"),
     ("empty_sheet.xlsx", "no sheet has a header row with a tag column; expected a header row "
                          "with a tag column"),
-    ("utf16_no_bom.csv", "binary data, not CSV text; expected a .csv text file"),
-    ("nul_byte.csv", "binary data, not CSV text; expected a .csv text file"),
+    ("utf16_no_bom.csv", "UTF-16 or UTF-32 text without a byte-order mark, or binary data; not CSV text as read here; expected a CSV saved as UTF-8 (or UTF-16 with a byte-order mark)"),
+    ("nul_byte.csv", "UTF-16 or UTF-32 text without a byte-order mark, or binary data; not CSV text as read here; expected a CSV saved as UTF-8 (or UTF-16 with a byte-order mark)"),
     ("truncated.xlsx", "corrupt workbook (File is not a zip file); expected an .xlsx that opens "
                        "in a spreadsheet program; save it again"),
     ("corrupt_crc.xlsx", "corrupt workbook (Bad CRC-32 for file 'xl/worksheets/sheet1.xml'); "
@@ -220,13 +215,6 @@ def test_utf32_stops_the_run(refused):
     refused(REGISTERS / "utf32.csv")
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "audit/io/readers/files.py _decode: a UTF-32 file (BOM FF FE 00 00) is taken for UTF-16 and "
-    "then refused with 'no header row found in the first 30 lines', and a UTF-16 file without "
-    "BOM is 'binary data, not CSV text; expected a .csv text file': neither names the encoding. "
-    "Proposed: check the UTF-32 BOMs before UTF-16, and for NUL-rich text say 'UTF-16 or UTF-32 "
-    "text without a byte-order mark, or binary data; expected a CSV saved as UTF-8 (or UTF-16 "
-    "with BOM)'"))
 @pytest.mark.parametrize("name", ["utf32.csv", "utf16_no_bom.csv"])
 def test_an_unsupported_encoding_is_named(refused, name):
     err = refused(REGISTERS / name)
@@ -320,12 +308,6 @@ def test_a_register_whose_every_row_the_engine_rejects(results_of):
 
 # --- text-format hazards ---------------------------------------------------------------------
 
-@pytest.mark.xfail(strict=True, reason=(
-    "audit/io/readers/files.py _csv_body: an unclosed double quote (line 3, temp cell) makes the "
-    "rest of the file one cell; BD-703 and BD-704 vanish as items and show only inside BD-702's "
-    "reason. Proposed: refuse the file when a cell of a recognised column holds a line break: "
-    "'line 3: a quote opened in column 'temp' is not closed before the next line; expected "
-    "balanced double quotes' (exit 2)"))
 def test_an_unclosed_quote_does_not_swallow_rows(refused):
     err = refused(REGISTERS / "unclosed_quote.csv")
     assert "line 3" in err and "quote" in err

@@ -20,9 +20,10 @@ import io
 import re
 from pathlib import Path
 
+import numpy as np
 import pandas as pd
 
-from audit.io.readers.headers import Lookup
+from audit.io.readers.headers import Lookup, match_headers
 from audit.io.readers.sheet import (HEADER_SEARCH_ROWS, MAX_CELL_CHARS, MAX_COLUMNS, MAX_ROWS,
                                     RawSheet, find_header, finish, refuse)
 from audit.io.readers.workbook import (MAX_COMPRESSION_RATIO, MAX_UNCOMPRESSED_BYTES,
@@ -87,13 +88,18 @@ def _decode(path: Path, raw: bytes) -> tuple[str, str]:
     if raw.startswith(OLE_MAGIC):
         raise refuse(path, "this is an Office binary file (legacy .xls or an encrypted "
                      "workbook), not CSV text", "a .csv text file or an unprotected .xlsx")
+    if raw.startswith((b"\xff\xfe\x00\x00", b"\x00\x00\xfe\xff")):
+        raise refuse(path, "UTF-32 text, which is not read", "a CSV saved as UTF-8 (or UTF-16 "
+                     "with a byte-order mark)")
     if raw.startswith((b"\xff\xfe", b"\xfe\xff")):
         try:
             return raw.decode("utf-16"), "UTF-16"
         except UnicodeDecodeError as exc:
-            raise refuse(path, "broken UTF-16 text", "a UTF-8 or Windows-1252 CSV") from exc
+            raise refuse(path, "broken UTF-16 text", "a CSV saved as UTF-8") from exc
     if b"\x00" in raw[:65536]:
-        raise refuse(path, "binary data, not CSV text", "a .csv text file")
+        raise refuse(path, "UTF-16 or UTF-32 text without a byte-order mark, or binary data; "
+                     "not CSV text as read here", "a CSV saved as UTF-8 (or UTF-16 with a "
+                     "byte-order mark)")
     try:
         if raw.startswith(b"\xef\xbb\xbf"):
             return raw[3:].decode("utf-8"), "UTF-8 with BOM"
@@ -127,12 +133,27 @@ def _read_csv(path: Path, lookup: Lookup) -> RawSheet:
     header = _csv_rows([head_lines[header_index]], delimiter)[0]
     body = text[_line_start(text, header_index + 1):]
     data = _csv_body(path, body, delimiter)
+    _refuse_unclosed_quotes(path, data, [h.strip() for h in header], lookup, header_index + 1)
     decimal_comma = delimiter != "," and bool(_DECIMAL_COMMA.search(body[:100_000]))
     sheet = finish(path, "", [h.strip() for h in header], None, data, header_index + 1,
                     decimal_comma)
     sheet.notes.append(f"read as {encoding} text, separator {delimiter!r}, decimal "
                        f"{'comma' if decimal_comma else 'point'}")
     return sheet
+
+
+def _refuse_unclosed_quotes(path: Path, data: pd.DataFrame, header: list[str], lookup: Lookup,
+                            header_line: int) -> None:
+    """A line break inside a cell of a recognised column means a quote left open: the rest of
+    the file would vanish into one cell, so the file is refused, naming the line."""
+    for column, position in match_headers(header, lookup).columns.items():
+        if position >= data.shape[1]:
+            continue
+        broken = data[position].astype(str).str.contains("\n", regex=False).to_numpy()
+        if broken.any():
+            line = header_line + 1 + int(np.flatnonzero(broken)[0])
+            raise refuse(path, f"line {line}: a quote opened in column {column!r} is not closed "
+                         "before the next line", "balanced double quotes")
 
 
 def _csv_rows(lines: list[str], delimiter: str) -> list[list[str]]:

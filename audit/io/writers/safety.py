@@ -20,8 +20,10 @@ def neutralise_text(value):
 
 
 def neutralise_frame(frame: pd.DataFrame) -> pd.DataFrame:
-    """A copy of ``frame`` with every text cell of every object column neutralised."""
+    """A copy of ``frame`` with every text cell of every object column neutralised, and the
+    column labels too (a register's unknown columns arrive under their own headers)."""
     out = frame.copy()
+    out.columns = [neutralise_text(str(c)) for c in out.columns]
     for column in out.columns:
         series = out[column]
         if series.dtype == object or pd.api.types.is_string_dtype(series):
