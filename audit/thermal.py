@@ -129,6 +129,13 @@ def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
         table.loc[mask, "warnings"] = np.where(old == "", text, old + "; " + text)
 
 
+def map_values(names, mapping: dict, default=np.nan, dtype=float) -> np.ndarray:
+    """``mapping[name]`` for each of ``names`` (``default`` where absent), one lookup per
+    distinct name."""
+    codes, uniques = pd.factorize(np.asarray(names, dtype=object), use_na_sentinel=False)
+    return np.array([mapping.get(u, default) for u in uniques], dtype=dtype)[codes]
+
+
 def _listing(named: dict) -> str:
     return ", ".join(sorted(named)) or "(none defined)"
 
@@ -213,10 +220,8 @@ def _batch(rows: pd.DataFrame, rules: Rules, index: dict[str, int], site: str | 
     default_site = rules.defaults.get("site")
     site_names = (np.full(n, site, dtype=object) if site else
                   rows["location"].fillna("").replace("", default_site).to_numpy(object))
-    names = pd.Series(site_names)
-
     def of_site(attribute):
-        return names.map({name: getattr(site, attribute) for name, site in sites.items()}).to_numpy(float)
+        return map_values(site_names, {name: getattr(site, attribute) for name, site in sites.items()})
 
     site_air, site_wind, site_rh, site_sur = (of_site(a) for a in ("ambient", "wind", "rh", "surroundings"))
 
@@ -236,8 +241,7 @@ def _batch(rows: pd.DataFrame, rules: Rules, index: dict[str, int], site: str | 
     row_eps = rows["emissivity"].to_numpy(float)
 
     def lookup(names, named, attribute):
-        values = {name: getattr(entry, attribute) for name, entry in named.items()}
-        return pd.Series(names).map(values).to_numpy(float)
+        return map_values(names, {name: getattr(entry, attribute) for name, entry in named.items()})
 
     emissivity = np.where(np.isfinite(row_eps), row_eps, lookup(jacket_names, rules.jackets, "emissivity"))
     bare_emissivity = np.where(np.isfinite(row_eps), row_eps, lookup(metal_names, rules.metals, "emissivity"))
@@ -263,11 +267,11 @@ def _batch(rows: pd.DataFrame, rules: Rules, index: dict[str, int], site: str | 
     table_idx[condition == "missing"] = -1
 
     return ItemBatch(
-        shape=rows["shape"].map(SHAPE_CODES).to_numpy(int),
+        shape=map_values(rows["shape"], SHAPE_CODES, dtype=int),
         od=rows["od_m"].to_numpy(float), length=rows["length_m"].to_numpy(float),
         area=rows["area_m2"].to_numpy(float),
-        heads=rows["heads"].map(HEAD_CODES).fillna(HEAD_CODES["none"]).to_numpy(int),
-        orientation=rows["orientation"].map(ORIENTATION_CODES).fillna(0).to_numpy(int),
+        heads=map_values(rows["heads"], HEAD_CODES, HEAD_CODES["none"], dtype=int),
+        orientation=map_values(rows["orientation"], ORIENTATION_CODES, 0, dtype=int),
         t_process=t_process, t_air=t_air, t_surroundings=t_sur, wind=wind,
         emissivity=emissivity, bare_emissivity=bare_emissivity,
         layer_table=table_idx, layer_thickness=thickness, layer_factor=factor,

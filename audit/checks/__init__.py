@@ -73,9 +73,19 @@ def summarise_per_row(findings: pd.DataFrame, n: int) -> tuple[np.ndarray, np.nd
     """Per item-table row: the ';'-joined names of its failed checks, and its worst severity."""
     names = np.full(n, "", dtype=object)
     worst = np.full(n, "", dtype=object)
-    if len(findings):
-        rank = {s: i for i, s in enumerate(SEVERITIES)}
-        for row, group in findings.groupby("row", sort=False):
-            names[row] = ";".join(dict.fromkeys(group["check"]))
-            worst[row] = max(group["severity"], key=rank.__getitem__)
+    if not len(findings):
+        return names, worst
+    findings = findings.sort_values("row", kind="stable")
+    unique = findings.drop_duplicates(["row", "check"])  # one name per (row, check), in order
+    rows = unique["row"].to_numpy(int)
+    starts = np.flatnonzero(np.r_[True, rows[1:] != rows[:-1]])
+    first = np.zeros(rows.size, bool)
+    first[starts] = True
+    pieces = np.where(first, unique["check"].to_numpy(object), ";" + unique["check"].to_numpy(object))
+    names[rows[starts]] = np.add.reduceat(pieces.astype(object), starts)
+    rank = findings["severity"].map({s: i for i, s in enumerate(SEVERITIES)}).to_numpy(int)
+    all_rows = findings["row"].to_numpy(int)
+    all_starts = np.flatnonzero(np.r_[True, all_rows[1:] != all_rows[:-1]])
+    worst[all_rows[all_starts]] = np.asarray(SEVERITIES, dtype=object)[
+        np.maximum.reduceat(rank, all_starts)]
     return names, worst

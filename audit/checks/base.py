@@ -142,26 +142,31 @@ def validated_params(check: Check, kind: CheckKind) -> dict:
 def bare_parts(table: pd.DataFrame):
     """Per row of the item table: has it a bare metal part, and which, in words.
 
-    Fittings count on pipes only, as the engine counts them (see ``audit.thermal``).
+    Fittings count on pipes only, as the engine counts them (see ``audit.thermal``).  Each
+    distinct combination of the cells involved is worded once.
     """
     layers = table["layer_materials"].to_numpy(object)
-    condition = table["condition"].fillna("").to_numpy(object)
-    damaged = table["damaged_pct"].to_numpy(float)
-    pipe = (table["shape"] == "pipe").to_numpy()
-    valves = np.nan_to_num(table["valves"].to_numpy(float))
-    flanges = np.nan_to_num(table["flanges"].to_numpy(float))
-    words = np.full(len(table), "", dtype=object)
-    for i in range(len(table)):
-        parts = []
-        if not (isinstance(layers[i], tuple) and layers[i]):
-            parts.append("bare metal")
-        elif condition[i] == "missing":
-            parts.append("bare metal (insulation missing)")
-        elif condition[i] == "damaged" and damaged[i] > 0:
-            parts.append(f"the bare share of damaged insulation ({damaged[i]:g} %)")
-        fittings = [f"{n:g} {what}" for n, what in ((valves[i], "valves"), (flanges[i], "flanges"))
-                    if n > 0]
-        if pipe[i] and fittings:
-            parts.append(f"uninsulated fittings ({', '.join(fittings)})")
-        words[i] = " and ".join(parts)
+    keys = list(zip(
+        [isinstance(x, tuple) and bool(x) for x in layers],
+        table["condition"].fillna("").to_numpy(object),
+        np.nan_to_num(table["damaged_pct"].to_numpy(float), nan=-1.0),  # NaN would not dedupe
+        (table["shape"] == "pipe").to_numpy(),
+        np.nan_to_num(table["valves"].to_numpy(float)),
+        np.nan_to_num(table["flanges"].to_numpy(float))))
+    codes, uniques = pd.factorize(pd.Series(keys, dtype=object))
+    words = np.array([_bare_words(*key) for key in uniques], dtype=object)[codes]
     return words != "", words
+
+
+def _bare_words(insulated, condition, damaged, pipe, valves, flanges) -> str:
+    parts = []
+    if not insulated:
+        parts.append("bare metal")
+    elif condition == "missing":
+        parts.append("bare metal (insulation missing)")
+    elif condition == "damaged" and damaged > 0:
+        parts.append(f"the bare share of damaged insulation ({damaged:g} %)")
+    fittings = [f"{n:g} {what}" for n, what in ((valves, "valves"), (flanges, "flanges")) if n > 0]
+    if pipe and fittings:
+        parts.append(f"uninsulated fittings ({', '.join(fittings)})")
+    return " and ".join(parts)

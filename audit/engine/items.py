@@ -523,9 +523,11 @@ def _warnings(n, e, sol, tables, present) -> np.ndarray:
                      f"({lo - 273.15:g} to {hi - 273.15:g} degC)"
                      for name, lo, hi in zip(tables.names, tables.t_min, tables.t_max)], dtype=object)
     # One note per (item, material), in table order.
-    pairs = np.unique(np.stack([e.item[rows], e.layer_table[rows, cols]]), axis=1)
-    notes = text[pairs[1]]
-    items, starts = np.unique(pairs[0], return_index=True)
-    for i, a, b in zip(items, starts, np.r_[starts[1:], pairs.shape[1]]):
+    m = len(tables)
+    pairs = np.unique(e.item[rows].astype(np.int64) * m + e.layer_table[rows, cols])
+    item_of, table_of = pairs // m, pairs % m
+    notes = text[table_of]
+    items, starts = np.unique(item_of, return_index=True)
+    for i, a, b in zip(items, starts, np.r_[starts[1:], pairs.size]):
         out[i] = "; ".join(notes[a:b])
     return out
