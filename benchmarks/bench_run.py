@@ -1,8 +1,9 @@
 """Benchmark: a whole ``lagaudit run --format csv`` on a generated register, stage by stage.
 
 Generates an invented register of N rows (default 100,000) whose names all exist in the
-shipped rules, then times: read, resolve names, thermal states (own conditions), checks and
-remedies, results table, CSV writing, and the whole command end to end as a user runs it.
+shipped rules, then times: read, resolve names, thermal states (own conditions), checks,
+remedies, economics, results table, CSV writing, and the whole command end to end as a user
+runs it.
 Target of issue 2: the 100,000-item CSV register through ``lagaudit run --format csv`` in under
 10 s on a 2-core machine.  Not a test: run ``python benchmarks/bench_run.py [--items N]``.
 """
@@ -67,6 +68,7 @@ def main() -> None:
     from audit.checks import check_kinds, run_checks, summarise_per_row, validate_checks
     from audit.checks.base import CheckContext
     from audit.checks.remedy import fill_remedies
+    from audit.economics import compute_economics, load_economic_rules
     from audit.io.readers import read_register
     from audit.io.writers import write_csv
     from audit.results import build_results
@@ -85,8 +87,11 @@ def main() -> None:
         states = timed("thermal states (own)", context.states, "")
         findings = timed("checks (all scenarios)", run_checks, context, params)
         findings = timed("remedies", fill_remedies, context, findings, check_kinds(), params)
+        economics = timed("economics", compute_economics, context, findings, rules,
+                          economic_rules=load_economic_rules(()))
         names, worst = summarise_per_row(findings, len(table))
-        results = timed("results table", build_results, table, states, findings=names, severity=worst)
+        results = timed("results table", build_results, table, states, findings=names,
+                        severity=worst, extra=economics.per_row)
         timed("write results.csv", write_csv, results, Path(folder) / "results.csv")
         audited = int((results["status"] == "audited").sum())
         print(f"  audited {audited}, rejected {len(results) - audited}, findings {len(findings)}")
