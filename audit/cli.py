@@ -9,23 +9,25 @@ import sys
 from datetime import datetime, timezone
 from pathlib import Path
 
+import pandas as pd
+
 from audit import __version__
 from audit.calc import add_calc_arguments, run_calc
 from audit.cautions import CAUTION
 from audit.errors import LagauditError
 from audit.io.readers import read_register
 from audit.io.readers.validate import summarise
-from audit.io.writers import write_csv, write_json, write_xlsx
+from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
 from audit.pipeline import audit_register
 from audit.progress import progress
+from audit.report import write_reports
 from audit.rules import SEVERITIES, load_rules
 from audit.rules.describe import describe_rules
 from audit.shipped import shipped_dir
 from audit.thermal import resolve_names
 
 
-FORMATS = ("csv", "xlsx", "json")
-PLANNED_FORMATS = ("html", "pdf")
+FORMATS = ("csv", "xlsx", "json", "html", "pdf")
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -142,9 +144,6 @@ def _rules_option(parser):
 def _formats(text: str) -> list[str]:
     asked = [f.strip().lower() for f in text.split(",") if f.strip()]
     for name in asked:
-        if name in PLANNED_FORMATS:
-            raise LagauditError(f"--format {name}: the {name.upper()} report is not available in "
-                                f"this version", value=name, expected=", ".join(FORMATS))
         if name not in FORMATS:
             raise LagauditError(f"--format: unknown format {name!r}", value=name,
                                 expected="a comma list of " + ", ".join(FORMATS))
@@ -207,9 +206,20 @@ def _write(audit, registers, args, formats, bar) -> list[Path]:
         bar.advance()
     if "xlsx" in formats:
         rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
-        written.append(write_xlsx({"results": results, "findings": findings_out,
-                                   "rejected": rejected}, out / "results.xlsx"))
+        economics = audit.economics
+        sheets = {"results": results, "findings": findings_out, "rejected": rejected,
+                  "summary": summary_sheet(results, findings),
+                  "by area": economics.by_area, "by check": economics.by_check,
+                  "best paybacks": economics.top_repairs,
+                  "assumptions": pd.DataFrame(economics.assumptions)}
+        written.append(write_xlsx(sheets, out / "results.xlsx"))
         bar.advance()
+    reports = [f for f in formats if f in ("html", "pdf")]
+    if reports:
+        # The work-order packs are PDFs too: they come with the PDF report.
+        asked = reports + (["workorders"] if "pdf" in reports else [])
+        written += write_reports(audit, out, meta=meta, formats=asked, economics=audit.economics)
+        bar.advance(len(reports))
     return written
 
 

@@ -23,7 +23,8 @@ from audit.cli import main
 REGISTERS = Path(__file__).parents[1] / "data" / "bad" / "registers"
 
 TRIGGERS = ("=", "+", "-", "@", "\t", "\r")
-OUTPUTS = ["findings.csv", "results.csv", "results.json", "results.xlsx"]
+OUTPUTS = ["findings.csv", "report.html", "report.pdf", "results.csv", "results.json",
+           "results.xlsx", "workorders", "workorders.csv"]
 
 HOSTILE = (
     "tag,nps,length,temp,layers,remarks\n"
@@ -81,7 +82,7 @@ def test_csv_cells_keep_their_text_behind_the_apostrophe(hostile_run):
 
 def test_xlsx_holds_no_formula_and_numbers_stay_numbers(hostile_run):
     book = openpyxl.load_workbook(hostile_run / "results.xlsx")
-    assert book.sheetnames == ["results", "findings", "rejected"]
+    assert book.sheetnames[:3] == ["results", "findings", "rejected"]
     for sheet in book.worksheets:
         for row in sheet.iter_rows():
             for cell in row:
@@ -122,6 +123,8 @@ def test_file_names_never_come_from_tags(lagaudit, tmp_path):
     out = tmp_path / "out"
     assert lagaudit("run", register, "--out", out)[0] == 0
     assert sorted(p.name for p in out.iterdir()) == OUTPUTS
+    # Work-order packs are named by area code, here none: one pack, a fixed name.
+    assert sorted(p.name for p in (out / "workorders").iterdir()) == ["no-area.pdf"]
     assert sorted(p.name for p in tmp_path.iterdir()) == ["names.csv", "out"]
 
 

@@ -1,0 +1,163 @@
+"""Charts as inline SVG text, drawn here so the report needs no plotting library and no fetch.
+
+Every chart is a column of labelled horizontal rows (labels are register text, so every
+label is XML-escaped).  A chart shows at most :data:`MAX_BARS` rows; the caption says so.
+Each function returns ``None`` when there is nothing to draw.
+"""
+
+from __future__ import annotations
+
+from html import escape
+
+import numpy as np
+import pandas as pd
+from markupsafe import Markup
+
+#: Rows drawn per chart.
+MAX_BARS = 30
+
+#: Fill colours by severity (also used by the report's CSS, so tables and charts agree).
+SEVERITY_COLOURS = {"critical": "#7f1d1d", "high": "#c2410c", "medium": "#d9a21b",
+                    "low": "#7b9ebf", "info": "#c3ccd6"}
+
+INK, GRID, BAR, OVER = "#1f2933", "#d5dbe1", "#6b7c8f", "#c2410c"
+WIDTH, LABEL, ROW, TOP = 720, 150, 16, 34
+
+
+def cost_pareto(tags, costs, currency: str, top: int = MAX_BARS) -> Markup | None:
+    """The items with the largest annual cost, largest first, and the cumulative share of the
+    plant's total annual cost they make up."""
+    costs = np.asarray(costs, float)
+    positive = np.flatnonzero(np.isfinite(costs) & (costs > 0))
+    if not positive.size:
+        return None
+    order = positive[np.argsort(-costs[positive], kind="stable")]
+    total = costs[order].sum()
+    shown = order[:top]
+    cumulative = np.cumsum(costs[shown]) / total
+    plot = WIDTH - LABEL - 120
+    scale = plot / costs[shown[0]]
+    parts, points = [], []
+    for k, i in enumerate(shown):
+        y = TOP + k * ROW
+        length = costs[i] * scale
+        parts.append(_label(tags[i], y))
+        parts.append(f'<rect x="{LABEL}" y="{y + 2}" width="{length:.1f}" height="{ROW - 4}" fill="{BAR}"/>')
+        parts.append(f'<text x="{LABEL + length + 4:.1f}" y="{y + ROW - 4}" font-size="10" '
+                     f'fill="{INK}">{escape(_money(costs[i]))}</text>')
+        points.append(f"{LABEL + cumulative[k] * plot:.1f},{y + ROW / 2:.1f}")
+        parts.append(f'<text x="{WIDTH - 4}" y="{y + ROW - 4}" font-size="10" text-anchor="end" '
+                     f'fill="{INK}">{cumulative[k] * 100:.0f} %</text>')
+    height = TOP + len(shown) * ROW + 8
+    axis = [f'<line x1="{LABEL + f * plot:.1f}" y1="{TOP - 4}" x2="{LABEL + f * plot:.1f}" '
+            f'y2="{height - 8}" stroke="{GRID}" stroke-width="1"/>'
+            f'<text x="{LABEL + f * plot:.1f}" y="{TOP - 8}" font-size="9" text-anchor="middle" '
+            f'fill="{INK}">{f * 100:.0f} %</text>' for f in (0.25, 0.5, 0.75, 1.0)]
+    axis.append(f'<text x="{LABEL - 6}" y="{TOP - 8}" font-size="9" text-anchor="end" '
+                f'fill="{OVER}">cumulative share</text>')
+    head = (f'<text x="0" y="12" font-size="11" font-weight="bold" fill="{INK}">Annual cost per '
+            f'item ({escape(currency)}), largest first; line and right column: cumulative share of '
+            f'the plant total</text>')
+    line = (f'<polyline points="{" ".join(points)}" fill="none" stroke="{OVER}" stroke-width="1.5"/>'
+            + "".join(f'<circle cx="{p.split(",")[0]}" cy="{p.split(",")[1]}" r="2" fill="{OVER}"/>'
+                      for p in points))
+    return _svg(height, head + "".join(axis) + "".join(parts) + line,
+                f"Pareto of annual cost: top {len(shown)} of {positive.size} items")
+
+
+def surface_against_limit(points, top: int = MAX_BARS) -> Markup | None:
+    """Surface temperature (bar) of each burn-risk finding against its limit (tick), worst
+    first.  ``points``: (tag, surface temperature [degC], limit [degC])."""
+    points = [p for p in points if np.isfinite(p[1]) and np.isfinite(p[2])][:top]
+    if not points:
+        return None
+    values = np.array([p[1] for p in points])
+    limits = np.array([p[2] for p in points])
+    low = min(0.0, float(limits.min()), float(values.min()))
+    high = float(max(values.max(), limits.max())) * 1.05
+    plot = WIDTH - LABEL - 60
+    scale = plot / (high - low)
+    parts = []
+    for k, (tag, value, limit) in enumerate(points):
+        y = TOP + k * ROW
+        x0, xv, xl = LABEL, LABEL + (value - low) * scale, LABEL + (limit - low) * scale
+        parts.append(_label(tag, y))
+        parts.append(f'<rect x="{x0}" y="{y + 3}" width="{max(xv - x0, 0):.1f}" height="{ROW - 6}" '
+                     f'fill="{OVER if value > limit else BAR}"/>')
+        parts.append(f'<line x1="{xl:.1f}" y1="{y}" x2="{xl:.1f}" y2="{y + ROW}" stroke="{INK}" '
+                     f'stroke-width="2"/>')
+        parts.append(f'<text x="{xv + 4:.1f}" y="{y + ROW - 4}" font-size="10" fill="{INK}">'
+                     f'{value:.0f} °C</text>')
+    height = TOP + len(points) * ROW + 8
+    ticks = _ticks(low, high)
+    axis = "".join(f'<line x1="{LABEL + (t - low) * scale:.1f}" y1="{TOP - 4}" '
+                   f'x2="{LABEL + (t - low) * scale:.1f}" y2="{height - 8}" stroke="{GRID}"/>'
+                   f'<text x="{LABEL + (t - low) * scale:.1f}" y="{TOP - 8}" font-size="9" '
+                   f'text-anchor="middle" fill="{INK}">{t:g} °C</text>' for t in ticks)
+    head = (f'<text x="0" y="12" font-size="11" font-weight="bold" fill="{INK}">Surface temperature '
+            f'(bar) against the burn limit (black tick), hottest over the limit first</text>')
+    return _svg(height, head + axis + "".join(parts),
+                f"Surface temperature against the touch limit, {len(points)} items")
+
+
+def findings_by_area(counts: pd.DataFrame, severities, top: int = MAX_BARS) -> Markup | None:
+    """Findings per area, one stacked bar per area split by severity (worst on the left).
+    ``counts``: areas as rows, severities as columns."""
+    if counts is None or not len(counts):
+        return None
+    counts = counts.head(top)
+    totals = counts.sum(axis=1).to_numpy(float)
+    plot = WIDTH - LABEL - 50
+    scale = plot / totals.max()
+    parts = []
+    for k, (area, row) in enumerate(counts.iterrows()):
+        y, x = TOP + k * ROW, float(LABEL)
+        parts.append(_label(area or "(none)", y))
+        for severity in severities:
+            n = int(row.get(severity, 0))
+            if n:
+                parts.append(f'<rect x="{x:.1f}" y="{y + 2}" width="{n * scale:.1f}" height="{ROW - 4}" '
+                             f'fill="{SEVERITY_COLOURS[severity]}"><title>{escape(severity)}: {n}</title></rect>')
+                x += n * scale
+        parts.append(f'<text x="{x + 4:.1f}" y="{y + ROW - 4}" font-size="10" fill="{INK}">'
+                     f'{int(totals[k])}</text>')
+    legend, lx = [], float(LABEL)
+    for severity in severities:
+        legend.append(f'<rect x="{lx:.1f}" y="{TOP - 16}" width="10" height="10" '
+                      f'fill="{SEVERITY_COLOURS[severity]}"/><text x="{lx + 13:.1f}" y="{TOP - 7}" '
+                      f'font-size="10" fill="{INK}">{escape(severity)}</text>')
+        lx += 75
+    height = TOP + len(counts) * ROW + 8
+    head = (f'<text x="0" y="12" font-size="11" font-weight="bold" fill="{INK}">Findings by area, '
+            f'split by severity</text>')
+    return _svg(height, head + "".join(legend) + "".join(parts),
+                f"Findings by area, {len(counts)} areas")
+
+
+def _svg(height: float, body: str, title: str) -> Markup:
+    return Markup(f'<svg xmlns="http://www.w3.org/2000/svg" role="img" width="{WIDTH}" '
+                  f'height="{height:.0f}" viewBox="0 0 {WIDTH} {height:.0f}" '
+                  f'font-family="DejaVu Sans, Arial, sans-serif"><title>{escape(title)}</title>'
+                  f'{body}</svg>')
+
+
+def _label(text, y: float) -> str:
+    text = str(text)
+    short = text if len(text) <= 24 else text[:23] + "…"
+    return (f'<text x="{LABEL - 6}" y="{y + ROW - 4}" font-size="10" text-anchor="end" '
+            f'fill="{INK}">{escape(short)}</text>')
+
+
+def _ticks(low: float, high: float) -> list[float]:
+    span = high - low
+    step = 10 ** np.floor(np.log10(span / 4))
+    for factor in (1, 2, 5, 10):
+        if span / (step * factor) <= 6:
+            step *= factor
+            break
+    start = np.ceil(low / step) * step
+    return [float(t) for t in np.arange(start, high + 1e-9, step)]
+
+
+def _money(x: float) -> str:
+    return f"{x:,.0f}"

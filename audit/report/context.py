@@ -1,0 +1,288 @@
+"""The report's data: what the templates show, chosen and counted from an :class:`Audit`.
+
+No physics here: only selecting, sorting, counting, summing columns already computed, and
+formatting numbers as text.  Every table longer than :data:`MAX_TABLE_ROWS` lists its worst
+rows (by severity, then by distance from the limit) and says where the rest are.
+"""
+
+from __future__ import annotations
+
+import hashlib
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+from audit.io.readers.table import ITEM_COLUMNS
+from audit.report import charts
+from audit.rules import SEVERITIES
+
+#: Rows shown per table in the HTML and PDF report; the full lists are in results.xlsx.
+MAX_TABLE_ROWS = 100
+
+#: Worst first, for sorting.
+SEVERITY_RANK = {name: rank for rank, name in enumerate(SEVERITIES)}
+
+ECONOMIC_COLUMNS = ("annual_energy [MWh]", "annual_fuel [MWh]", "annual_cost", "annual_co2 [t]",
+                    "saving_if_repaired [MWh]")
+
+
+def fmt(value, digits: int = 3) -> str:
+    """A number as short text: thousands separated, about ``digits`` significant figures;
+    an en dash for a missing value."""
+    try:
+        x = float(value)
+    except (TypeError, ValueError):
+        return "" if value is None else str(value)
+    if not np.isfinite(x):
+        return "–"
+    if x == 0:
+        return "0"
+    if x.is_integer() and abs(x) < 1e15:
+        return f"{x:,.0f}"
+    magnitude = int(np.floor(np.log10(abs(x))))
+    decimals = max(digits - 1 - magnitude, 0)
+    return f"{x:,.{decimals}f}"
+
+
+def sha256_file(path) -> str:
+    digest = hashlib.sha256()
+    with open(path, "rb") as handle:
+        for block in iter(lambda: handle.read(1 << 20), b""):
+            digest.update(block)
+    return digest.hexdigest()
+
+
+def rules_digest(files) -> str:
+    """SHA-256 of the rule files' bytes, concatenated in the order they were layered."""
+    digest = hashlib.sha256()
+    for path in files:
+        with open(path, "rb") as handle:
+            digest.update(handle.read())
+    return digest.hexdigest()
+
+
+def anchor(check: str) -> str:
+    """An HTML id for a check's table (letters, digits and hyphens only)."""
+    return "check-" + "".join(ch if ch.isalnum() else "-" for ch in str(check))
+
+
+def location_columns(table: pd.DataFrame) -> list[str]:
+    """``area_code`` and the register's own extra columns (unit, location, drawing, ...)."""
+    known = set(ITEM_COLUMNS)
+    extras = [c for c in table.columns if c not in known and not str(c).startswith("raw:")]
+    return ["area_code", *extras]
+
+
+def worst_first(findings: pd.DataFrame) -> pd.DataFrame:
+    """Findings sorted by severity (worst first), then by distance from the limit, then tag."""
+    if not len(findings):
+        return findings
+    rank = findings["severity"].map(SEVERITY_RANK).fillna(-1).to_numpy()
+    distance = np.abs(findings["value"].to_numpy(float) - findings["limit"].to_numpy(float))
+    distance = np.where(np.isfinite(distance), distance, -1.0)
+    order = np.lexsort((findings["tag"].astype(str).to_numpy(), -distance, -rank))
+    return findings.iloc[order]
+
+
+def build_context(audit, *, meta: dict, caution: str, economics=None,
+                  max_rows: int = MAX_TABLE_ROWS) -> dict:
+    """Everything the report template shows, as plain values and text."""
+    results, findings, table = audit.results, audit.findings, audit.table
+    area = table["area_code"].fillna("").astype(str).to_numpy(object)
+    audited = (results["status"] == "audited").to_numpy()
+    findings = findings.assign(area_code=area[findings["row"].to_numpy(int)] if len(findings) else "")
+    severities = list(reversed(SEVERITIES))  # worst first in every table
+
+    context = {
+        "title": "Insulation audit report",
+        "meta": _meta(audit, meta),
+        "caution": caution,
+        "severities": severities,
+        "max_rows": max_rows,
+        "counts": {"rows": len(results), "audited": int(audited.sum()),
+                   "rejected": int((~audited).sum()), "findings": len(findings),
+                   "items_with_findings": int(findings["row"].nunique()) if len(findings) else 0},
+        "heat_loss_kW": fmt(np.nansum(results["heat_loss [W]"].to_numpy(float)[audited]) / 1000.0, 4),
+        "by_check": _by_check(findings, severities),
+        "by_area": _by_area(area, audited, findings, economics)[:max_rows],
+        "areas": len(set(area)),
+        "checks": _check_tables(audit, findings, max_rows),
+        "rejected": _rejected(results, max_rows),
+        "assumptions": _assumptions(audit, meta, economics),
+        "economics": _economics(audit, area, economics, max_rows),
+    }
+    context["charts"] = {
+        "pareto": charts.cost_pareto(results["tag"].to_numpy(object),
+                                     economics.per_row["annual_cost"].to_numpy(float),
+                                     economics.currency) if economics is not None else None,
+        "surface": charts.surface_against_limit(_touch_points(findings)),
+        "areas": charts.findings_by_area(_area_severity_counts(findings), severities),
+    }
+    return context
+
+
+def _meta(audit, meta: dict) -> dict:
+    rule_files = [str(p) for p in audit.rules.files]
+    return {
+        "tool": meta.get("tool", ""),
+        "run_at": meta.get("run_at", ""),
+        "surface_model": meta.get("surface_model", "correlations"),
+        "registers": [{"file": r.get("file", ""), "sha256": r.get("sha256", "")}
+                      for r in meta.get("registers", [])],
+        "rules": [{"file": Path(p).name, "path": p, "sha256": sha256_file(p)} for p in rule_files],
+        "rules_digest": meta.get("rules_digest") or rules_digest(rule_files),
+    }
+
+
+def _by_check(findings: pd.DataFrame, severities: list[str]) -> list[dict]:
+    if not len(findings):
+        return []
+    counts = findings.groupby(["check", "severity"]).size().unstack(fill_value=0)
+    rows = []
+    for check, counted in counts.iterrows():
+        by_severity = {s: int(counted.get(s, 0)) for s in severities}
+        rows.append({"check": check, "anchor": anchor(check), "counts": by_severity, "total": sum(by_severity.values()),
+                     "n_items": int(findings.loc[findings["check"] == check, "row"].nunique())})
+    worst = [max((SEVERITY_RANK[s] for s, n in r["counts"].items() if n), default=-1) for r in rows]
+    order = sorted(range(len(rows)), key=lambda i: (-worst[i], -rows[i]["total"], rows[i]["check"]))
+    return [rows[i] for i in order]
+
+
+def _by_area(area: np.ndarray, audited: np.ndarray, findings: pd.DataFrame, economics) -> list[dict]:
+    frame = pd.DataFrame({"area": area, "audited": audited})
+    items = frame.groupby("area").agg(items=("audited", "size"), audited=("audited", "sum"))
+    if len(findings):
+        worst = findings.assign(rank=findings["severity"].map(SEVERITY_RANK))
+        per_area = worst.groupby("area_code").agg(findings=("row", "size"),
+                                                  with_findings=("row", "nunique"),
+                                                  worst=("rank", "max"))
+        items = items.join(per_area, how="left")
+    else:
+        items = items.assign(findings=0, with_findings=0, worst=np.nan)
+    if economics is not None:
+        money = economics.per_row[["annual_cost", "annual_energy [MWh]", "annual_co2 [t]"]].copy()
+        money["area"] = area
+        items = items.join(money.groupby("area").sum(min_count=1), how="left")
+    items = items.sort_values(["findings", "items"], ascending=False, na_position="last")
+    rows = []
+    for name, r in items.iterrows():
+        rank = r.get("worst")
+        row = {"area": name or "(none)", "n_items": int(r["items"]), "audited": int(r["audited"]),
+               "findings": int(np.nan_to_num(r.get("findings", 0))),
+               "with_findings": int(np.nan_to_num(r.get("with_findings", 0))),
+               "worst": SEVERITIES[int(rank)] if pd.notna(rank) else ""}
+        if economics is not None:
+            row.update(cost=fmt(r["annual_cost"]), energy=fmt(r["annual_energy [MWh]"]),
+                       co2=fmt(r["annual_co2 [t]"]))
+        rows.append(row)
+    return rows
+
+
+def _check_tables(audit, findings: pd.DataFrame, max_rows: int) -> list[dict]:
+    """One table per check that found something, worst rows first."""
+    tables = []
+    checks = audit.rules.checks
+    for name, group in findings.groupby("check", sort=False):
+        ordered = worst_first(group)
+        shown = ordered.head(max_rows)
+        check = checks.get(name)
+        tables.append({
+            "name": name,
+            "anchor": anchor(name),
+            "description": getattr(check, "description", "") or "",
+            "site": shown["site"].iloc[0] if len(shown) else "",
+            "source": "; ".join(sorted(set(group["limit_source"].astype(str)))),
+            "total": len(group),
+            "truncated": len(group) > max_rows,
+            "worst_rank": int(group["severity"].map(SEVERITY_RANK).max()),
+            "rows": [{"tag": r["tag"], "area": r["area_code"], "severity": r["severity"],
+                      "value": fmt(r["value"]), "limit": fmt(r["limit"]), "unit": r["unit"],
+                      "conditions": conditions_text(r), "message": r["message"], "remedy": r["remedy"]}
+                     for r in shown.to_dict(orient="records")],
+        })
+    tables.sort(key=lambda t: (-t["worst_rank"], -t["total"], t["name"]))
+    return tables
+
+
+def conditions_text(finding: dict) -> str:
+    """The scenario a finding was evaluated under, in words."""
+    return (f"{finding['site']}: air {fmt(finding['air_temp [degC]'])} °C, "
+            f"wind {fmt(finding['wind [m/s]'])} m/s, RH {fmt(finding['rh [%]'])} %")
+
+
+def _rejected(results: pd.DataFrame, max_rows: int) -> dict:
+    rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
+    return {"total": len(rejected), "truncated": len(rejected) > max_rows,
+            "rows": rejected.head(max_rows).to_dict(orient="records")}
+
+
+def _assumptions(audit, meta: dict, economics) -> list[str]:
+    rules = audit.rules
+    default = rules.default_site().name
+    lines = [f"Outer-surface model: {meta.get('surface_model', 'correlations')}.",
+             f"Items without a site condition of their own are audited under {default}."]
+    used = sorted({default, *(c.site for c in rules.checks.values() if c.enabled and c.site)})
+    for name in used:
+        site = rules.sites.get(name)
+        if site is not None:
+            lines.append(f"Site condition {name}: air {fmt(site.ambient - 273.15)} °C, wind "
+                         f"{fmt(site.wind)} m/s, RH {fmt(site.rh)} % ({site.source}).")
+    if economics is not None:
+        extra = economics.assumptions
+        if isinstance(extra, dict):
+            lines += [f"{k}: {v}" for k, v in extra.items()]
+        elif isinstance(extra, str):
+            lines.append(extra)
+        else:
+            lines += [_assumption(a) for a in extra or ()]
+    return lines
+
+
+def _assumption(item) -> str:
+    """One economic assumption as a line: ``{what, value, source}`` or plain text."""
+    if isinstance(item, dict) and "what" in item:
+        source = f" ({item['source']})" if item.get("source") else ""
+        return f"{item['what']}: {item.get('value', '')}{source}"
+    return str(item)
+
+
+def _economics(audit, area: np.ndarray, economics, max_rows: int) -> dict | None:
+    """Plant totals summed from the per-item columns (the same numbers as results.csv) and the
+    repairs with the best payback."""
+    if economics is None:
+        return None
+    per_row = economics.per_row
+    totals = {c: fmt(np.nansum(per_row[c].to_numpy(float)), 4) for c in ECONOMIC_COLUMNS}
+    ranking = getattr(economics, "top_repairs", None)
+    if isinstance(ranking, pd.DataFrame) and {"tag", "payback [yr]"} <= set(ranking.columns):
+        top = [{"tag": r["tag"], "area": r.get("area_code", "") or "(none)",
+                "repair": r.get("repair", ""), "repair_cost": fmt(r.get("repair_cost")),
+                "annual_saving": fmt(r.get("annual_saving")),
+                "saving": fmt(r.get("saving_if_repaired [MWh]")), "payback": fmt(r["payback [yr]"], 2)}
+               for r in ranking.head(max_rows).to_dict(orient="records")]
+    else:  # no ranking given: the 20 shortest paybacks among the items
+        payback = per_row["payback [yr]"].to_numpy(float)
+        ranked = np.flatnonzero(np.isfinite(payback))
+        ranked = ranked[np.argsort(payback[ranked], kind="stable")][:min(20, max_rows)]
+        tags = audit.results["tag"].to_numpy(object)
+        top = [{"tag": tags[i], "area": area[i] or "(none)", "repair": "", "repair_cost": "–",
+                "annual_saving": "–", "saving": fmt(per_row["saving_if_repaired [MWh]"].iloc[i]),
+                "payback": fmt(payback[i], 2)} for i in ranked]
+    return {"currency": economics.currency, "totals": totals, "top_repairs": top}
+
+
+def _touch_points(findings: pd.DataFrame) -> list[tuple]:
+    """(tag, surface temperature, limit) of the touch-temperature findings, hottest over the
+    limit first."""
+    touch = findings.loc[(findings["kind"] == "touch-temperature") & (findings["unit"] == "degC")]
+    touch = worst_first(touch)
+    return list(zip(touch["tag"].astype(str), touch["value"].astype(float), touch["limit"].astype(float)))
+
+
+def _area_severity_counts(findings: pd.DataFrame) -> pd.DataFrame:
+    """Findings per area (rows) and severity (columns), most findings first."""
+    if not len(findings):
+        return pd.DataFrame()
+    counts = findings.groupby(["area_code", "severity"]).size().unstack(fill_value=0)
+    return counts.loc[counts.sum(axis=1).sort_values(ascending=False, kind="stable").index]

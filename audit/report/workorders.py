@@ -1,0 +1,285 @@
+"""Work-order packs: ``workorders/<area>.pdf`` (a bill of quantities, then one page per item to
+repair) and ``workorders.csv`` (one row per item, for a maintenance system).
+
+An item to repair is an audited item with at least one finding at or above ``min_severity``
+(default ``low``: ``info`` findings, such as a CUI score at the bottom band, do not make a work
+order on their own).  Quantities are counted from the register and the remedies, never
+computed by physics: metres of pipe run (the item's length, or its damaged share) by size,
+material and thickness; square metres of vessels and flat surfaces from ``outer_area [m2]``;
+fittings by count.
+"""
+
+from __future__ import annotations
+
+import os
+import re
+import unicodedata
+from collections import defaultdict
+from concurrent.futures import ProcessPoolExecutor
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+from audit.io.writers import write_csv
+from audit.report.context import SEVERITY_RANK, conditions_text, fmt, location_columns, worst_first
+from audit.report.html import render
+from audit.report.pdf import EmbeddedOnlyFetcher, write_pdf
+from audit.rules import SEVERITIES
+
+#: Windows device names, refused as file names on every system so a pack copies anywhere.
+RESERVED_NAMES = {"CON", "PRN", "AUX", "NUL", *(f"COM{i}" for i in range(1, 10)),
+                  *(f"LPT{i}" for i in range(1, 10))}
+_UNSAFE = re.compile(r"[^A-Za-z0-9._-]+")
+_UNSAFE_LABEL = re.compile(r"[^A-Za-z0-9 ._-]")  # the area in a CSS string of the page header
+
+#: Work orders above which the area packs are rendered in parallel processes.
+PARALLEL_FROM = 400
+#: Most item pages rendered into the PDF packs; every work order is in workorders.csv.
+MAX_WORKORDER_PAGES = 1000
+
+PLANNER_FIELDS = ("work order no.", "planned date", "crew / contractor", "permit no.",
+                  "scaffold / access", "asbestos survey ref.", "isolation required",
+                  "completed by / date", "surface temperature measured after repair [°C]")
+
+
+def safe_filename(name: str, taken: set[str], suffix: str = "") -> str:
+    """A file name made from register text that stays inside its folder on any system:
+    letters, digits, ``.``, ``_`` and ``-`` only; no leading dot; not a reserved device name;
+    at most 80 characters; unique (case-insensitively) among ``taken``, which it joins."""
+    text = unicodedata.normalize("NFKD", str(name)).encode("ascii", "ignore").decode("ascii")
+    text = _UNSAFE.sub("_", text).strip("._-")[:80] or "no-area"
+    if text.split(".")[0].upper() in RESERVED_NAMES:
+        text = "_" + text
+    candidate, n = text, 1
+    while (candidate + suffix).lower() in taken:
+        n += 1
+        candidate = f"{text}-{n}"
+    taken.add((candidate + suffix).lower())
+    return candidate + suffix
+
+
+def repair_items(audit, min_severity: str = "low") -> pd.DataFrame:
+    """Findings of the items to repair (rows at or above ``min_severity``), worst first."""
+    findings = audit.findings
+    if not len(findings):
+        return findings
+    ranks = findings["severity"].map(SEVERITY_RANK).to_numpy()
+    worst_per_row = pd.Series(ranks).groupby(findings["row"].to_numpy()).max()
+    rows = worst_per_row.index[worst_per_row.to_numpy() >= SEVERITY_RANK[min_severity]]
+    return worst_first(findings.loc[findings["row"].isin(rows)])
+
+
+def build_orders(audit, min_severity: str = "low") -> list[dict]:
+    """One record per item to repair, grouped by area, worst priority first in each area."""
+    findings = repair_items(audit, min_severity)
+    if not len(findings):
+        return []
+    table, results = audit.table, audit.results
+    places = location_columns(table)
+    outer_area = results["outer_area [m2]"].to_numpy(float)
+    by_row = defaultdict(list)  # findings grouped by row, worst first (one pass, no groupby)
+    for finding in findings.to_dict(orient="records"):
+        by_row[finding["row"]].append(finding)
+    rows = np.fromiter(by_row, dtype=int, count=len(by_row))
+    columns = [c for c in table.columns if not str(c).startswith("raw:")] + ["raw:temp"] * ("raw:temp" in table)
+    items = table.iloc[rows][columns].to_dict(orient="records")
+    orders = []
+    for row, item in zip(rows, items):
+        records = by_row[row]
+        rank = max(SEVERITY_RANK[f["severity"]] for f in records)
+        orders.append({
+            "row": int(row), "tag": item["tag"], "source": item["source"],
+            "area": str(item["area_code"] or ""), "priority": SEVERITIES[rank], "rank": rank,
+            "location": [(c, _text(item[c])) for c in places if _text(item[c])],
+            "description": _description(item),
+            "findings": [{"check": f["check"], "severity": f["severity"],
+                          "found": f"{fmt(f['value'])} {f['unit']} against a limit of "
+                                   f"{fmt(f['limit'])} {f['unit']}",
+                          "conditions": conditions_text(f), "message": f["message"]} for f in records],
+            "remedies": list(dict.fromkeys(f["remedy"] for f in records if f["remedy"])),
+            "quantities": _quantities(item, records, outer_area[row]),
+        })
+    orders.sort(key=lambda o: (o["area"], -o["rank"], str(o["tag"])))
+    return orders
+
+
+def write_workorders(audit, out_dir: Path, *, caution: str, meta: dict,
+                     min_severity: str = "low", pdf: bool = True, jobs: int | None = None,
+                     max_pages: int | None = None) -> list[Path]:
+    """``workorders.csv`` and, with ``pdf``, ``workorders/<area>.pdf``; the paths written.
+
+    ``workorders.csv`` lists every work order.  The PDF packs hold at most ``max_pages``
+    (default :data:`MAX_WORKORDER_PAGES`) item pages, the most severe first: a page takes
+    about 0.15 s to render, so a register with tens of thousands of repairs gets its worst
+    items on paper and the rest in the CSV (the packs' first page says so).  The area packs
+    are rendered by ``jobs`` processes (default: one per CPU) when there are more than
+    :data:`PARALLEL_FROM` pages; the HTML is built here, so the output is the same.
+    """
+    out_dir = Path(out_dir)
+    orders = build_orders(audit, min_severity)
+    limit = MAX_WORKORDER_PAGES if max_pages is None else max_pages
+    on_paper = sorted(orders, key=lambda o: -o["rank"])[:limit] if len(orders) > limit else orders
+    kept = {id(o) for o in on_paper}
+    by_area = defaultdict(list)
+    for order in orders:
+        if id(order) in kept:
+            by_area[order["area"]].append(order)
+    folder = out_dir / "workorders"
+    taken: set[str] = set()
+    files = {area: safe_filename(area or "no-area", taken, ".pdf") for area in sorted(by_area)}
+    written = []
+    if pdf and orders:
+        folder.mkdir(parents=True, exist_ok=True)
+        tasks = []
+        for area, area_orders in sorted(by_area.items()):
+            path = folder / files[area]
+            if path.resolve().parent != folder.resolve():  # belt and braces after sanitising
+                raise ValueError(f"work-order file {files[area]!r} would leave {folder}")
+            tasks.append((render("workorders.html", {
+                "area": area or "(no area)", "area_label": _UNSAFE_LABEL.sub("_", area or "none"),
+                "orders": area_orders, "caution": caution, "meta": meta, "bill": _bill(area_orders),
+                "planner_fields": PLANNER_FIELDS, "min_severity": min_severity,
+                "left_out": len(orders) - len(on_paper)}), path))
+        jobs = (os.cpu_count() or 1) if jobs is None else jobs
+        if jobs > 1 and len(tasks) > 1 and len(orders) > PARALLEL_FROM:
+            with ProcessPoolExecutor(max_workers=min(jobs, len(tasks))) as pool:
+                written += list(pool.map(_write_area, tasks))
+        else:
+            written += [_write_area(task) for task in tasks]
+    written.append(write_csv(_csv(orders, files, location_columns(audit.table)), out_dir / "workorders.csv"))
+    return written
+
+
+def _write_area(task) -> Path:
+    html, path = task
+    return write_pdf(html, path, fetcher=EmbeddedOnlyFetcher())
+
+
+def _text(value) -> str:
+    if value is None or (isinstance(value, float) and not np.isfinite(value)):
+        return ""
+    return str(value).strip()
+
+
+def _size(item) -> str:
+    nps, od = _text(item["nps"]), float(item["od_m"])
+    if nps:
+        return f"NPS {nps}"
+    return f"OD {od * 1000:.0f} mm" if np.isfinite(od) else "size not given"
+
+
+def _layers(item) -> str:
+    materials, thicknesses = item["layer_materials"], item["layer_thicknesses_m"]
+    if not isinstance(materials, tuple) or not materials:
+        return "none (bare)"
+    return " + ".join(f"{m} {t * 1000:.0f} mm" for m, t in zip(materials, thicknesses))
+
+
+def _description(item) -> list[tuple[str, str]]:
+    shape = _text(item["shape"])
+    rows = [("shape", shape), ("size", _size(item) if shape != "flat" else "flat")]
+    if shape == "flat":
+        rows.append(("area", f"{fmt(item['area_m2'])} m²"))
+    else:
+        rows.append(("length", f"{fmt(item['length_m'])} m"))
+    temp = float(item["temp_K"])
+    raw = _text(item.get("raw:temp", ""))
+    shown = f"{fmt(temp - 273.15)} °C" if np.isfinite(temp) else (raw or "–")
+    rows += [("operating temperature", shown + (f" (register: {raw})" if raw and np.isfinite(temp) else "")),
+             ("installed insulation", _layers(item)), ("jacket", _text(item["jacket"]) or "–"),
+             ("condition", _text(item["condition"]) + (f", {fmt(item['damaged_pct'])} % bare"
+                                                      if item["condition"] == "damaged" else "")),
+             ("accessible", "yes" if bool(item["accessible"]) else "no"),
+             ("register row", _text(item["source"]))]
+    return rows
+
+
+def _quantities(item, findings: list[dict], outer_area: float) -> list[dict]:
+    """What to buy and fit: rows of (work, size, material, thickness [mm], quantity, unit)."""
+    shape, pipe = _text(item["shape"]), item["shape"] == "pipe"
+    size = _size(item) if shape != "flat" else "flat"
+    length = float(item["length_m"])
+    whole = (length, "m") if pipe else (outer_area, "m²")
+    thickness = [f["remedy_thickness [mm]"] for f in findings
+                 if np.isfinite(float(f["remedy_thickness [mm]"]))]
+    out = []
+    fittings_covered = False
+    if thickness:
+        material = next(f["remedy_material"] for f in findings if f["remedy_material"])
+        out.append({"work": "insulate (replace what is there)", "size": size, "material": material,
+                    "thickness": fmt(max(thickness)), "thickness_mm": max(thickness), "quantity": whole[0], "unit": whole[1]})
+        fittings_covered = True
+    else:
+        checks = {f["check"] for f in findings}
+        kinds = {f["kind"] for f in findings}
+        layers, t = _layers(item), ""
+        if "condition" in kinds and item["condition"] == "damaged":
+            share = float(item["damaged_pct"]) / 100.0
+            out.append({"work": "reinstate damaged insulation", "size": size, "material": layers,
+                        "thickness": t, "quantity": whole[0] * share, "unit": whole[1]})
+        elif "condition" in kinds and item["condition"] == "wet":
+            out.append({"work": "replace wet insulation", "size": size, "material": layers,
+                        "thickness": t, "quantity": whole[0], "unit": whole[1]})
+        elif "condition" in kinds and item["condition"] == "missing":
+            out.append({"work": "insulate to the plant specification", "size": size,
+                        "material": "per specification", "thickness": t, "quantity": whole[0],
+                        "unit": whole[1]})
+        fittings_covered = "uninsulated-fittings" in checks
+    valves, flanges = int(item["valves"] or 0), int(item["flanges"] or 0)
+    if pipe and fittings_covered:
+        for count, what in ((valves, "valve"), (flanges, "flange")):
+            if count:
+                out.append({"work": f"removable insulation cover, {what}", "size": size,
+                            "material": "", "thickness": "", "quantity": count, "unit": "pcs"})
+    od = float(item["od_m"])
+    for row in out:
+        row["text"] = fmt(row["quantity"]) if row["unit"] != "pcs" else str(row["quantity"])
+        row["od_m"] = od if np.isfinite(od) else np.inf  # sorts sizes by diameter, not as text
+    return out
+
+
+def _bill(orders: list[dict]) -> list[dict]:
+    """The area's quantities summed by work, size, material, thickness and unit; sizes in
+    order of diameter, thicknesses in order of thickness."""
+    totals = defaultdict(float)
+    for order in orders:
+        for q in order["quantities"]:
+            if np.isfinite(q["quantity"]):
+                key = (q["work"], q["od_m"], q["size"], q["material"], q.get("thickness_mm", 0.0),
+                       q["thickness"], q["unit"])
+                totals[key] += q["quantity"]
+    return [{"work": k[0], "size": k[2], "material": k[3], "thickness": k[5], "unit": k[6],
+             "text": fmt(v) if k[6] != "pcs" else str(int(v))} for k, v in sorted(totals.items())]
+
+
+def _csv(orders: list[dict], files: dict, places: list[str]) -> pd.DataFrame:
+    rows = []
+    for o in orders:
+        q = defaultdict(float)
+        for item in o["quantities"]:
+            if item["unit"] == "pcs":
+                q["valve" if "valve" in item["work"] else "flange"] += item["quantity"]
+            elif item["work"].startswith("insulate (replace"):
+                q["insulate_" + item["unit"]] += item["quantity"]
+            else:
+                q["reinstate_" + item["unit"]] += item["quantity"]
+        thickness = next((x["thickness_mm"] for x in o["quantities"] if "thickness_mm" in x), np.nan)
+        material = next((x["material"] for x in o["quantities"] if x["work"].startswith("insulate (")), "")
+        location = dict(o["location"])
+        rows.append({
+            "tag": o["tag"], "area_code": o["area"], "priority": o["priority"],
+            "checks": ";".join(dict.fromkeys(f["check"] for f in o["findings"])),
+            "remedy": "; ".join(o["remedies"]), "remedy_material": material,
+            "remedy_thickness [mm]": thickness,
+            "insulate [m]": q.get("insulate_m", np.nan), "insulate [m2]": q.get("insulate_m²", np.nan),
+            "reinstate [m]": q.get("reinstate_m", np.nan), "reinstate [m2]": q.get("reinstate_m²", np.nan),
+            "valve_covers": int(q.get("valve", 0)), "flange_covers": int(q.get("flange", 0)),
+            "source": o["source"], "work_order_file": "workorders/" + files[o["area"]],
+            **{c: location.get(c, "") for c in places if c != "area_code"},
+        })
+    columns = ["tag", "area_code", "priority", "checks", "remedy", "remedy_material",
+               "remedy_thickness [mm]", "insulate [m]", "insulate [m2]", "reinstate [m]",
+               "reinstate [m2]", "valve_covers", "flange_covers", "source", "work_order_file",
+               *[c for c in places if c != "area_code"]]
+    return pd.DataFrame(rows, columns=columns)

@@ -1,0 +1,92 @@
+"""audit/report/workorders.py: safe file names, one page per item, quantities counted from the
+register, cautions on every page, an inert CSV."""
+
+import csv
+import re
+from pathlib import Path
+
+import pypdf
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from audit.cli import CAUTION
+from audit.report.workorders import RESERVED_NAMES, build_orders, safe_filename, write_workorders
+
+SAFE = re.compile(r"^[A-Za-z0-9._-]+$")
+
+
+def assert_stays_inside(folder: Path, name: str):
+    assert SAFE.match(name), name
+    assert not name.startswith(".")
+    assert name.split(".")[0].upper() not in RESERVED_NAMES
+    assert (folder / name).resolve().parent == folder.resolve()
+
+
+def test_hostile_area_names_stay_in_the_folder(tmp_path):
+    taken = set()
+    cases = ["../../etc/passwd", "/abs/path", "C:\\Windows\\system32", "CON", "nul.txt", "com1",
+             "a\x00b\nc\x1b", "", "..", ".hidden", "ÄREA 1", "U/1", "U:1", "x" * 300]
+    names = [safe_filename(c, taken, ".pdf") for c in cases]
+    for name in names:
+        assert_stays_inside(tmp_path, name)
+        assert name.endswith(".pdf") and len(name) <= 80 + 4 + 4
+    assert len({n.lower() for n in names}) == len(names)  # "U/1" and "U:1" do not collide
+    assert names[3] == "_CON.pdf" and names[4] == "_nul.txt.pdf"
+
+
+@settings(max_examples=300, deadline=None)
+@given(st.text())
+def test_any_text_gives_a_name_inside_the_folder(text):
+    folder = Path("/tmp/lagaudit-workorders")
+    assert_stays_inside(folder, safe_filename(text, set(), ".pdf"))
+
+
+def test_packs_of_a_hostile_register(hostile_audit, meta, tmp_path):
+    written = write_workorders(hostile_audit, tmp_path, caution=CAUTION, meta=meta)
+    folder = tmp_path / "workorders"
+    pdfs = sorted(p for p in written if p.suffix == ".pdf")
+    # Every file written is inside the output folder, and nothing else appeared anywhere.
+    assert all(p.resolve().parent == folder.resolve() for p in pdfs)
+    assert sorted(p.name for p in folder.iterdir()) == [p.name for p in pdfs]
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["workorders", "workorders.csv"]
+    expected = {"../../evil": "evil.pdf", "CON": "_CON.pdf", "U1": "U1.pdf"}
+    assert sorted(p.name for p in pdfs) == sorted(expected.values())
+
+    orders = build_orders(hostile_audit)
+    for pdf in pdfs:
+        pages = pypdf.PdfReader(pdf).pages
+        mine = [o for o in orders if expected[o["area"]] == pdf.name]
+        assert len(pages) == 1 + len(mine)  # the area's bill of quantities, then one page each
+        for page, order in zip(pages[1:], mine):
+            text = "".join(page.extract_text().split())
+            assert "".join(CAUTION.split()) in text
+            assert "".join(str(order["tag"]).split()) in text
+            assert "Forthe planner".replace(" ", "") in text
+
+
+def test_quantities_are_counted_from_the_register(hostile_audit):
+    orders = {o["tag"]: o for o in build_orders(hostile_audit)}
+    bare = orders["<script>alert(1)</script>"]  # NPS 4, 10 m, bare, 2 flanges in the register
+    insulate = [q for q in bare["quantities"] if q["work"].startswith("insulate (")]
+    assert len(insulate) == 1 and insulate[0]["quantity"] == 10.0 and insulate[0]["unit"] == "m"
+    assert insulate[0]["size"] == "NPS 4" and insulate[0]["thickness"] != ""
+    covers = {q["work"]: q["quantity"] for q in bare["quantities"] if q["unit"] == "pcs"}
+    assert covers == {"removable insulation cover, flange": 2}
+    assert bare["priority"] == "high"
+    assert ("drawing", "file:///etc/passwd") in bare["location"]  # carried through as text
+    # An item with only info-level findings makes no work order.
+    assert "L-OK" not in orders
+
+
+def test_csv_is_one_row_per_item_and_inert(hostile_audit, meta, tmp_path):
+    write_workorders(hostile_audit, tmp_path, caution=CAUTION, meta=meta, pdf=False)
+    with open(tmp_path / "workorders.csv", encoding="utf-8", newline="") as handle:
+        rows = list(csv.DictReader(handle))
+    assert not (tmp_path / "workorders").exists()
+    by_tag = {r["tag"]: r for r in rows}
+    assert len(rows) == len(by_tag) == len(build_orders(hostile_audit))
+    formula = "'=HYPERLINK(\"http://example.invalid\")"  # neutralised with an apostrophe
+    assert formula in by_tag
+    assert float(by_tag["<script>alert(1)</script>"]["insulate [m]"]) == 10.0
+    assert by_tag["<script>alert(1)</script>"]["flange_covers"] == "2"
+    assert by_tag["<script>alert(1)</script>"]["work_order_file"] == "workorders/evil.pdf"
