@@ -122,8 +122,11 @@ def _audit_options(parser):
                              "the economic rules (shipped: per MWh)")
     parser.add_argument("--hours", type=_positive, metavar="H",
                         help="this run's operating hours per year for rows that give none")
-    parser.add_argument("-q", "--quiet", action="store_true",
-                        help="print nothing but errors (the exit code still tells)")
+    talk = parser.add_mutually_exclusive_group()
+    talk.add_argument("-q", "--quiet", action="store_true",
+                      help="print nothing but errors (the exit code still tells)")
+    talk.add_argument("-v", "--verbose", action="store_true",
+                      help="also print the rule files read, findings by check and the warnings")
 
 
 def _positive(text: str) -> float:
@@ -177,12 +180,31 @@ def _audit_and_write(registers, args) -> int:
         say(f"wrote {path}")
     if audited < len(results):
         say("See the 'reason' column for each rejected row, or run 'lagaudit validate'.")
+    if args.verbose:
+        _details(audit)
     say(CAUTION)
     if args.fail_on and len(findings):
         threshold = SEVERITIES.index(args.fail_on)
         if any(SEVERITIES.index(s) >= threshold for s in findings["severity"]):
             return 1
     return 0
+
+
+def _details(audit) -> None:
+    """What --verbose adds: the rules read, the findings by check, the warnings."""
+    print("Rule files read:")
+    for path in audit.rules.files:
+        print(f"  {path}")
+    if len(audit.findings):
+        print("Findings by check:")
+        counts = audit.findings.groupby(["check", "severity"]).size()
+        for (check, severity), count in counts.items():
+            print(f"  {check:<26} {severity:<9} {count}")
+    warnings = audit.results["warnings"].astype(str)
+    warned = warnings[warnings != ""]
+    print(f"Rows with warnings: {len(warned)}")
+    for text, count in warned.str.split("; ").explode().value_counts().head(15).items():
+        print(f"  {count:>6}  {text}")
 
 
 def _write(audit, registers, args, formats, bar) -> list[Path]:

@@ -102,13 +102,13 @@ def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
     notes = []
     if "jacket" in rules.defaults:
         notes.append((insulated & (table["jacket"].fillna("") == "") & no_eps,
-                      f'jacket: empty; "{rules.defaults["jacket"]}" assumed (rules default)'))
+                      f'jacket: empty, "{rules.defaults["jacket"]}" assumed (rules default)'))
     if "metal" in rules.defaults:
         notes.append((bare_part & (table["material"].fillna("") == "") & no_eps,
-                      f'material: empty; "{rules.defaults["metal"]}" assumed for bare metal (rules default)'))
+                      f'material: empty, "{rules.defaults["metal"]}" assumed for bare metal (rules default)'))
     if "site" in rules.defaults:
         notes.append((table["location"].fillna("") == "",
-                      f'location: empty; site "{rules.defaults["site"]}" assumed (rules default)'))
+                      f'location: empty, site "{rules.defaults["site"]}" assumed (rules default)'))
     counts = {c: pd.to_numeric(table[c], errors="coerce").fillna(0) for c in ("valves", "flanges")}
     for column, fitting in (("valves", "valve"), ("flanges", "flange")):
         has = counts[column] > 0

@@ -131,3 +131,10 @@ def test_help_of_every_command_shows_an_example_and_the_caution(capsys):
     with pytest.raises(SystemExit):
         main(["--help"])
     assert "asbestos" in capsys.readouterr().out
+
+
+def test_verbose_lists_rule_files_and_findings_by_check(register, tmp_path, capsys):
+    assert main(["run", str(register), "--out", str(tmp_path / "v"), "--format", "csv", "-v"]) == 0
+    out = capsys.readouterr().out
+    assert "Rule files read:" in out and "materials.toml" in out
+    assert "Findings by check:" in out and "Rows with warnings:" in out
