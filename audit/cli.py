@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import argparse
-import hashlib
 import io
 import sys
 from datetime import datetime, timezone
@@ -14,6 +13,7 @@ import pandas as pd
 from audit import __version__
 from audit.calc import add_calc_arguments, run_calc
 from audit.cautions import CAUTION
+from audit.digests import sha256_file
 from audit.errors import LagauditError
 from audit.io.readers import read_register
 from audit.io.readers.validate import summarise
@@ -213,7 +213,7 @@ def _write(audit, registers, args, formats, bar) -> list[Path]:
     out.mkdir(parents=True, exist_ok=True)
     meta = {"tool": f"lagaudit {__version__}",
             "run_at": datetime.now(timezone.utc).isoformat(timespec="seconds"),
-            "registers": [{"file": str(p), "sha256": _sha256(p)} for p in registers],
+            "registers": [{"file": str(p), "sha256": sha256_file(p)} for p in registers],
             "rules": list(audit.rules.files), "surface_model": args.surface_model,
             "currency": audit.economics.currency, "energy_site": audit.economics.site,
             "assumptions": audit.economics.assumptions, "caution": CAUTION}
@@ -256,14 +256,6 @@ def _validate(args) -> int:
     table = resolve_names(table, rules)
     print(summarise(table))
     return 0
-
-
-def _sha256(path) -> str:
-    digest = hashlib.sha256()
-    with open(path, "rb") as handle:
-        for block in iter(lambda: handle.read(1 << 20), b""):
-            digest.update(block)
-    return digest.hexdigest()
 
 
 if __name__ == "__main__":

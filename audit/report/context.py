@@ -7,12 +7,12 @@ rows (by severity, then by distance from the limit) and says where the rest are.
 
 from __future__ import annotations
 
-import hashlib
 from pathlib import Path
 
 import numpy as np
 import pandas as pd
 
+from audit.digests import rules_digest, sha256_file
 from audit.io.readers.table import ITEM_COLUMNS
 from audit.report import charts
 from audit.rules import SEVERITIES
@@ -43,23 +43,6 @@ def fmt(value, digits: int = 3) -> str:
     magnitude = int(np.floor(np.log10(abs(x))))
     decimals = max(digits - 1 - magnitude, 0)
     return f"{x:,.{decimals}f}"
-
-
-def sha256_file(path) -> str:
-    digest = hashlib.sha256()
-    with open(path, "rb") as handle:
-        for block in iter(lambda: handle.read(1 << 20), b""):
-            digest.update(block)
-    return digest.hexdigest()
-
-
-def rules_digest(files) -> str:
-    """SHA-256 of the rule files' bytes, concatenated in the order they were layered."""
-    digest = hashlib.sha256()
-    for path in files:
-        with open(path, "rb") as handle:
-            digest.update(handle.read())
-    return digest.hexdigest()
 
 
 def anchor(check: str) -> str:

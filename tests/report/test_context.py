@@ -6,7 +6,8 @@ import numpy as np
 import pandas as pd
 
 from audit.cli import CAUTION
-from audit.report.context import build_context, fmt, rules_digest, worst_first
+from audit.digests import rules_digest
+from audit.report.context import build_context, fmt, worst_first
 
 
 def test_fmt_significant_figures_and_missing():
