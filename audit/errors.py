@@ -8,7 +8,7 @@ expected, and so that many row problems can be collected before one is raised.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 
 @dataclass(frozen=True)

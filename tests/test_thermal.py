@@ -2,24 +2,16 @@
 
 import numpy as np
 import pytest
+from support import item_table
 
 from audit.engine import solve_item
-from audit.io.readers import read_register
-from audit.rules import load_rules
-from audit.thermal import resolve_names, thermal_states
+from audit.thermal import thermal_states
 
 C = 273.15
 
 
-@pytest.fixture(scope="module")
-def rules():
-    return load_rules()
-
-
 def table_from(tmp_path, text, rules):
-    path = tmp_path / "reg.csv"
-    path.write_text(text, encoding="utf-8")
-    return resolve_names(read_register(path, aliases=rules.aliases), rules)
+    return item_table(tmp_path, text, rules)
 
 
 def test_unknown_names_reject_the_row_with_a_reason(tmp_path, rules):

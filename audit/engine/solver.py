@@ -94,7 +94,6 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
     n, n_layers = conductance.shape
     # A layer of zero thickness carries heat with no temperature drop: as good as absent.
     present = present & np.isfinite(conductance)
-    every = np.arange(n)
 
     def walls_of(rows):
         return _Walls(t_process[rows], conductance[rows], table[rows], present[rows],

@@ -275,7 +275,6 @@ def _convert(column, text, parser):
 
 def _nps_value(text):
     """An NPS in inches, compared as the outside diameter of that size [m]."""
-    from audit.pipe_sizes import NOMINAL_PIPE_SIZES
     value = float(text)
     for _, nps, _, od_mm in NOMINAL_PIPE_SIZES:
         if nps == value:

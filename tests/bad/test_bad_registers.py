@@ -42,7 +42,6 @@ workbook.py; audit/thermal.py for names): these tests pin the behaviour, not a p
 | one bad file among good ones          | duplicate_tags.csv + empty  | exit 2, nothing written    |
 """
 
-import csv
 import os
 import subprocess
 import sys

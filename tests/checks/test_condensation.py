@@ -4,30 +4,23 @@ items only, bare parts, and the limit against psychrolib."""
 import numpy as np
 import psychrolib
 import pytest
+from support import item_table
 from scipy.optimize import brentq
 
 from audit.checks import run_checks, validate_checks
 from audit.checks.base import CheckContext
 from audit.checks.condensation import evaluate
 from audit.errors import RuleError
-from audit.io.readers import read_register
 from audit.rules import load_rules
-from audit.thermal import resolve_names, thermal_states
+from audit.thermal import thermal_states
 
 C = 273.15
 HEADER = "tag,nps,length,temp,layers,jacket,rh,condition,damaged,valves,flanges\n"
 psychrolib.SetUnitSystem(psychrolib.SI)
 
 
-@pytest.fixture(scope="module")
-def rules():
-    return load_rules()
-
-
 def table_for(tmp_path, rows, rules):
-    path = tmp_path / "reg.csv"
-    path.write_text(HEADER + rows, encoding="utf-8")
-    table = resolve_names(read_register(path, aliases=rules.aliases), rules)
+    table = item_table(tmp_path, HEADER + rows, rules)
     assert (table["status"] == "ok").all(), table["reason"].tolist()
     return table
 

@@ -8,27 +8,18 @@ that rejected rows never produce findings.
 from dataclasses import replace
 
 import pytest
+from support import item_table
 
 from audit.checks import run_checks
 from audit.checks.base import CheckContext, validated_params
 from audit.checks.condition import COVERS, DRY_OUT, KIND, REINSTATE
 from audit.errors import RuleError
-from audit.io.readers import read_register
-from audit.rules import load_rules
-from audit.thermal import resolve_names
 
 HEAD = "tag,nps,length,temp,insulation,thickness,location,condition,damaged,valves,flanges\n"
 
 
-@pytest.fixture(scope="module")
-def rules():
-    return load_rules()
-
-
 def table_from(tmp_path, text, rules):
-    path = tmp_path / "reg.csv"
-    path.write_text(HEAD + text, encoding="utf-8")
-    return resolve_names(read_register(path, aliases=rules.aliases), rules)
+    return item_table(tmp_path, HEAD + text, rules)
 
 
 def run(table, rules, name="condition", **params):

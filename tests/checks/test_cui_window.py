@@ -9,6 +9,7 @@ from dataclasses import replace
 
 import numpy as np
 import pytest
+from support import item_table
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
@@ -16,24 +17,14 @@ from audit.checks import run_checks
 from audit.checks.base import CheckContext, validated_params
 from audit.checks.cui_window import KIND, REMEDY, window_weight
 from audit.errors import RuleError
-from audit.io.readers import read_register
-from audit.rules import load_rules
-from audit.thermal import resolve_names
 from audit.units import parse_temperature
 
 C = 273.15
 HEAD = "tag,nps,length,temp,insulation,thickness,jacket,location,condition,damaged,material"
 
 
-@pytest.fixture(scope="module")
-def rules():
-    return load_rules()
-
-
 def table_from(tmp_path, text, rules):
-    path = tmp_path / "reg.csv"
-    path.write_text(text, encoding="utf-8")
-    return resolve_names(read_register(path, aliases=rules.aliases), rules)
+    return item_table(tmp_path, text, rules)
 
 
 def run(table, rules, **changes):

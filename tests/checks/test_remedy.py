@@ -6,7 +6,6 @@ import pytest
 from audit.checks import check_kinds, validate_checks
 from audit.checks.base import CheckContext
 from audit.pipeline import audit_register
-from audit.rules import load_rules
 
 REGISTER = """tag,nps,length,temp,layers,jacket,location,accessible,condition,damaged,service,valves,flanges
 HOT-1,4,10,250,mineral-wool 25mm,aluminium-oxidised,outdoor-annual-mean,yes,intact,,heat-conservation,0,0

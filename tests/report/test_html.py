@@ -78,7 +78,7 @@ def test_long_tables_show_the_worst_and_point_to_the_workbook(demo_audit):
     html = report_html(demo_audit, max_rows=3)
     text = " ".join("".join(parse(html).text).split())
     biggest = findings["check"].value_counts()
-    check, count = biggest.index[0], int(biggest.iloc[0])
+    count = int(biggest.iloc[0])
     assert count > 3
     assert f"Only the worst 3 of {count} findings are listed here" in text
     assert "results.xlsx" in text

@@ -13,7 +13,6 @@ from pathlib import Path
 import pandas as pd
 
 from audit.io.writers.safety import neutralise_frame
-from audit.io.writers.xlsx import write_xlsx  # noqa: F401  (one import path for all three formats)
 
 
 def write_csv(results: pd.DataFrame, path: Path) -> Path:
