@@ -38,12 +38,12 @@ is an inspection, and ``fixable_by_insulation`` is False.
 from __future__ import annotations
 
 import datetime
-import re
 
 import numpy as np
 import pandas as pd
 
 from audit.checks.base import CheckKind, findings
+from audit.io.readers.headers import normalise_name, split_unit
 from audit.rules import SEVERITIES
 from audit.rules.converters import list_of, quantity, rows, temperature, text
 from audit.thermal import ZERO_CELSIUS
@@ -61,7 +61,6 @@ DEFAULT_INSTALL_YEAR_COLUMNS = ("install year", "installation year", "year insta
 _YES = frozenset({"yes", "y", "true", "1", "x", "cyclic", "intermittent"})
 _NO = frozenset({"no", "n", "false", "0", "-", "continuous"})
 _BARE_JACKET = frozenset({"none", "bare", "uninsulated", "no", "no-jacket"})
-_UNIT_IN_HEADER = re.compile(r"^(?P<name>.*?)\s*\[(?P<unit>[^\]]*)\]\s*$")
 
 _WEIGHT = quantity("dimensionless", "dimensionless", low=0.0, low_open=True)
 
@@ -132,19 +131,15 @@ def _year(value) -> int:
 _HEADERS = list_of(text, "register headers")
 
 
-def _key(header: str) -> str:
-    return re.sub(r"[\s_\-.]", "", header.lower())
-
-
 def _extra_column(table: pd.DataFrame, names) -> tuple[str | None, str | None]:
-    """The first extra column whose header (unit stripped) matches one of ``names``."""
-    wanted = {_key(n) for n in names}
+    """The first extra column whose header (unit stripped) matches one of ``names``, by the
+    register's own header rules (:mod:`audit.io.readers.headers`)."""
+    wanted = {normalise_name(n) for n in names}
     for column in table.columns:
         if not isinstance(column, str) or column.startswith("raw:"):
             continue
-        match = _UNIT_IN_HEADER.match(column)
-        name, unit = (match["name"], match["unit"].strip() or None) if match else (column, None)
-        if _key(name) in wanted:
+        name, unit = split_unit(column)
+        if normalise_name(name) in wanted:
             return column, unit
     return None, None
 
