@@ -1,5 +1,8 @@
 """Helpers shared by the test modules (tests/ is on the import path: see pyproject.toml)."""
 
+import pytest
+
+from audit.errors import RegisterError
 from audit.io.readers import read_register
 from audit.thermal import resolve_names
 
@@ -9,3 +12,12 @@ def item_table(tmp_path, text, rules, *, name="reg.csv"):
     path = tmp_path / name
     path.write_text(text, encoding="utf-8")
     return resolve_names(read_register(path, aliases=rules.aliases), rules)
+
+
+def refused_register(path, pattern, **kwargs):
+    """read_register(path) must raise a RegisterError naming the file and saying what to do."""
+    with pytest.raises(RegisterError, match=pattern) as info:
+        read_register(path, **kwargs)
+    assert info.value.file == str(path) and str(path) in str(info.value)
+    assert info.value.expected  # says what to do
+    return info.value

@@ -4,19 +4,11 @@ RegisterError naming the file and saying what to do."""
 from pathlib import Path
 
 import pytest
+from support import refused_register as _raises
 
-from audit.errors import RegisterError
 from audit.io.readers import files, read_register
 
 CORPUS = Path(__file__).parents[2] / "data" / "registers"
-
-
-def _raises(path, pattern, **kwargs):
-    with pytest.raises(RegisterError, match=pattern) as info:
-        read_register(path, **kwargs)
-    assert info.value.file == str(path) and str(path) in str(info.value)
-    assert info.value.expected  # says what to do
-    return info.value
 
 
 @pytest.mark.parametrize("name, content, pattern", [

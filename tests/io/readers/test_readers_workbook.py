@@ -7,9 +7,9 @@ import zipfile
 from pathlib import Path
 
 import pytest
+from support import refused_register as _raises
 import openpyxl
 
-from audit.errors import RegisterError
 from audit.io.readers import read_register
 
 CORPUS = Path(__file__).parents[2] / "data" / "registers"
@@ -32,14 +32,6 @@ def _rewrite(source, target, change):
     with zipfile.ZipFile(source) as old, zipfile.ZipFile(target, "w", zipfile.ZIP_DEFLATED) as new:
         for info in old.infolist():
             new.writestr(info.filename, change(info.filename, old.read(info)))
-
-
-def _raises(path, pattern, **kwargs):
-    with pytest.raises(RegisterError, match=pattern) as info:
-        read_register(path, **kwargs)
-    assert info.value.file == str(path) and str(path) in str(info.value)
-    assert info.value.expected  # says what to do
-    return info.value
 
 
 def test_good_workbook_reads(workbook):
