@@ -20,7 +20,6 @@ from audit.io.readers.validate import summarise
 from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
 from audit.pipeline import audit_register
 from audit.progress import progress
-from audit.report import write_reports
 from audit.rules import SEVERITIES, load_rules
 from audit.rules.describe import describe_rules
 from audit.shipped import shipped_dir
@@ -240,6 +239,8 @@ def _write(audit, registers, args, formats, bar) -> list[Path]:
     if reports:
         # The work-order packs are PDFs too: they come with the PDF report.
         asked = reports + (["workorders"] if "pdf" in reports else [])
+        from audit.report import write_reports  # weasyprint loads in ~0.7 s: only when asked
+
         written += write_reports(audit, out, meta=meta, formats=asked, economics=audit.economics)
         bar.advance(len(reports))
     return written

@@ -11,6 +11,8 @@ the item's ``location``, else the rules' default site.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 import pandas as pd
 
@@ -147,8 +149,54 @@ def conductivity_tables(rules: Rules) -> tuple[ConductivityTables, dict[str, int
     return tables, {n: i for i, n in enumerate(names)}
 
 
+@dataclass
+class PreparedItems:
+    """The engine inputs of a table's accepted rows that no site condition changes.
+
+    Looked up once per table: the checks solve one table under several sites, and the
+    remedy and economic-thickness searches re-insulate subsets of it many times over
+    (:meth:`take`, :meth:`reinsulated`) without going back to names and text.
+    """
+
+    accepted: np.ndarray        #: bool per table row: status "ok"
+    index: dict                 #: material name -> conductivity-table index
+    fixed: dict                 #: ItemBatch fields of the accepted rows, site-independent
+    own_site: np.ndarray        #: each accepted row's site name (location, else the default)
+    row_air: np.ndarray         #: ambient given on the row [K] (NaN: the site's)
+    row_wind: np.ndarray        #: wind given on the row [m/s]
+    row_rh: np.ndarray          #: relative humidity given on the row [%]
+    temp: np.ndarray            #: process temperature [K]
+    at_ambient: np.ndarray      #: process temperature given as ambient
+
+    _ROW_ARRAYS = ("own_site", "row_air", "row_wind", "row_rh", "temp", "at_ambient")
+
+    def take(self, rows: np.ndarray) -> PreparedItems:
+        """The rows ``rows`` (positions in the table, all accepted) as a table of their own."""
+        rows = np.asarray(rows, int)
+        if not self.accepted[rows].all():
+            raise ValueError("PreparedItems.take: only accepted rows can be taken")
+        at = (np.cumsum(self.accepted) - 1)[rows]
+        return PreparedItems(np.ones(rows.size, bool), self.index,
+                             {name: value[at] for name, value in self.fixed.items()},
+                             *(getattr(self, name)[at] for name in self._ROW_ARRAYS))
+
+    def reinsulated(self, materials, thickness_m) -> PreparedItems:
+        """Every row insulated with one intact layer of ``materials`` [name] and
+        ``thickness_m`` [m] instead of what it has, fittings covered (not wet, not damaged)."""
+        n = int(self.accepted.sum())
+        fixed = dict(self.fixed)
+        fixed["layer_table"] = map_values(materials, self.index, -1, dtype=int).reshape(n, 1)
+        fixed["layer_thickness"] = np.broadcast_to(np.asarray(thickness_m, float), n).reshape(n, 1)
+        fixed["layer_factor"] = np.ones((n, 1))
+        fixed["bare_fraction"] = np.zeros(n)
+        fixed["fitting_length"] = np.zeros(n)
+        return PreparedItems(self.accepted, self.index, fixed,
+                             *(getattr(self, name) for name in self._ROW_ARRAYS))
+
+
 def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None,
-                   surface_model: str = "correlations", tables=None) -> pd.DataFrame:
+                   surface_model: str = "correlations", tables=None,
+                   prepared: PreparedItems | None = None) -> pd.DataFrame:
     """Solve every accepted row of ``table`` under one set of conditions.
 
     Parameters
@@ -161,6 +209,10 @@ def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None
         Evaluate under this site condition instead of each item's own location.
     surface_model : str
         Outer-surface model of the engine.
+    tables : tuple, optional
+        :func:`conductivity_tables` of ``rules``, if the caller has them already.
+    prepared : PreparedItems, optional
+        :func:`prepare_items` of ``table``, if the caller has it already.
 
     Returns
     -------
@@ -172,12 +224,15 @@ def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None
         tables, index = conductivity_tables(rules)
     else:
         tables, index = tables
-    ok = (table["status"] == "ok").to_numpy()
-    rows = table.loc[ok]
-    batch, conditions = _batch(rows, rules, index, site)
-    states = solve_items(batch, tables, surface_model=surface_model) if len(rows) else None
+    if prepared is None:
+        prepared = prepare_items(table, rules, index)
+    ok = prepared.accepted
+    if ok.size != len(table):
+        raise ValueError("thermal_states: the prepared items belong to another table")
+    batch, conditions = site_batch(prepared, rules, site)
+    states = solve_items(batch, tables, surface_model=surface_model) if ok.any() else None
     n_layers = batch.layer_table.shape[1]
-    out = pd.DataFrame(index=table.index)
+    out = {}
 
     def put(name, values, fill=np.nan):
         column = np.full(len(table), fill, dtype=object if isinstance(fill, str) else float)
@@ -193,8 +248,8 @@ def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None
             put(name, np.empty(0))
         put("engine_reason", np.empty(0, object), "")
         put("engine_warnings", np.empty(0, object), "")
-        out["computed"] = False
-        return out
+        out["computed"] = np.zeros(len(table), bool)
+        return pd.DataFrame(out, index=table.index)
     put("surface_temp_K", states.surface_temp)
     put("surface_temp_insulated_K", states.surface_temp_insulated)
     for j in range(n_layers + 1):
@@ -211,40 +266,24 @@ def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None
     computed = np.zeros(len(table), bool)
     computed[ok] = states.converged
     out["computed"] = computed
-    return out
+    return pd.DataFrame(out, index=table.index)
 
 
-def _batch(rows: pd.DataFrame, rules: Rules, index: dict[str, int], site: str | None):
+def prepare_items(table: pd.DataFrame, rules: Rules, index: dict[str, int] | None = None) -> PreparedItems:
+    """Look up, once, everything about ``table``'s accepted rows that no site changes."""
+    if index is None:
+        index = conductivity_tables(rules)[1]
+    accepted = (table["status"] == "ok").to_numpy(bool)
+    rows = table.loc[accepted]
     n = len(rows)
-    sites = rules.sites
     default_site = rules.defaults.get("site")
-    site_names = (np.full(n, site, dtype=object) if site else
-                  rows["location"].fillna("").replace("", default_site).to_numpy(object))
-    def of_site(attribute):
-        return map_values(site_names, {name: getattr(site, attribute) for name, site in sites.items()})
-
-    site_air, site_wind, site_rh, site_sur = (of_site(a) for a in ("ambient", "wind", "rh", "surroundings"))
-
-    row_air = rows["ambient_K"].to_numpy(float)
-    t_air = np.where(np.isfinite(row_air), row_air, site_air)
-    t_sur = np.where(np.isfinite(row_air) | ~np.isfinite(site_sur), t_air, site_sur)
-    row_wind = rows["wind_m_s"].to_numpy(float)
-    wind = np.where(np.isfinite(row_wind), row_wind, site_wind)
-    row_rh = rows["rh_pct"].to_numpy(float)
-    rh = np.where(np.isfinite(row_rh), row_rh, site_rh)
-    t_process = rows["temp_K"].to_numpy(float)
-    at_ambient = rows["temp_is_ambient"].to_numpy(bool)
-    t_process = np.where(at_ambient, t_air, t_process)
+    own_site = rows["location"].fillna("").replace("", default_site).to_numpy(object)
 
     jacket_names = rows["jacket"].fillna("").replace("", rules.defaults.get("jacket", "")).to_numpy(object)
     metal_names = rows["material"].fillna("").replace("", rules.defaults.get("metal", "")).to_numpy(object)
     row_eps = rows["emissivity"].to_numpy(float)
-
-    def lookup(names, named, attribute):
-        return map_values(names, {name: getattr(entry, attribute) for name, entry in named.items()})
-
-    emissivity = np.where(np.isfinite(row_eps), row_eps, lookup(jacket_names, rules.jackets, "emissivity"))
-    bare_emissivity = np.where(np.isfinite(row_eps), row_eps, lookup(metal_names, rules.metals, "emissivity"))
+    jackets = _attributes(jacket_names, rules.jackets, ("emissivity", "iso12241_ca", "iso12241_cb"))
+    metals = _attributes(metal_names, rules.metals, ("emissivity", "iso12241_ca", "iso12241_cb"))
 
     layer_names = rows["layer_materials"].to_numpy(object)
     layer_thick = rows["layer_thicknesses_m"].to_numpy(object)
@@ -266,23 +305,54 @@ def _batch(rows: pd.DataFrame, rules: Rules, index: dict[str, int], site: str | 
     bare_fraction = np.select([condition == "missing", condition == "damaged"], [1.0, damaged], 0.0)
     table_idx[condition == "missing"] = -1
 
-    return ItemBatch(
+    fixed = dict(
         shape=map_values(rows["shape"], SHAPE_CODES, dtype=int),
         od=rows["od_m"].to_numpy(float), length=rows["length_m"].to_numpy(float),
         area=rows["area_m2"].to_numpy(float),
         heads=map_values(rows["heads"], HEAD_CODES, HEAD_CODES["none"], dtype=int),
         orientation=map_values(rows["orientation"], ORIENTATION_CODES, 0, dtype=int),
-        t_process=t_process, t_air=t_air, t_surroundings=t_sur, wind=wind,
-        emissivity=emissivity, bare_emissivity=bare_emissivity,
+        emissivity=np.where(np.isfinite(row_eps), row_eps, jackets["emissivity"]),
+        bare_emissivity=np.where(np.isfinite(row_eps), row_eps, metals["emissivity"]),
         layer_table=table_idx, layer_thickness=thickness, layer_factor=factor,
         bare_fraction=bare_fraction,
         fitting_length=_fitting_length(rows, rules),
-        iso_ca=lookup(jacket_names, rules.jackets, "iso12241_ca"),
-        iso_cb=lookup(jacket_names, rules.jackets, "iso12241_cb"),
-        bare_iso_ca=lookup(metal_names, rules.metals, "iso12241_ca"),
-        bare_iso_cb=lookup(metal_names, rules.metals, "iso12241_cb"),
-    ), {"air_temp_K": t_air, "surroundings_temp_K": t_sur, "wind_m_s": wind, "rh_pct": rh,
-        "process_temp_K": t_process, "emissivity_used": emissivity}
+        iso_ca=jackets["iso12241_ca"], iso_cb=jackets["iso12241_cb"],
+        bare_iso_ca=metals["iso12241_ca"], bare_iso_cb=metals["iso12241_cb"],
+    )
+    return PreparedItems(accepted, index, fixed, own_site, rows["ambient_K"].to_numpy(float),
+                         rows["wind_m_s"].to_numpy(float), rows["rh_pct"].to_numpy(float),
+                         rows["temp_K"].to_numpy(float), rows["temp_is_ambient"].to_numpy(bool))
+
+
+def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple[ItemBatch, dict]:
+    """The engine batch of the prepared rows under ``site`` (None: each row's own site), and
+    the conditions used (air, surroundings, wind, RH, process temperature, emissivity)."""
+    n = prepared.own_site.size
+    site_names = np.full(n, site, dtype=object) if site else prepared.own_site
+    site_air, site_wind, site_rh, site_sur = _attributes(
+        site_names, rules.sites, ("ambient", "wind", "rh", "surroundings")).values()
+    row_air = prepared.row_air
+    t_air = np.where(np.isfinite(row_air), row_air, site_air)
+    t_sur = np.where(np.isfinite(row_air) | ~np.isfinite(site_sur), t_air, site_sur)
+    wind = np.where(np.isfinite(prepared.row_wind), prepared.row_wind, site_wind)
+    rh = np.where(np.isfinite(prepared.row_rh), prepared.row_rh, site_rh)
+    t_process = np.where(prepared.at_ambient, t_air, prepared.temp)
+    batch = ItemBatch(t_process=t_process, t_air=t_air, t_surroundings=t_sur, wind=wind,
+                      **prepared.fixed)
+    return batch, {"air_temp_K": t_air, "surroundings_temp_K": t_sur, "wind_m_s": wind,
+                   "rh_pct": rh, "process_temp_K": t_process,
+                   "emissivity_used": prepared.fixed["emissivity"]}
+
+
+def _attributes(names, named: dict, attributes: tuple[str, ...]) -> dict[str, np.ndarray]:
+    """``getattr(named[name], a)`` for each of ``names`` and each attribute ``a`` (NaN where
+    the name is absent), with one lookup per distinct name."""
+    codes, uniques = pd.factorize(np.asarray(names, dtype=object), use_na_sentinel=False)
+    out = {}
+    for a in attributes:
+        values = [getattr(named[u], a) if u in named else np.nan for u in uniques]
+        out[a] = np.array(values, dtype=float)[codes]
+    return out
 
 
 def _fitting_length(rows: pd.DataFrame, rules: Rules) -> np.ndarray:

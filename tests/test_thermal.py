@@ -1,6 +1,7 @@
 """From the item table to engine states (audit/thermal.py): names, conditions, defaults."""
 
 import numpy as np
+import pandas as pd
 import pytest
 from support import item_table
 
@@ -82,3 +83,37 @@ def test_ambient_item_has_no_heat_flow(tmp_path, rules):
     t = table_from(tmp_path, "tag,nps,length,temp,insulation,thickness\nA,4,10,AMB,mineral-wool,50\n", rules)
     states = thermal_states(t, rules)
     assert states["heat_loss_W"][0] == 0.0
+
+
+def test_prepared_subsets_equal_a_fresh_look_up_of_the_reinsulated_copy(tmp_path, rules):
+    # The remedy and economic-thickness searches derive their trial items from the audit's
+    # prepared rows instead of reading the re-insulated table copy again: both must agree.
+    from audit.checks.remedy import _insulated_copy
+    from audit.thermal import conductivity_tables, prepare_items, site_batch
+
+    t = table_from(tmp_path, "tag,nps,length,temp,insulation,thickness,jacket,location,condition,"
+                             "damaged,valves,emissivity,ambient\n"
+                             "A,4,10,200,mineral-wool,50,aluminium-oxidised,indoor,wet,,,,\n"
+                             "B,2,5,-20,cellular-glass,40,stainless-steel,,damaged,30,2,,\n"
+                             "C,8,3,350,unobtainium,50,aluminium-oxidised,indoor,,,,,\n"
+                             "D,6,7,150,,,,outdoor-annual-mean,missing,,1,0.8,25\n", rules)
+    assert list(t["status"]) == ["ok", "ok", "rejected", "ok"]
+    tables = conductivity_tables(rules)
+    rows = np.array([3, 0, 1])
+    materials = np.array(["calcium-silicate", "mineral-wool", "cellular-glass"], dtype=object)
+    thickness = np.array([0.08, 0.025, 0.1])
+    derived = prepare_items(t, rules, tables[1]).take(rows).reinsulated(materials, thickness)
+    copy = _insulated_copy(t, rows, materials, thickness)
+    fresh = prepare_items(copy, rules, tables[1])
+    for site in (None, "hot-still-day"):
+        got, got_conditions = site_batch(derived, rules, site)
+        want, want_conditions = site_batch(fresh, rules, site)
+        for name, value in vars(want).items():
+            np.testing.assert_array_equal(getattr(got, name), value, err_msg=name)
+        for name, value in want_conditions.items():
+            np.testing.assert_array_equal(got_conditions[name], value, err_msg=name)
+    a = thermal_states(copy, rules, tables=tables, prepared=derived)
+    b = thermal_states(copy, rules, tables=tables)
+    pd.testing.assert_frame_equal(a, b)
+    with pytest.raises(ValueError, match="only accepted rows"):
+        prepare_items(t, rules, tables[1]).take(np.array([2]))

@@ -15,7 +15,7 @@ import pandas as pd
 
 from audit.errors import Problem, RuleError
 from audit.rules import Check, Rules
-from audit.thermal import ZERO_CELSIUS, conductivity_tables, thermal_states
+from audit.thermal import ZERO_CELSIUS, PreparedItems, conductivity_tables, prepare_items, thermal_states
 from audit.units import UnitParseError
 
 #: Columns of a findings table, in order (``row`` indexes the item table).
@@ -46,15 +46,26 @@ class CheckContext:
     surface_model: str = "correlations"
     _states: dict = field(default_factory=dict)
     _tables: tuple | None = None
+    _prepared: PreparedItems | None = None
+
+    def tables(self) -> tuple:
+        """:func:`audit.thermal.conductivity_tables` of the rules, built once."""
+        if self._tables is None:
+            self._tables = conductivity_tables(self.rules)
+        return self._tables
+
+    def prepared(self) -> PreparedItems:
+        """:func:`audit.thermal.prepare_items` of the table, looked up once."""
+        if self._prepared is None:
+            self._prepared = prepare_items(self.table, self.rules, self.tables()[1])
+        return self._prepared
 
     def states(self, site: str = "") -> pd.DataFrame:
         """Thermal states of every row under ``site`` ("" = each item's own conditions)."""
         if site not in self._states:
-            if self._tables is None:
-                self._tables = conductivity_tables(self.rules)
             self._states[site] = thermal_states(self.table, self.rules, site=site or None,
                                                 surface_model=self.surface_model,
-                                                tables=self._tables)
+                                                tables=self.tables(), prepared=self.prepared())
         return self._states[site]
 
     def selected(self, check: Check, site: str | None = None) -> np.ndarray:

@@ -49,9 +49,11 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
             sub = np.flatnonzero(failed[check.name][at])
             if sub.size == 0:
                 continue
-            trial = _insulated_copy(table, rows[at[sub]], material[at[sub]], standard[index[sub]])
-            trial_context = CheckContext(trial, rules, surface_model=context.surface_model,
-                                         _tables=context._tables)
+            picked, mats, thick = rows[at[sub]], material[at[sub]], standard[index[sub]]
+            trial_context = CheckContext(
+                _insulated_copy(table, picked, mats, thick), rules,
+                surface_model=context.surface_model, _tables=context.tables(),
+                _prepared=context.prepared().take(picked).reinsulated(mats, thick))
             found = kinds[check.kind].evaluate(trial_context, check, params[check.name])
             ok[sub[found["row"].to_numpy(int)]] = False
             ok[sub[~trial_context.states(check.site)["computed"].to_numpy(bool)]] = False

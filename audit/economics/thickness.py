@@ -13,10 +13,9 @@ whole register is solved once per candidate thickness.
 from __future__ import annotations
 
 import numpy as np
-import pandas as pd
 
 from audit.economics.energy import yearly
-from audit.economics.repair import insulation_cost, tuples_of
+from audit.economics.repair import insulation_cost
 from audit.thermal import thermal_states
 
 
@@ -108,55 +107,20 @@ def economic_thickness(context, economic_rules, *, site, hours_h, material):
     if rows.size == 0 or candidates.size == 0:
         return out
     items = table.iloc[rows].reset_index(drop=True)
-    distinct, codes, scale = _distinct_states(items, material[rows])
+    # The engine solves each distinct thermal problem once (audit.engine.distinct): a register
+    # repeats sizes, temperatures and conditions, so re-solving it per candidate is cheap.
+    prepared = context.prepared().take(rows)
     shape = items["shape"].to_numpy(object)
     heat_cost = np.full((rows.size, candidates.size), np.nan)
     investment = np.full((rows.size, candidates.size), np.nan)
     for k, t in enumerate(candidates):
-        trial = distinct.copy()
-        trial["layer_thicknesses_m"] = tuples_of(np.full(len(trial), t))
-        got = thermal_states(trial, rules, site=site or None, surface_model=context.surface_model,
-                             tables=context._tables)
+        got = thermal_states(items, rules, site=site or None, surface_model=context.surface_model,
+                             tables=context.tables(), prepared=prepared.reinsulated(material[rows], t))
         heat = np.where(got["computed"].to_numpy(bool), got["heat_loss_W"].to_numpy(float), np.nan)
-        heat_cost[:, k] = yearly(heat[codes] * scale, hours_h[rows], economic_rules)["cost"]
+        heat_cost[:, k] = yearly(heat, hours_h[rows], economic_rules)["cost"]
         investment[:, k] = insulation_cost(economic_rules.repair, shape, items["od_m"].to_numpy(float),
                                            items["length_m"].to_numpy(float),
-                                           got["outer_area_m2"].to_numpy(float)[codes], t)
+                                           got["outer_area_m2"].to_numpy(float), t)
     annuity = float(annuity_factor(economic_rules.interest, economic_rules.life))
     out[rows] = cheapest(candidates, heat_cost, investment, annuity)[0]
     return out
-
-
-#: Item-table columns that do not change the state of an intact item without bare fittings
-#: insulated with a given layer (bookkeeping, economics, checks' selectors, and the columns
-#: the trial sets itself).  Every other column, including any the engine may read in future
-#: and unknown carried-through columns, keeps items apart: merging is only ever too cautious.
-_NOT_THERMAL = {"tag", "source", "status", "reason", "warnings", "accessible", "service",
-                "area_code", "hours_h", "layer_materials", "layer_thicknesses_m", "condition",
-                "damaged_pct", "valves", "flanges"}
-
-
-def _distinct_states(items: pd.DataFrame, material: np.ndarray):
-    """The distinct thermal problems among ``items`` re-insulated with one intact layer of
-    ``material``: a register repeats the same size, temperature and conditions many times, so
-    each is solved once.  Pipes are solved per metre (length 1 m; heat is proportional to run
-    length without fittings or damage) and scaled back.
-
-    Returns the distinct trial table (thicknesses still to set), each item's row in it, and
-    each item's scale (its run length for pipes, 1 otherwise).
-    """
-    pipe = (items["shape"] == "pipe").to_numpy()
-    length = items["length_m"].to_numpy(float)
-    trial = items.copy()
-    trial["length_m"] = np.where(pipe, 1.0, length)
-    trial["_material"] = material
-    key = [c for c in trial.columns if c not in _NOT_THERMAL and not c.startswith("raw:")]
-    codes = trial.groupby(key, dropna=False, sort=False).ngroup().to_numpy()
-    _, first = np.unique(codes, return_index=True)
-    distinct = trial.iloc[first].drop(columns="_material").reset_index(drop=True)
-    distinct["layer_materials"] = tuples_of(material[first])
-    distinct["condition"] = "intact"
-    distinct["damaged_pct"] = np.nan
-    distinct["valves"] = 0
-    distinct["flanges"] = 0
-    return distinct, codes, np.where(pipe, length, 1.0)

@@ -28,8 +28,9 @@ from audit.engine import geometry, surface
 from audit.engine.air import T_MAX as AIR_T_MAX
 from audit.engine.air import T_MIN as AIR_T_MIN
 from audit.engine.conduction import ConductivityTables
+from audit.engine.distinct import distinct_rows
 from audit.engine.geometry import CYLINDER, PLANE, SPHERE
-from audit.engine.solver import solve_walls
+from audit.engine.solver import WallSolution, solve_walls
 
 # Item shapes.
 PIPE, VERTICAL_VESSEL, HORIZONTAL_VESSEL, SPHERE_ITEM, FLAT = range(5)
@@ -133,7 +134,7 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     ok = reasons == ""
     elements = _build_elements(b, np.flatnonzero(ok))
     walls = _wall_geometry(elements)
-    solution = _solve(b, elements, walls, tables, surface_model)
+    solution = _solve_distinct(b, elements, walls, tables, surface_model)
     return _aggregate(b, tables, elements, walls, solution, reasons, n,
                       surface.surface_model_separates_radiation(surface_model))
 
@@ -383,7 +384,33 @@ def _inner_resistance(b: ItemBatch, e: _Elements) -> np.ndarray:
     return wall + film
 
 
-def _solve(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model):
+def _solve_distinct(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model):
+    """Solve each distinct element once (see :mod:`audit.engine.distinct`) and share the answer.
+
+    The key holds every input of the solver; lengths only where the surface models use them
+    (vertical cylinders and plates: natural-convection height; plates: the wind's run).
+    """
+    item = e.item
+    r_inner = _inner_resistance(b, e)
+    uses_length = ~np.isin(e.kind, [surface.HORIZONTAL_CYLINDER, surface.SPHERE])
+    plate = np.isin(e.kind, [surface.VERTICAL_PLATE, surface.HORIZONTAL_PLATE_UP,
+                             surface.HORIZONTAL_PLATE_DOWN])
+    key = np.vstack([
+        b.t_process[item], b.t_air[item], b.t_surroundings[item], b.wind[item], e.kind,
+        e.emissivity, e.iso_ca, e.iso_cb, r_inner, w.outer_area, w.radii[:, -1],
+        np.where(uses_length, e.length, 0.0), np.where(plate, e.flow_length, 0.0),
+        *w.conductance.T, *np.where(w.present, e.layer_table, -1).T])
+    first, group = distinct_rows(key)
+    if first.size == item.size:
+        return _solve(b, e, w, tables, surface_model, r_inner)
+    sub_e = _Elements(**{name: value[first] for name, value in vars(e).items()})
+    sub_w = _WallGeometry(**{name: value[first] for name, value in vars(w).items()})
+    sol = _solve(b, sub_e, sub_w, tables, surface_model, r_inner[first])
+    return WallSolution(**{name: (value[group] if isinstance(value, np.ndarray) else value)
+                           for name, value in vars(sol).items()})
+
+
+def _solve(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model, r_inner):
     item = e.item
     t_process = b.t_process[item]
     t_air = b.t_air[item]
@@ -401,7 +428,7 @@ def _solve(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model):
     t_high = np.maximum(np.maximum(t_process, t_air), t_sur)
     return solve_walls(t_process, t_air, t_low, t_high, w.conductance,
                        np.where(w.present, e.layer_table, 0), w.present, tables,
-                       _inner_resistance(b, e), w.outer_area, flux_for)
+                       r_inner, w.outer_area, flux_for)
 
 
 def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
@@ -420,10 +447,12 @@ def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
     # Worst element: farthest from the air on the process side.
     side = np.sign(b.t_process - b.t_air)
     excess = (sol.surface_temp - t_air) * side[item]
-    order = np.lexsort((excess, item))
-    last_of_item = np.r_[item[order][1:] != item[order][:-1], True][:order.size]
-    worst = np.full(n, -1)
-    worst[item[order][last_of_item]] = order[last_of_item]
+    most = np.full(n, -np.inf)
+    np.maximum.at(most, item, excess)
+    worst = np.full(n, item.size)
+    at_most = np.flatnonzero(excess == most[item])
+    np.minimum.at(worst, item[at_most], at_most)
+    worst[worst == item.size] = -1
 
     main_insulated = np.full(n, -1)
     sel = np.flatnonzero((e.role == MAIN) & e.insulated)
@@ -522,12 +551,21 @@ def _warnings(n, e, sol, tables, present) -> np.ndarray:
     text = np.array([f"conductivity of {name} extrapolated beyond its data "
                      f"({lo - 273.15:g} to {hi - 273.15:g} degC)"
                      for name, lo, hi in zip(tables.names, tables.t_min, tables.t_max)], dtype=object)
-    # One note per (item, material), in table order.
-    m = len(tables)
-    pairs = np.unique(e.item[rows].astype(np.int64) * m + e.layer_table[rows, cols])
-    item_of, table_of = pairs // m, pairs % m
-    notes = text[table_of]
-    items, starts = np.unique(item_of, return_index=True)
-    for i, a, b in zip(items, starts, np.r_[starts[1:], pairs.size]):
-        out[i] = "; ".join(notes[a:b])
+    # One note per (item, material), in table order: each item's set of materials as a row
+    # of flags, and each distinct set joined into text once.
+    flags = np.zeros((n, len(tables)), bool)
+    flags[e.item[rows], e.layer_table[rows, cols]] = True
+    warned = np.flatnonzero(flags.any(axis=1))
+    first, which = distinct_rows(_packed_words(flags[warned]))
+    joined = np.array(["; ".join(text[flags[warned[i]]]) for i in first], dtype=object)
+    out[warned] = joined[which]
     return out
+
+
+def _packed_words(flags: np.ndarray) -> np.ndarray:
+    """Rows of booleans as 64-bit words, one row per word: a key for ``distinct_rows``."""
+    packed = np.packbits(flags, axis=1)
+    width = -(-packed.shape[1] // 8) * 8
+    padded = np.zeros((flags.shape[0], width), np.uint8)
+    padded[:, :packed.shape[1]] = packed
+    return padded.view(np.uint64).T

@@ -197,3 +197,28 @@ def test_a_batch_whose_every_item_is_invalid_returns_reasons_not_an_error():
     states = solve_items(batch, TABLES)
     assert not states.converged.any()
     assert all("absolute zero" in r for r in states.reason)
+
+
+def test_repeated_items_get_the_answers_of_the_item_solved_alone():
+    # The engine solves each distinct wall element once (audit/engine/distinct.py); a
+    # register that repeats its items must get exactly what each item gets on its own, and
+    # pipes that differ only in length share their per-metre answer.
+    batch = random_batch(17, 300)
+    alone = solve_items(batch, TABLES)
+    pick = np.random.default_rng(4).integers(0, 300, 3000)
+    repeated = ItemBatch(**{name: (None if value is None else np.asarray(value)[pick])
+                            for name, value in vars(batch).items()})
+    together = solve_items(repeated, TABLES)
+    for name in ("surface_temp", "heat_loss", "heat_flux", "balance_error", "outer_area"):
+        np.testing.assert_array_equal(getattr(together, name), getattr(alone, name)[pick], err_msg=name)
+    np.testing.assert_array_equal(together.interface_temps, alone.interface_temps[pick])
+    assert list(together.warnings) == list(alone.warnings[pick])
+    longer = ItemBatch(**{name: (None if value is None else np.asarray(value).copy())
+                          for name, value in vars(batch).items()})
+    horizontal_pipe = (batch.shape == PIPE) & (batch.orientation == 0) & (batch.fitting_length == 0)
+    longer.length = np.where(horizontal_pipe, 2.0 * batch.length, batch.length)
+    doubled = solve_items(longer, TABLES)
+    # Same per-metre problem, twice the run: twice the heat (to rounding of the sum).
+    np.testing.assert_allclose(doubled.heat_loss[horizontal_pipe], 2.0 * alone.heat_loss[horizontal_pipe],
+                               rtol=1e-12)
+    np.testing.assert_array_equal(doubled.surface_temp, alone.surface_temp)
