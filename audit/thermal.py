@@ -25,12 +25,14 @@ ZERO_CELSIUS = 273.15
 _OD_OF_NPS = {value: mm / 1000.0 for _, value, _, mm in NOMINAL_PIPE_SIZES}
 
 
-def resolve_names(table: pd.DataFrame, rules: Rules) -> pd.DataFrame:
+def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> pd.DataFrame:
     """Reject rows whose names the rules do not define, or whose condition lacks data.
 
     Returns a copy of ``table`` with ``status`` and ``reason`` updated; rows already
     rejected keep their reasons and gain any new ones.  Each distinct combination of the
-    cells involved is judged once (a register repeats a few hundred of them).
+    cells involved is judged once (a register repeats a few hundred of them).  With
+    ``notes``, ``warnings`` also says where a row falls back on a default of the rules (an
+    internal copy that is only solved, never reported, can skip that).
     """
     out = table.copy()
     count = {c: pd.to_numeric(out[c], errors="coerce").fillna(0).to_numpy() > 0
@@ -47,7 +49,8 @@ def resolve_names(table: pd.DataFrame, rules: Rules) -> pd.DataFrame:
     codes, uniques = pd.factorize(pd.Series(keys, dtype=object))
     verdicts = np.array(["; ".join(_name_problems(key, rules)) for key in uniques], dtype=object)
     added = verdicts[codes]
-    _note_defaults(out, rules)
+    if notes:
+        _note_defaults(out, rules)
     has = added != ""
     out.loc[has, "reason"] = [
         f"{old}; {new}" if old else new for old, new in zip(out.loc[has, "reason"], added[has])]
@@ -161,7 +164,9 @@ class PreparedItems:
     accepted: np.ndarray        #: bool per table row: status "ok"
     index: dict                 #: material name -> conductivity-table index
     fixed: dict                 #: ItemBatch fields of the accepted rows, site-independent
-    own_site: np.ndarray        #: each accepted row's site name (location, else the default)
+    own_site: np.ndarray        #: each accepted row's site (location, else the default), as
+                                #: a position in ``site_names``
+    site_names: tuple           #: the distinct own sites
     row_air: np.ndarray         #: ambient given on the row [K] (NaN: the site's)
     row_wind: np.ndarray        #: wind given on the row [m/s]
     row_rh: np.ndarray          #: relative humidity given on the row [%]
@@ -170,15 +175,19 @@ class PreparedItems:
 
     _ROW_ARRAYS = ("own_site", "row_air", "row_wind", "row_rh", "temp", "at_ambient")
 
+    def _with(self, accepted, fixed, at=slice(None)) -> PreparedItems:
+        rows = {name: getattr(self, name)[at] for name in self._ROW_ARRAYS}
+        return PreparedItems(accepted=accepted, index=self.index, fixed=fixed,
+                             site_names=self.site_names, **rows)
+
     def take(self, rows: np.ndarray) -> PreparedItems:
         """The rows ``rows`` (positions in the table, all accepted) as a table of their own."""
         rows = np.asarray(rows, int)
         if not self.accepted[rows].all():
             raise ValueError("PreparedItems.take: only accepted rows can be taken")
         at = (np.cumsum(self.accepted) - 1)[rows]
-        return PreparedItems(np.ones(rows.size, bool), self.index,
-                             {name: value[at] for name, value in self.fixed.items()},
-                             *(getattr(self, name)[at] for name in self._ROW_ARRAYS))
+        return self._with(np.ones(rows.size, bool),
+                          {name: value[at] for name, value in self.fixed.items()}, at)
 
     def reinsulated(self, materials, thickness_m) -> PreparedItems:
         """Every row insulated with one intact layer of ``materials`` [name] and
@@ -190,8 +199,7 @@ class PreparedItems:
         fixed["layer_factor"] = np.ones((n, 1))
         fixed["bare_fraction"] = np.zeros(n)
         fixed["fitting_length"] = np.zeros(n)
-        return PreparedItems(self.accepted, self.index, fixed,
-                             *(getattr(self, name) for name in self._ROW_ARRAYS))
+        return self._with(self.accepted, fixed)
 
 
 def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None,
@@ -277,7 +285,8 @@ def prepare_items(table: pd.DataFrame, rules: Rules, index: dict[str, int] | Non
     rows = table.loc[accepted]
     n = len(rows)
     default_site = rules.defaults.get("site")
-    own_site = rows["location"].fillna("").replace("", default_site).to_numpy(object)
+    own_site, site_names = pd.factorize(
+        rows["location"].fillna("").replace("", default_site).to_numpy(object), use_na_sentinel=False)
 
     jacket_names = rows["jacket"].fillna("").replace("", rules.defaults.get("jacket", "")).to_numpy(object)
     metal_names = rows["material"].fillna("").replace("", rules.defaults.get("metal", "")).to_numpy(object)
@@ -319,18 +328,22 @@ def prepare_items(table: pd.DataFrame, rules: Rules, index: dict[str, int] | Non
         iso_ca=jackets["iso12241_ca"], iso_cb=jackets["iso12241_cb"],
         bare_iso_ca=metals["iso12241_ca"], bare_iso_cb=metals["iso12241_cb"],
     )
-    return PreparedItems(accepted, index, fixed, own_site, rows["ambient_K"].to_numpy(float),
-                         rows["wind_m_s"].to_numpy(float), rows["rh_pct"].to_numpy(float),
-                         rows["temp_K"].to_numpy(float), rows["temp_is_ambient"].to_numpy(bool))
+    return PreparedItems(accepted=accepted, index=index, fixed=fixed, own_site=own_site,
+                         site_names=tuple(site_names), row_air=rows["ambient_K"].to_numpy(float),
+                         row_wind=rows["wind_m_s"].to_numpy(float), row_rh=rows["rh_pct"].to_numpy(float),
+                         temp=rows["temp_K"].to_numpy(float),
+                         at_ambient=rows["temp_is_ambient"].to_numpy(bool))
 
 
 def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple[ItemBatch, dict]:
     """The engine batch of the prepared rows under ``site`` (None: each row's own site), and
     the conditions used (air, surroundings, wind, RH, process temperature, emissivity)."""
-    n = prepared.own_site.size
-    site_names = np.full(n, site, dtype=object) if site else prepared.own_site
-    site_air, site_wind, site_rh, site_sur = _attributes(
-        site_names, rules.sites, ("ambient", "wind", "rh", "surroundings")).values()
+    names, codes = ((site,), np.zeros(prepared.own_site.size, int)) if site else \
+        (prepared.site_names, prepared.own_site)
+    site_air, site_wind, site_rh, site_sur = (
+        np.array([getattr(rules.sites[name], a) if name in rules.sites else np.nan
+                  for name in names], dtype=float)[codes]
+        for a in ("ambient", "wind", "rh", "surroundings"))
     row_air = prepared.row_air
     t_air = np.where(np.isfinite(row_air), row_air, site_air)
     t_sur = np.where(np.isfinite(row_air) | ~np.isfinite(site_sur), t_air, site_sur)

@@ -70,9 +70,9 @@ def reference_heat_loss(context, check) -> tuple[np.ndarray, object]:
     q_ref = np.full(len(context.table), np.nan)
     if not (need.thickness_m > 0).any():
         return q_ref, need
-    copy = resolve_names(specified_copy(context.table, need), context.rules)
+    copy = resolve_names(specified_copy(context.table, need), context.rules, notes=False)
     ref = thermal_states(copy, context.rules, site=check.site or None,
-                         surface_model=context.surface_model, tables=context._tables)
+                         surface_model=context.surface_model, tables=context.tables())
     computed = ref["computed"].to_numpy(bool)
     q_ref[computed] = ref["heat_loss_W"].to_numpy(float)[computed]
     return q_ref, need

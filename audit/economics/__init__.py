@@ -104,7 +104,7 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
     spec_check = rules.checks.get("below-spec")
     plan = plan_repairs(table, rules, context.states(spec_check.site if spec_check else ""))
     repaired = thermal_states(repaired_copy(table, plan), rules, site=site or None,
-                              surface_model=context.surface_model, tables=context._tables)
+                              surface_model=context.surface_model, tables=context.tables())
     after = yearly(repaired["heat_loss_W"].to_numpy(float), hours_h, econ)
     fixed = repaired["computed"].to_numpy(bool)
     saving_mwh = np.where(plan.needed, np.where(fixed, now["bought [MWh]"] - after["bought [MWh]"], np.nan),

@@ -42,17 +42,22 @@ def distinct_rows(columns: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     m = columns.shape[1]
     if m == 0:
         return np.empty(0, int), np.empty(0, int)
-    bits = columns.view(np.uint64)
+    # Columns that hold one value throughout (a scenario's air, unused layer slots) cannot
+    # tell rows apart: leave them out of the hash and the comparison.
+    varying = [c for c in columns.view(np.uint64) if not (c == c[0]).all()]
     h = np.full(m, np.uint64(0xCBF29CE484222325))  # any non-zero start
     with np.errstate(over="ignore"):
-        for column in bits:
+        for column in varying:
             h ^= column
             h *= _MULTIPLIER
             h ^= h >> _SHIFT
     group, uniques = pd.factorize(h)
     first = np.full(uniques.size, m)
     np.minimum.at(first, group, np.arange(m))
-    same = (bits[:, first[group]] == bits).all(axis=0)
+    representative = first[group]
+    same = np.ones(m, bool)
+    for column in varying:
+        same &= column[representative] == column
     if not same.all():
         # Hash collisions: each differing row becomes its own group.
         lone = np.flatnonzero(~same)

@@ -127,9 +127,36 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     ItemStates
         Items with bad inputs carry a reason and NaN results; the rest of the batch is
         computed regardless.
+
+    Notes
+    -----
+    Each distinct item is solved once and its answer shared (:mod:`audit.engine.distinct`);
+    horizontal pipes without uninsulated fittings count as equal whatever their length, since
+    every answer of theirs is per metre or in proportion to the run.  Within the items solved,
+    each distinct wall element is solved once as well.
     """
-    n = len(batch)
     b = _complete(batch)
+    length_free = ((b.shape == PIPE) & (b.orientation == HORIZONTAL) & (b.fitting_length == 0)
+                   & np.isfinite(b.length) & (b.length > 0))
+    key_length = np.where(length_free, 1.0, b.length)
+    key = np.vstack([key_length, *(np.asarray(value, float).reshape(len(b), -1).T
+                                   for name, value in vars(b).items() if name != "length")])
+    first, group = distinct_rows(key)
+    if first.size == len(b):
+        return _solve_all(b, tables, surface_model)
+    states = _solve_all(ItemBatch(**{name: value[first] for name, value in vars(b).items()}),
+                        tables, surface_model)
+    shared = ItemStates(**{name: value[group] for name, value in vars(states).items()})
+    # A length-free item's run against its representative's.
+    with np.errstate(invalid="ignore", divide="ignore"):
+        scale = np.where(length_free, b.length / b.length[first][group], 1.0)
+    shared.heat_loss = shared.heat_loss * scale
+    shared.outer_area = shared.outer_area * scale
+    return shared
+
+
+def _solve_all(b: ItemBatch, tables: ConductivityTables, surface_model: str) -> ItemStates:
+    n = len(b)
     reasons = _invalid_reasons(b, tables, surface_model)
     ok = reasons == ""
     elements = _build_elements(b, np.flatnonzero(ok))

@@ -222,3 +222,24 @@ def test_repeated_items_get_the_answers_of_the_item_solved_alone():
     np.testing.assert_allclose(doubled.heat_loss[horizontal_pipe], 2.0 * alone.heat_loss[horizontal_pipe],
                                rtol=1e-12)
     np.testing.assert_array_equal(doubled.surface_temp, alone.surface_temp)
+
+
+def test_sharing_answers_never_hides_a_bad_length():
+    # Horizontal pipes are grouped whatever their length; a length that is missing, zero or
+    # negative must still reject its own item, and only that one.
+    good = random_batch(23, 50)
+    good.fitting_length = np.zeros(50)
+    pipes = np.flatnonzero((good.shape == PIPE) & (good.orientation == 0))
+    bad = pipes[:3]
+    broken = ItemBatch(**vars(good))
+    broken.length = good.length.copy()
+    broken.length[bad] = [np.nan, 0.0, -2.0]
+    # The broken items first, then the same items whole: equal but for the length.
+    both = ItemBatch(**{name: (None if value is None else
+                               np.concatenate([np.asarray(getattr(broken, name)), np.asarray(value)]))
+                        for name, value in vars(good).items()})
+    states = solve_items(both, TABLES)
+    rejected = np.flatnonzero(states.reason != "")
+    assert set(rejected) == set(bad)
+    assert all("length must be above zero" in r for r in states.reason[rejected])
+    np.testing.assert_array_equal(states.heat_loss[50:], solve_items(good, TABLES).heat_loss)
