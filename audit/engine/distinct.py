@@ -20,31 +20,36 @@ _MULTIPLIER = np.uint64(0x9E3779B97F4A7C15)  # 2**64 / golden ratio, a common ha
 _SHIFT = np.uint64(31)
 
 
-def distinct_rows(columns: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+def distinct_rows(columns) -> tuple[np.ndarray, np.ndarray]:
     """Representatives and group of each row of a key table.
 
     Parameters
     ----------
-    columns : numpy.ndarray, shape (c, m)
-        The key, one row per key column (column-major, so each column is contiguous), of
-        any 8-byte dtype (float64, int64, uint64).
+    columns : sequence of numpy.ndarray, each shape (m,), or numpy.ndarray, shape (c, m)
+        The key, column by column, each of an 8-byte dtype (float64, int64, uint64).
 
     Returns
     -------
     first : numpy.ndarray of int, shape (g,)
         Position of one representative row per group.
     group : numpy.ndarray of int, shape (m,)
-        Group of each row: ``columns[:, first[group]]`` equals ``columns`` bit for bit.
+        Group of each row: every column at ``first[group]`` equals the column, bit for bit.
     """
-    columns = np.ascontiguousarray(columns)
-    if columns.dtype.itemsize != 8:
-        raise TypeError(f"distinct_rows needs an 8-byte dtype, not {columns.dtype}")
-    m = columns.shape[1]
+    bits = []
+    for column in columns:
+        column = np.ascontiguousarray(column)
+        if column.dtype.itemsize != 8 or column.ndim != 1:
+            raise TypeError(f"distinct_rows needs 1-d columns of an 8-byte dtype, not "
+                            f"{column.dtype} of shape {column.shape}")
+        bits.append(column.view(np.uint64))
+    if not bits or any(b.size != bits[0].size for b in bits):
+        raise ValueError("distinct_rows needs one or more columns of one length")
+    m = bits[0].size
     if m == 0:
         return np.empty(0, int), np.empty(0, int)
     # Columns that hold one value throughout (a scenario's air, unused layer slots) cannot
     # tell rows apart: leave them out of the hash and the comparison.
-    varying = [c for c in columns.view(np.uint64) if not (c == c[0]).all()]
+    varying = [b for b in bits if not (b == b[0]).all()]
     h = np.full(m, np.uint64(0xCBF29CE484222325))  # any non-zero start
     with np.errstate(over="ignore"):
         for column in varying:
@@ -52,6 +57,8 @@ def distinct_rows(columns: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
             h *= _MULTIPLIER
             h ^= h >> _SHIFT
     group, uniques = pd.factorize(h)
+    if uniques.size == m:
+        return np.arange(m), np.arange(m)  # all apart: nothing to verify
     first = np.full(uniques.size, m)
     np.minimum.at(first, group, np.arange(m))
     representative = first[group]

@@ -48,6 +48,10 @@ ORIENTATION_CODES = {"horizontal": HORIZONTAL, "vertical": VERTICAL, "up": FACIN
 # Element roles within an item.
 MAIN, HEAD, FITTING = range(3)
 
+#: Equal items or elements are solved once when they leave at most this share distinct;
+#: above it, gathering the distinct ones costs more than solving the repeats.
+_WORTH_SHARING = 0.8
+
 
 @dataclass
 class ItemBatch:
@@ -139,10 +143,12 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     length_free = ((b.shape == PIPE) & (b.orientation == HORIZONTAL) & (b.fitting_length == 0)
                    & np.isfinite(b.length) & (b.length > 0))
     key_length = np.where(length_free, 1.0, b.length)
-    key = np.vstack([key_length, *(np.asarray(value, float).reshape(len(b), -1).T
-                                   for name, value in vars(b).items() if name != "length")])
+    key = [key_length]
+    for name, value in vars(b).items():
+        if name != "length":
+            key.extend(np.asarray(value, float).reshape(len(b), -1).T)
     first, group = distinct_rows(key)
-    if first.size == len(b):
+    if first.size > _WORTH_SHARING * len(b):
         return _solve_all(b, tables, surface_model)
     states = _solve_all(ItemBatch(**{name: value[first] for name, value in vars(b).items()}),
                         tables, surface_model)
@@ -422,13 +428,12 @@ def _solve_distinct(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surfac
     uses_length = ~np.isin(e.kind, [surface.HORIZONTAL_CYLINDER, surface.SPHERE])
     plate = np.isin(e.kind, [surface.VERTICAL_PLATE, surface.HORIZONTAL_PLATE_UP,
                              surface.HORIZONTAL_PLATE_DOWN])
-    key = np.vstack([
-        b.t_process[item], b.t_air[item], b.t_surroundings[item], b.wind[item], e.kind,
-        e.emissivity, e.iso_ca, e.iso_cb, r_inner, w.outer_area, w.radii[:, -1],
-        np.where(uses_length, e.length, 0.0), np.where(plate, e.flow_length, 0.0),
-        *w.conductance.T, *np.where(w.present, e.layer_table, -1).T])
+    key = [b.t_process[item], b.t_air[item], b.t_surroundings[item], b.wind[item], e.kind,
+           e.emissivity, e.iso_ca, e.iso_cb, r_inner, w.outer_area, w.radii[:, -1],
+           np.where(uses_length, e.length, 0.0), np.where(plate, e.flow_length, 0.0),
+           *w.conductance.T, *np.where(w.present, e.layer_table, -1).T]
     first, group = distinct_rows(key)
-    if first.size == item.size:
+    if first.size > _WORTH_SHARING * item.size:
         return _solve(b, e, w, tables, surface_model, r_inner)
     sub_e = _Elements(**{name: value[first] for name, value in vars(e).items()})
     sub_w = _WallGeometry(**{name: value[first] for name, value in vars(w).items()})

@@ -31,6 +31,8 @@ from audit.engine.conduction import ConductivityTables
 BALANCE_TOLERANCE = 1e-6
 #: Surface-temperature step of the forward difference for the surface model's slope [K].
 _STEP = 1e-4
+#: A working set this small is swept whole rather than gathered anew.
+_SMALL_SET = 4096
 
 
 @dataclass
@@ -87,8 +89,8 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
     Notes
     -----
     The root finder starts from a linearised series network (conductivities at the mean of
-    process and air temperature, 10 W/(m2 K) at the surface), then takes safeguarded Newton
-    steps (module docstring), so every element converges.  Converged elements leave
+    process and air temperature, the surface model's coefficient), then takes safeguarded
+    Newton steps (module docstring), so every element converges.  Converged elements leave
     the working set, so the sweeps cost only what is left to solve.
     """
     n, n_layers = conductance.shape
@@ -119,7 +121,7 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
     live = np.ones(rows.size, bool)
     iterations = 0
     for iterations in range(1, max_iter + 1):
-        if rows.size == 0:
+        if not live.any():
             break
         x = np.where(np.isfinite(x) & (x > low) & (x < high), x, 0.5 * (low + high))
         state, df = walls.march(x, slope=True)
@@ -139,7 +141,9 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
                 step = np.where(np.abs(f) > 0.5 * np.abs(f_prev), 0.5 * (low + high), step)
         f_prev = f
         x = np.where(live, step, x)
-        if live.sum() < 0.75 * rows.size:
+        # Gathering the working set anew costs a rebuild of the surface model: worth it
+        # while the set is large, not for the few stragglers at the end.
+        if live.sum() < 0.75 * rows.size and rows.size > _SMALL_SET:
             keep = live
             rows = rows[keep]
             walls = walls_of(rows)
@@ -167,7 +171,9 @@ def _first_estimate(walls, t_air):
     """Surface temperature of the linearised series network [K] (see Notes of solve_walls).
 
     Conductivities at the mean of process and air temperature, 10 W/(m2 K) at the surface
-    (a typical combined coefficient): only a starting point for the root finder.
+    (a typical combined coefficient) at first, then the surface model's own coefficient at
+    that surface temperature: only a starting point for the root finder, but one that saves
+    it about a quarter of its work.
     """
     t_mean = 0.5 * (walls.t_process + t_air)
     resistance = walls.r_inner.copy()
@@ -178,6 +184,11 @@ def _first_estimate(walls, t_air):
             with np.errstate(divide="ignore", invalid="ignore"):
                 resistance[rows] += 1.0 / (g * walls.tables.conductivity(tab, t_mean[rows]))
     r_surface = 1.0 / (10.0 * walls.outer_area)
+    x = t_air + (walls.t_process - t_air) * r_surface / (r_surface + resistance)
+    q_conv, q_rad = walls.flux(x)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        h = (q_conv + q_rad) / (x - t_air)
+        r_surface = np.where(np.isfinite(h) & (h > 0), 1.0 / (h * walls.outer_area), r_surface)
     return t_air + (walls.t_process - t_air) * r_surface / (r_surface + resistance)
 
 

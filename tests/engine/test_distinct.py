@@ -1,6 +1,7 @@
 """Distinct rows of a key table (audit/engine/distinct.py): exact grouping, never merging."""
 
 import numpy as np
+import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from hypothesis.extra import numpy as hnp
@@ -51,3 +52,9 @@ def test_integer_keys_and_empty_tables():
     assert list(group) == [0, 0, 1]
     first, group = distinct.distinct_rows(np.empty((2, 0)))
     assert first.size == 0 and group.size == 0
+    first, group = distinct.distinct_rows([np.array([1.0, 1.0]), np.array([2, 2])])
+    assert list(first) == [0] and list(group) == [0, 0]
+    with pytest.raises(TypeError, match="8-byte"):
+        distinct.distinct_rows([np.array([1, 2], dtype=np.int32)])
+    with pytest.raises(ValueError, match="one length"):
+        distinct.distinct_rows([np.ones(2), np.ones(3)])
