@@ -52,16 +52,20 @@ def conductance_factor(geometry, r1, r2):
         G [1/m for a plane, - for a cylinder per metre, m for a sphere]; ``inf`` for a layer
         of zero thickness, which then carries heat with no temperature drop.
     """
-    geometry = np.asarray(geometry)
-    r1 = np.asarray(r1, float)
-    r2 = np.asarray(r2, float)
+    geometry, r1, r2 = np.broadcast_arrays(np.asarray(geometry), np.asarray(r1, float),
+                                           np.asarray(r2, float))
     thickness = r2 - r1
+    g = np.full(thickness.shape, np.inf)
+    layer = thickness != 0.0
+    plane = layer & (geometry == PLANE)
+    cylinder = layer & (geometry == CYLINDER)
+    sphere = layer & (geometry != PLANE) & (geometry != CYLINDER)
+    # Each form only where it applies: the logarithm is the costly part.
     with np.errstate(divide="ignore", invalid="ignore"):
-        plane = 1.0 / thickness
-        cylinder = 2.0 * np.pi / np.log(r2 / r1)
-        sphere = 4.0 * np.pi / (1.0 / r1 - 1.0 / r2)
-    g = np.select([geometry == PLANE, geometry == CYLINDER], [plane, cylinder], sphere)
-    return np.where(thickness == 0.0, np.inf, g)
+        g[plane] = 1.0 / thickness[plane]
+        g[cylinder] = 2.0 * np.pi / np.log(r2[cylinder] / r1[cylinder])
+        g[sphere] = 4.0 * np.pi / (1.0 / r1[sphere] - 1.0 / r2[sphere])
+    return g
 
 
 def outer_area_factor(geometry, r_out):

@@ -12,17 +12,20 @@ from pathlib import Path
 
 import pandas as pd
 
+from audit.io.writers.csv_fast import write_frame_csv
 from audit.io.writers.safety import neutralise_frame
 
 
 def write_csv(results: pd.DataFrame, path: Path) -> Path:
     """UTF-8 CSV with a header row; empty cells for missing numbers.
 
-    Lines end in CRLF (RFC 4180), which also makes the csv writer quote any cell holding a
-    carriage return, so a register's multi-line cell reads back as one cell.
+    Lines end in CRLF (RFC 4180), which also makes the writer quote any cell holding a
+    carriage return, so a register's multi-line cell reads back as one cell.  The bytes are
+    those ``DataFrame.to_csv`` writes for the neutralised table;
+    :func:`~audit.io.writers.csv_fast.write_frame_csv` writes them several times faster,
+    which a 100,000-item register needs.
     """
-    neutralise_frame(results).to_csv(path, index=False, encoding="utf-8", lineterminator="\r\n")
-    return path
+    return write_frame_csv(neutralise_frame(results), path)
 
 
 def write_json(results: pd.DataFrame, path: Path, *, meta: dict | None = None) -> Path:
