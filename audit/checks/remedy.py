@@ -5,7 +5,8 @@ of the item table, by one layer of the remedy material (intact, fittings covered
 checks are evaluated again on the copies, for the whole register at once.  Thicker insulation
 only helps the fixable checks (a cooler hot surface, a warmer cold one, less heat, more
 thickness against the specification), so the smallest passing standard thickness is found by
-bisection over the standard list: about log2(n) rounds instead of n.  Each round re-evaluates
+bisection over the standard list: about log2(n) rounds instead of n, then one more round for
+the items that need the thickest (to tell them from those that no standard thickness fixes).  Each round re-evaluates
 only the checks each item failed, plus ``layer-overheat`` (the remedy material must stand the
 temperature).  (Below the critical radius of insulation, heat loss can rise with thickness;
 on such small lines the heat-loss check is the one exception, and the remedy found is then
@@ -62,16 +63,19 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     candidates = np.flatnonzero(searchable)
     low = np.zeros(candidates.size, int)
     high = np.full(candidates.size, standard.size - 1)
-    solvable = passes(candidates, high)
-    candidates, low, high = candidates[solvable], low[solvable], high[solvable]
     while candidates.size and (low < high).any():
         open_ = low < high
         mid = (low + high) // 2
         ok = passes(candidates[open_], mid[open_])
         high[np.flatnonzero(open_)[ok]] = mid[open_][ok]
         low[np.flatnonzero(open_)[~ok]] = mid[open_][~ok] + 1
+    # The thickest standard thickness is never tried by the bisection (mid < high): the
+    # items that end there are tried at it last, and have no remedy if they fail it.
+    top = np.flatnonzero(high == standard.size - 1)
+    solvable = np.ones(candidates.size, bool)
+    solvable[top] = passes(candidates[top], high[top])
     thickness = np.full(rows.size, np.nan)
-    thickness[candidates] = standard[high]
+    thickness[candidates[solvable]] = standard[high[solvable]]
     has_material = searchable
 
     out = findings.copy()
