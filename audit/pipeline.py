@@ -52,6 +52,10 @@ def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlation
     """Run the audit on an item table whose names are already resolved."""
     params = validate_checks(rules) if params is None else params
     economic_rules = load_economic_rules(()) if economic_rules is None else economic_rules
+    # pandas deep-copies ``attrs`` (the reader's summary) into every table an operation makes;
+    # the audit does not read it, and thousands of copies add up.
+    table = table.copy(deep=False)
+    table.attrs = {}
     context = CheckContext(table, rules, surface_model=surface_model)
     findings = run_checks(context, params)
     findings = fill_remedies(context, findings, check_kinds(), params)

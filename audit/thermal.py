@@ -189,16 +189,18 @@ class PreparedItems:
         return self._with(np.ones(rows.size, bool),
                           {name: value[at] for name, value in self.fixed.items()}, at)
 
-    def reinsulated(self, materials, thickness_m) -> PreparedItems:
+    def reinsulated(self, materials, thickness_m, *, cover_fittings: bool = True) -> PreparedItems:
         """Every row insulated with one intact layer of ``materials`` [name] and
-        ``thickness_m`` [m] instead of what it has, fittings covered (not wet, not damaged)."""
+        ``thickness_m`` [m] instead of what it has (not wet, not damaged); its uninsulated
+        fittings covered too, unless ``cover_fittings`` is False."""
         n = int(self.accepted.sum())
         fixed = dict(self.fixed)
         fixed["layer_table"] = map_values(materials, self.index, -1, dtype=int).reshape(n, 1)
         fixed["layer_thickness"] = np.broadcast_to(np.asarray(thickness_m, float), n).reshape(n, 1)
         fixed["layer_factor"] = np.ones((n, 1))
         fixed["bare_fraction"] = np.zeros(n)
-        fixed["fitting_length"] = np.zeros(n)
+        if cover_fittings:
+            fixed["fitting_length"] = np.zeros(n)
         return self._with(self.accepted, fixed)
 
 
@@ -229,21 +231,29 @@ def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None
         were rejected; ``computed`` (bool), ``engine_reason`` and ``engine_warnings``.
     """
     if tables is None:
-        tables, index = conductivity_tables(rules)
-    else:
-        tables, index = tables
+        tables = conductivity_tables(rules)
     if prepared is None:
-        prepared = prepare_items(table, rules, index)
-    ok = prepared.accepted
-    if ok.size != len(table):
+        prepared = prepare_items(table, rules, tables[1])
+    if prepared.accepted.size != len(table):
         raise ValueError("thermal_states: the prepared items belong to another table")
+    return prepared_states(prepared, rules, site=site, surface_model=surface_model,
+                           tables=tables, index=table.index)
+
+
+def prepared_states(prepared: PreparedItems, rules: Rules, *, site: str | None = None,
+                    surface_model: str = "correlations", tables=None, index=None) -> pd.DataFrame:
+    """:func:`thermal_states` of prepared items, for callers that have no table of them (a
+    trial derived with :meth:`PreparedItems.take` and :meth:`PreparedItems.reinsulated`);
+    ``index`` labels the rows (default 0, 1, ...)."""
+    tables = conductivity_tables(rules)[0] if tables is None else tables[0]
+    ok = prepared.accepted
     batch, conditions = site_batch(prepared, rules, site)
     states = solve_items(batch, tables, surface_model=surface_model) if ok.any() else None
     n_layers = batch.layer_table.shape[1]
     out = {}
 
     def put(name, values, fill=np.nan):
-        column = np.full(len(table), fill, dtype=object if isinstance(fill, str) else float)
+        column = np.full(ok.size, fill, dtype=object if isinstance(fill, str) else float)
         column[ok] = values
         out[name] = column
 
@@ -256,8 +266,8 @@ def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None
             put(name, np.empty(0))
         put("engine_reason", np.empty(0, object), "")
         put("engine_warnings", np.empty(0, object), "")
-        out["computed"] = np.zeros(len(table), bool)
-        return pd.DataFrame(out, index=table.index)
+        out["computed"] = np.zeros(ok.size, bool)
+        return pd.DataFrame(out, index=index)
     put("surface_temp_K", states.surface_temp)
     put("surface_temp_insulated_K", states.surface_temp_insulated)
     for j in range(n_layers + 1):
@@ -271,10 +281,10 @@ def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None
     put("balance_error", states.balance_error)
     put("engine_reason", states.reason, "")
     put("engine_warnings", states.warnings, "")
-    computed = np.zeros(len(table), bool)
+    computed = np.zeros(ok.size, bool)
     computed[ok] = states.converged
     out["computed"] = computed
-    return pd.DataFrame(out, index=table.index)
+    return pd.DataFrame(out, index=index)
 
 
 def prepare_items(table: pd.DataFrame, rules: Rules, index: dict[str, int] | None = None) -> PreparedItems:

@@ -12,9 +12,9 @@ Parameters (at least one is required):
     A factor (>= 1): the item's heat loss against the same item insulated to its plant
     specification, i.e. the specification's thickness of the specification's material, intact
     and dry (see :mod:`audit.checks.below_spec` for which specification governs an item).  The
-    reference is computed with the engine on a modified copy of the item table under the same
-    site, keeping the item's jacket, emissivity and uninsulated fittings (bare valves and
-    flanges are the ``condition`` check's concern, and added thickness cannot fix them).
+    reference is computed with the engine on the item re-insulated, under the same site,
+    keeping the item's jacket, emissivity and uninsulated fittings (bare valves and flanges
+    are the ``condition`` check's concern, and added thickness cannot fix them).
     Items for which the specification asks for nothing are not compared, nor items whose
     reference the engine cannot compute (e.g. a bare item with no jacket to assume).
 
@@ -33,7 +33,7 @@ from audit.checks.base import CheckKind, findings
 from audit.checks.below_spec import requirement
 from audit.errors import RuleError
 from audit.rules.converters import quantity
-from audit.thermal import resolve_names, thermal_states
+from audit.thermal import prepared_states
 
 NAME = "heat-loss-limit"
 
@@ -42,39 +42,23 @@ _UNITS = {"per_m": "W/m", "per_m2": "W/m2", "multiple_of_spec": "times spec"}
 _REMEDY = "add insulation to bring the heat loss within the limit"
 
 
-def specified_copy(table: pd.DataFrame, need) -> pd.DataFrame:
-    """The item table with every row that has a requirement insulated exactly to it.
-
-    Rows without a requirement are marked rejected so that the engine skips them.
-    """
-    out = table.copy()
-    has = need.thickness_m > 0
-    layers = out["layer_materials"].to_numpy(object).copy()
-    thick = out["layer_thicknesses_m"].to_numpy(object).copy()
-    for i in np.flatnonzero(has):
-        layers[i] = (need.material[i],)
-        thick[i] = (float(need.thickness_m[i]),)
-    out["layer_materials"] = layers
-    out["layer_thicknesses_m"] = thick
-    out.loc[has, "condition"] = "intact"
-    out.loc[has, "damaged_pct"] = np.nan
-    out.loc[~has, "status"] = "rejected"
-    return out
-
-
 def reference_heat_loss(context, check) -> tuple[np.ndarray, object]:
     """Heat loss [W] of every row insulated to its specification (NaN where not computed)."""
     states = context.states(check.site)
     need = requirement(context.table, context.rules, states["process_temp_K"].to_numpy(float),
                        states["air_temp_K"].to_numpy(float))
     q_ref = np.full(len(context.table), np.nan)
-    if not (need.thickness_m > 0).any():
+    prepared = context.prepared()
+    rows = np.flatnonzero((need.thickness_m > 0) & prepared.accepted)
+    if not rows.size:
         return q_ref, need
-    copy = resolve_names(specified_copy(context.table, need), context.rules, notes=False)
-    ref = thermal_states(copy, context.rules, site=check.site or None,
-                         surface_model=context.surface_model, tables=context.tables())
+    # The item as it is but for its insulation: jacket, emissivity and bare fittings kept.
+    specified = prepared.take(rows).reinsulated(need.material[rows], need.thickness_m[rows],
+                                                cover_fittings=False)
+    ref = prepared_states(specified, context.rules, site=check.site or None,
+                          surface_model=context.surface_model, tables=context.tables())
     computed = ref["computed"].to_numpy(bool)
-    q_ref[computed] = ref["heat_loss_W"].to_numpy(float)[computed]
+    q_ref[rows[computed]] = ref["heat_loss_W"].to_numpy(float)[computed]
     return q_ref, need
 
 

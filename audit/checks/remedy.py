@@ -122,7 +122,7 @@ def _remedy_material(context: CheckContext, rows: np.ndarray) -> np.ndarray:
 
 def _insulated_copy(table: pd.DataFrame, rows: np.ndarray, material: np.ndarray, thickness):
     """Rows ``rows`` of ``table`` re-insulated with one intact layer each, fittings covered."""
-    trial = table.iloc[rows].reset_index(drop=True).copy()
+    trial = table.iloc[rows].reset_index(drop=True)  # iloc has copied already
     trial["layer_materials"] = [(m,) for m in material]
     trial["layer_thicknesses_m"] = [(float(t),) for t in np.broadcast_to(thickness, len(trial))]
     trial["condition"] = "intact"
