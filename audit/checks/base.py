@@ -13,6 +13,7 @@ from dataclasses import dataclass, field
 import numpy as np
 import pandas as pd
 
+from audit.engine.distinct import distinct_rows
 from audit.errors import Problem, RuleError
 from audit.rules import Check, Rules
 from audit.thermal import ZERO_CELSIUS, PreparedItems, conductivity_tables, prepare_items, thermal_states
@@ -150,22 +151,37 @@ def validated_params(check: Check, kind: CheckKind) -> dict:
     return values
 
 
+def per_distinct(function: Callable, *columns) -> np.ndarray:
+    """``function(*cells)`` of every row's cells in ``columns``, called once per distinct
+    combination (a register repeats a few hundred): an object array, one value per row.
+
+    Cells compare by value; missing cells (None, NaN) are one value and reach ``function``
+    as NaN.  ``columns`` are equally long 1-d numpy arrays (object arrays may hold tuples).
+    """
+    factorized = [pd.factorize(np.asarray(c), use_na_sentinel=False) for c in columns]
+    first, group = distinct_rows([codes.astype(np.int64) for codes, _ in factorized])
+    values = np.empty(first.size, dtype=object)
+    for k, i in enumerate(first):  # one by one: a tuple result stays one object
+        values[k] = function(*(uniques[codes[i]] for codes, uniques in factorized))
+    return values[group]
+
+
+def has_layers(table: pd.DataFrame) -> np.ndarray:
+    """Per row of the item table: whether it lists at least one insulation layer."""
+    return per_distinct(lambda m: isinstance(m, tuple) and len(m) > 0,
+                        table["layer_materials"].to_numpy(object)).astype(bool)
+
+
 def bare_parts(table: pd.DataFrame):
     """Per row of the item table: has it a bare metal part, and which, in words.
 
-    Fittings count on pipes only, as the engine counts them (see ``audit.thermal``).  Each
-    distinct combination of the cells involved is worded once.
+    Fittings count on pipes only, as the engine counts them (see ``audit.thermal``).
     """
-    layers = table["layer_materials"].to_numpy(object)
-    keys = list(zip(
-        [isinstance(x, tuple) and bool(x) for x in layers],
-        table["condition"].fillna("").to_numpy(object),
-        np.nan_to_num(table["damaged_pct"].to_numpy(float), nan=-1.0),  # NaN would not dedupe
-        (table["shape"] == "pipe").to_numpy(),
-        np.nan_to_num(table["valves"].to_numpy(float)),
-        np.nan_to_num(table["flanges"].to_numpy(float))))
-    codes, uniques = pd.factorize(pd.Series(keys, dtype=object))
-    words = np.array([_bare_words(*key) for key in uniques], dtype=object)[codes]
+    words = per_distinct(
+        _bare_words, has_layers(table), table["condition"].fillna("").to_numpy(object),
+        np.nan_to_num(table["damaged_pct"].to_numpy(float), nan=-1.0),
+        (table["shape"] == "pipe").to_numpy(), np.nan_to_num(table["valves"].to_numpy(float)),
+        np.nan_to_num(table["flanges"].to_numpy(float)))
     return words != "", words
 
 

@@ -28,9 +28,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-import pandas as pd
 
-from audit.checks.base import CheckKind, findings
+from audit.checks.base import CheckKind, findings, per_distinct
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
 from audit.thermal import ZERO_CELSIUS
 
@@ -144,10 +143,8 @@ def requirement(table, rules, process_temp_k, air_temp_k) -> Requirement:
 
 def installed_thickness(table) -> np.ndarray:
     """Total installed insulation thickness [m] of each row; 0 when bare or missing."""
-    # One sum per distinct tuple of thicknesses: a register repeats a few dozen of them.
-    codes, uniques = pd.factorize(table["layer_thicknesses_m"].to_numpy(object))
-    sums = np.array([float(sum(x)) if isinstance(x, tuple) else 0.0 for x in uniques] + [0.0])
-    total = sums[codes]  # code -1 (missing) takes the appended 0
+    total = per_distinct(lambda x: float(sum(x)) if isinstance(x, tuple) else 0.0,
+                         table["layer_thicknesses_m"].to_numpy(object)).astype(float)
     return np.where(table["condition"].to_numpy(object) == "missing", 0.0, total)
 
 

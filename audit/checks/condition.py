@@ -22,7 +22,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, findings
+from audit.checks.base import CheckKind, findings, has_layers, per_distinct
 from audit.rules.converters import choice, list_of, quantity
 
 NAME = "condition"
@@ -43,6 +43,25 @@ def _plural(n: int, word: str) -> str:
     return f"{n} uninsulated {word}{'' if n == 1 else 's'}"
 
 
+def _words(missing, damaged, wet, fittings, share, valves, flanges) -> tuple[str, str]:
+    """(message, remedy) of one item's condition finding."""
+    parts, actions = [], []
+    if missing:
+        parts.append("insulation missing: 100 % of the length bare")
+        actions.append(REINSTATE)
+    if damaged:
+        parts.append(f"damaged: {share:g} % of the length bare")
+        actions.append(REINSTATE)
+    if wet:
+        parts.append("wet insulation")
+        actions.append(DRY_OUT)
+    if fittings:
+        parts.extend(_plural(int(n), word) for n, word in ((valves, "valve"), (flanges, "flange"))
+                     if n > 0)
+        actions.append(COVERS)
+    return "; ".join(parts), "; ".join(dict.fromkeys(actions))
+
+
 def evaluate(context, check, params):
     table = context.table
     flags = set(params["flags"])
@@ -55,7 +74,7 @@ def evaluate(context, check, params):
     share = table["damaged_pct"].to_numpy(float)
     valves = table["valves"].to_numpy(float)
     flanges = table["flanges"].to_numpy(float)
-    insulated = np.array([isinstance(m, tuple) and len(m) > 0 for m in table["layer_materials"]])
+    insulated = has_layers(table)
 
     missing = chosen & ("missing" in flags) & (condition == "missing")
     with np.errstate(invalid="ignore"):
@@ -65,24 +84,10 @@ def evaluate(context, check, params):
                 & (valves + flanges >= least))
     rows = np.flatnonzero(missing | damaged | wet | fittings)
 
-    messages, remedies = [], []
-    for r in rows:
-        parts, actions = [], []
-        if missing[r]:
-            parts.append("insulation missing: 100 % of the length bare")
-            actions.append(REINSTATE)
-        if damaged[r]:
-            parts.append(f"damaged: {share[r]:g} % of the length bare")
-            actions.append(REINSTATE)
-        if wet[r]:
-            parts.append("wet insulation")
-            actions.append(DRY_OUT)
-        if fittings[r]:
-            parts.extend(_plural(int(n), word) for n, word in
-                         ((valves[r], "valve"), (flanges[r], "flange")) if n > 0)
-            actions.append(COVERS)
-        messages.append("; ".join(parts))
-        remedies.append("; ".join(dict.fromkeys(actions)))
+    worded = per_distinct(_words, missing[rows], damaged[rows], wet[rows], fittings[rows],
+                          share[rows], valves[rows], flanges[rows])
+    messages = [m for m, _ in worded]
+    remedies = [r for _, r in worded]
 
     if flags == {"fittings"}:
         value, limit, unit = (valves + flanges)[rows], float(least), "fittings"

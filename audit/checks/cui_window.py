@@ -42,7 +42,7 @@ import datetime
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckKind, findings
+from audit.checks.base import CheckKind, findings, has_layers
 from audit.io.readers.headers import normalise_name, split_unit
 from audit.rules import SEVERITIES
 from audit.rules.converters import list_of, quantity, rows, temperature, text
@@ -228,7 +228,7 @@ def evaluate(context, check, params):
     chosen = (table["status"] == "ok").to_numpy()
     if check.applies_to is not None:
         chosen = chosen & check.applies_to.mask(table)
-    insulated = np.array([isinstance(m, tuple) and len(m) > 0 for m in table["layer_materials"]])
+    insulated = has_layers(table)
     condition = table["condition"].to_numpy(object)
     chosen = chosen & insulated & np.isin(condition, CONDITIONS)
 

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, findings
+from audit.checks.base import CheckKind, findings, per_distinct
 from audit.thermal import ZERO_CELSIUS
 
 NAME = "layer-overheat"
@@ -25,7 +25,8 @@ def evaluate(context, check, params):
     worst_temp = np.full(len(table), np.nan)
     worst_limit = np.full(len(table), np.nan)
     worst_name = np.full(len(table), "", dtype=object)
-    n_layers = max((len(m) for m in materials if isinstance(m, tuple)), default=0)
+    n_layers = per_distinct(lambda m: len(m) if isinstance(m, tuple) else 0,
+                            materials).astype(int).max(initial=0)
     max_temp = {name: m.max_temp for name, m in context.rules.materials.items()}
     missing = table["condition"].to_numpy(object) == "missing"
     for j in range(n_layers):
@@ -33,9 +34,9 @@ def evaluate(context, check, params):
         if column not in states:
             break
         hot_face = states[column].to_numpy(float)
-        names = np.array([m[j] if isinstance(m, tuple) and len(m) > j else "" for m in materials],
-                         dtype=object)
-        limit = np.array([max_temp.get(x, np.nan) for x in names], float)
+        names = per_distinct(lambda m: m[j] if isinstance(m, tuple) and len(m) > j else "",
+                             materials)
+        limit = per_distinct(lambda name: max_temp.get(name, np.nan), names).astype(float)
         with np.errstate(invalid="ignore"):
             excess = hot_face - limit
         better = selected & ~missing & np.isfinite(excess) & (excess > worst_excess)

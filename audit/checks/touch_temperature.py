@@ -19,7 +19,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, bare_parts, findings
+from audit.checks.base import CheckKind, bare_parts, findings, per_distinct
 from audit.errors import RuleError
 from audit.rules.converters import boolean, quantity, rows, temperature
 from audit.thermal import ZERO_CELSIUS
@@ -36,17 +36,15 @@ def insulated_surface_class(table, rules):
     thermal glue does); a row with only an emissivity is taken as metal (assumed = True).
     """
     default = rules.defaults.get("jacket", "")
-    jackets = table["jacket"].fillna("").to_numpy(object)
-    has_eps = np.isfinite(table["emissivity"].to_numpy(float))
-    kind = np.full(len(table), "metal", dtype=object)
-    assumed = np.zeros(len(table), bool)
-    for i, name in enumerate(jackets):
-        name = name or ("" if has_eps[i] else default)
-        if name in rules.jackets:
-            kind[i] = rules.jackets[name].surface
-        else:
-            assumed[i] = True
-    return kind, assumed
+
+    def surface(name, has_eps):
+        name = name or ("" if has_eps else default)
+        return (rules.jackets[name].surface, False) if name in rules.jackets else ("metal", True)
+
+    classes = per_distinct(surface, table["jacket"].fillna("").to_numpy(object),
+                           np.isfinite(table["emissivity"].to_numpy(float)))
+    return (np.array([k for k, _ in classes], dtype=object),
+            np.array([a for _, a in classes], dtype=bool))
 
 
 def _limits(check, params):
