@@ -22,7 +22,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckContext
+from audit.checks.base import CheckContext, per_distinct
 from audit.checks.below_spec import requirement
 
 
@@ -85,17 +85,16 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     remedy = out["remedy"].to_numpy(object).copy()
     mm = thickness[i] * 1000.0
     biggest = standard[-1] * 1000.0
-    texts = []
-    for base, mat, known, value in zip(remedy[at], material[i], has_material[i], mm):
+    def text(base, mat, known, value):
         if not known:
-            texts.append(f"{base}; no remedy material known (no specification for the service and "
-                         "no insulation installed): insulate per the plant specification")
-        elif np.isnan(value):
-            texts.append(f"{base}; no standard thickness of {mat} up to {biggest:.0f} mm clears "
-                         "every check: engineer a solution")
-        else:
-            texts.append(f"insulate with {value:.3g} mm of {mat} (replacing what is there)")
-    remedy[at] = texts
+            return (f"{base}; no remedy material known (no specification for the service and "
+                    "no insulation installed): insulate per the plant specification")
+        if np.isnan(value):
+            return (f"{base}; no standard thickness of {mat} up to {biggest:.0f} mm clears "
+                    "every check: engineer a solution")
+        return f"insulate with {value:.3g} mm of {mat} (replacing what is there)"
+
+    remedy[at] = per_distinct(text, remedy[at], material[i], has_material[i], mm)
     out["remedy"] = remedy
     thick = out["remedy_thickness [mm]"].to_numpy(float).copy()
     thick[at] = mm
@@ -121,10 +120,16 @@ def _remedy_material(context: CheckContext, rows: np.ndarray) -> np.ndarray:
 
 
 def _insulated_copy(table: pd.DataFrame, rows: np.ndarray, material: np.ndarray, thickness):
-    """Rows ``rows`` of ``table`` re-insulated with one intact layer each, fittings covered."""
-    trial = table.iloc[rows].reset_index(drop=True)  # iloc has copied already
-    trial["layer_materials"] = [(m,) for m in material]
-    trial["layer_thicknesses_m"] = [(float(t),) for t in np.broadcast_to(thickness, len(trial))]
+    """Rows ``rows`` of ``table`` re-insulated with one intact layer each, fittings covered.
+
+    The register's raw cells (``raw:`` columns) are left out: no check that the search
+    re-evaluates reads them, and no rule selector can name them.
+    """
+    kept = [c for c in table.columns if not str(c).startswith("raw:")]
+    trial = table[kept].iloc[rows].reset_index(drop=True)  # iloc has copied already
+    trial["layer_materials"] = per_distinct(lambda m: (m,), material)
+    trial["layer_thicknesses_m"] = per_distinct(
+        lambda t: (float(t),), np.broadcast_to(np.asarray(thickness, float), len(trial)))
     trial["condition"] = "intact"
     trial["damaged_pct"] = np.nan
     trial["valves"] = 0
