@@ -45,6 +45,9 @@ class CheckContext:
     table: pd.DataFrame
     rules: Rules
     surface_model: str = "correlations"
+    #: Only which rows fail is wanted (the remedy search): the checks that insulation can fix
+    #: return :func:`failing_rows` instead of worded findings.
+    rows_only: bool = False
     _states: dict = field(default_factory=dict)
     _tables: tuple | None = None
     _prepared: PreparedItems | None = None
@@ -115,6 +118,12 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
         "remedy_thickness [mm]": np.nan,
         "remedy_material": "",
     }, columns=FINDING_COLUMNS)
+
+
+def failing_rows(rows) -> pd.DataFrame:
+    """A findings table that holds only its ``row`` column: the answer of a check evaluated
+    with ``CheckContext.rows_only``, which skips wording what the caller will not read."""
+    return pd.DataFrame({"row": np.asarray(rows, int)})
 
 
 def empty_findings() -> pd.DataFrame:

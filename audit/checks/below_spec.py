@@ -29,7 +29,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from audit.checks.base import CheckKind, findings, per_distinct
+from audit.checks.base import CheckKind, failing_rows, findings, per_distinct
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
 from audit.thermal import ZERO_CELSIUS
 
@@ -158,6 +158,8 @@ def evaluate(context, check, params):
     bare = asked & (have <= 0)
     thin = asked & (have < need.thickness_m - need.tolerance_m - _EDGE_M)
     rows = np.flatnonzero(context.selected(check) & (bare | thin))
+    if context.rows_only:
+        return failing_rows(rows)
     required_mm = need.thickness_m[rows] * 1000.0
     installed_mm = have[rows] * 1000.0
     process = states["process_temp_K"].to_numpy(float)[rows] - ZERO_CELSIUS

@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, bare_parts, findings
+from audit.checks.base import CheckKind, bare_parts, failing_rows, findings
 from audit.engine.psychrometrics import dew_point_hyland_wexler
 from audit.rules.converters import temperature_difference
 from audit.thermal import ZERO_CELSIUS
@@ -53,6 +53,8 @@ def evaluate(context, check, params):
         cold = process < air
         fails = selected & cold & np.isfinite(limit) & (coldest < limit)
     flagged = np.flatnonzero(fails)
+    if context.rows_only:
+        return failing_rows(flagged)
     has_bare, bare_words = bare_parts(table)
     bare_is_coldest = has_bare & ~(insulated <= worst)
 

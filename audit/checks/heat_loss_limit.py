@@ -29,7 +29,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckKind, findings
+from audit.checks.base import CheckKind, failing_rows, findings
 from audit.checks.below_spec import requirement
 from audit.errors import RuleError
 from audit.rules.converters import quantity
@@ -94,6 +94,8 @@ def evaluate(context, check, params):
             ratios[:, k] = np.where(selected & (values[key] > limits[key]), ratio, -np.inf)
     worst = np.argmax(ratios, axis=1)
     over = np.isfinite(ratios.max(axis=1))
+    if context.rows_only:
+        return failing_rows(np.flatnonzero(over))
     keys = list(values)
     frames = []
     for k, key in enumerate(keys):

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, findings, per_distinct
+from audit.checks.base import CheckKind, failing_rows, findings, per_distinct
 from audit.thermal import ZERO_CELSIUS
 
 NAME = "layer-overheat"
@@ -45,6 +45,8 @@ def evaluate(context, check, params):
         worst_limit[better] = limit[better]
         worst_name[better] = names[better]
     rows = np.flatnonzero(worst_excess > 0)
+    if context.rows_only:
+        return failing_rows(rows)
     message = [f"{worst_name[r]} hot face at {worst_temp[r] - ZERO_CELSIUS:.0f} degC, above its "
                f"maximum use temperature of {worst_limit[r] - ZERO_CELSIUS:.0f} degC" for r in rows]
     return findings(context, check, rows, value=worst_temp[rows] - ZERO_CELSIUS,

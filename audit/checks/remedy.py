@@ -53,7 +53,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
             picked, mats, thick = rows[at[sub]], material[at[sub]], standard[index[sub]]
             trial_context = CheckContext(
                 _insulated_copy(table, picked, mats, thick), rules,
-                surface_model=context.surface_model, _tables=context.tables(),
+                surface_model=context.surface_model, rows_only=True, _tables=context.tables(),
                 _prepared=context.prepared().take(picked).reinsulated(mats, thick))
             found = kinds[check.kind].evaluate(trial_context, check, params[check.name])
             ok[sub[found["row"].to_numpy(int)]] = False

@@ -19,7 +19,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, bare_parts, findings, per_distinct
+from audit.checks.base import CheckKind, bare_parts, failing_rows, findings, per_distinct
 from audit.errors import RuleError
 from audit.rules.converters import boolean, quantity, rows, temperature
 from audit.thermal import ZERO_CELSIUS
@@ -94,6 +94,8 @@ def evaluate(context, check, params):
     bare_is_worse = bare_excess >= ins_excess
     excess = np.maximum(ins_excess, bare_excess)
     flagged = np.flatnonzero(selected & (excess > 0))
+    if context.rows_only:
+        return failing_rows(flagged)
 
     value = np.where(bare_is_worse, worst, ins_temp)[flagged] - ZERO_CELSIUS
     limit = np.where(bare_is_worse, limit_metal, insulated_limit)[flagged] - ZERO_CELSIUS

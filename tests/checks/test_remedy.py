@@ -76,3 +76,26 @@ def test_no_check_findings_on_rejected_rows(tmp_path):
     path.write_text("tag,nps,length,temp,layers\nBAD,4,10,TBA,none\n", encoding="utf-8")
     audit = audit_register([path])
     assert audit.results["status"][0] == "rejected" and audit.findings.empty
+
+
+def test_rows_only_contexts_fail_the_same_rows_as_worded_findings(rules):
+    # The remedy search asks its trials for failing rows only (CheckContext.rows_only): every
+    # check must name the same rows that its worded findings name, on the demo plant.
+    from audit.io.readers import read_register
+    from audit.shipped import shipped_dir
+    from audit.thermal import resolve_names
+
+    folder = shipped_dir("sample_data")
+    table = resolve_names(read_register([folder / "demo_line_list.xlsx",
+                                         folder / "demo_equipment.xlsx"], aliases=rules.aliases), rules)
+    kinds, params = check_kinds(), validate_checks(rules)
+    worded, bare = CheckContext(table, rules), CheckContext(table, rules, rows_only=True)
+    compared = 0
+    for check in rules.checks.values():
+        if not check.enabled:
+            continue
+        full = kinds[check.kind].evaluate(worded, check, params[check.name])
+        rows = kinds[check.kind].evaluate(bare, check, params[check.name])
+        assert sorted(rows["row"]) == sorted(full["row"]), check.name
+        compared += len(full)
+    assert compared > 0
