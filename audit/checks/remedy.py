@@ -42,6 +42,9 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     failed = {c.name: np.isin(rows, fixable_findings.loc[fixable_findings["check"] == c.name, "row"])
               if c.kind != "layer-overheat" else np.ones(rows.size, bool) for c in recheck}
     standard = np.asarray(rules.thicknesses, float)
+    # The register's raw cells (``raw:`` columns) stay out of the trials: no check that the
+    # search re-evaluates reads them, and no rule selector can name them.
+    cooked = table.drop(columns=[c for c in table.columns if str(c).startswith("raw:")])
 
     def passes(at: np.ndarray, index: np.ndarray) -> np.ndarray:
         """Whether rows[at] pass every re-checked check at standard[index]."""
@@ -52,7 +55,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
                 continue
             picked, mats, thick = rows[at[sub]], material[at[sub]], standard[index[sub]]
             trial_context = CheckContext(
-                _insulated_copy(table, picked, mats, thick), rules,
+                _insulated_copy(cooked, picked, mats, thick), rules,
                 surface_model=context.surface_model, rows_only=True, _tables=context.tables(),
                 _prepared=context.prepared().take(picked).reinsulated(mats, thick))
             found = kinds[check.kind].evaluate(trial_context, check, params[check.name])
@@ -120,13 +123,8 @@ def _remedy_material(context: CheckContext, rows: np.ndarray) -> np.ndarray:
 
 
 def _insulated_copy(table: pd.DataFrame, rows: np.ndarray, material: np.ndarray, thickness):
-    """Rows ``rows`` of ``table`` re-insulated with one intact layer each, fittings covered.
-
-    The register's raw cells (``raw:`` columns) are left out: no check that the search
-    re-evaluates reads them, and no rule selector can name them.
-    """
-    kept = [c for c in table.columns if not str(c).startswith("raw:")]
-    trial = table[kept].iloc[rows].reset_index(drop=True)  # iloc has copied already
+    """Rows ``rows`` of ``table`` re-insulated with one intact layer each, fittings covered."""
+    trial = table.iloc[rows].reset_index(drop=True)  # iloc has copied already
     trial["layer_materials"] = per_distinct(lambda m: (m,), material)
     trial["layer_thicknesses_m"] = per_distinct(
         lambda t: (float(t),), np.broadcast_to(np.asarray(thickness, float), len(trial)))
