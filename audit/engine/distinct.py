@@ -35,27 +35,14 @@ def distinct_rows(columns) -> tuple[np.ndarray, np.ndarray]:
     group : numpy.ndarray of int, shape (m,)
         Group of each row: every column at ``first[group]`` equals the column, bit for bit.
     """
-    bits = []
-    for column in columns:
-        column = np.ascontiguousarray(column)
-        if column.dtype.itemsize != 8 or column.ndim != 1:
-            raise TypeError(f"distinct_rows needs 1-d columns of an 8-byte dtype, not "
-                            f"{column.dtype} of shape {column.shape}")
-        bits.append(column.view(np.uint64))
-    if not bits or any(b.size != bits[0].size for b in bits):
-        raise ValueError("distinct_rows needs one or more columns of one length")
+    bits = _bits(columns)
     m = bits[0].size
     if m == 0:
         return np.empty(0, int), np.empty(0, int)
     # Columns that hold one value throughout (a scenario's air, unused layer slots) cannot
     # tell rows apart: leave them out of the hash and the comparison.
     varying = [b for b in bits if not (b == b[0]).all()]
-    h = np.full(m, np.uint64(0xCBF29CE484222325))  # any non-zero start
-    with np.errstate(over="ignore"):
-        for column in varying:
-            h ^= column
-            h *= _MULTIPLIER
-            h ^= h >> _SHIFT
+    h = _hash(varying, m)
     group, uniques = pd.factorize(h)
     if uniques.size == m:
         return np.arange(m), np.arange(m)  # all apart: nothing to verify
@@ -72,3 +59,36 @@ def distinct_rows(columns) -> tuple[np.ndarray, np.ndarray]:
         group[lone] = uniques.size + np.arange(lone.size)
         first = np.concatenate([first, lone])
     return first, group
+
+
+def distinct_count(columns) -> int:
+    """How many distinct rows ``columns`` hold (as for :func:`distinct_rows`), counted by
+    hash alone: rows whose hashes collide count once, so the count is never above the truth,
+    and a count above a threshold proves that the rows are at least that varied."""
+    bits = _bits(columns)
+    return pd.unique(_hash(bits, bits[0].size)).size
+
+
+def _bits(columns) -> list[np.ndarray]:
+    """The columns as unsigned 64-bit views, checked."""
+    bits = []
+    for column in columns:
+        column = np.ascontiguousarray(column)
+        if column.dtype.itemsize != 8 or column.ndim != 1:
+            raise TypeError(f"distinct_rows needs 1-d columns of an 8-byte dtype, not "
+                            f"{column.dtype} of shape {column.shape}")
+        bits.append(column.view(np.uint64))
+    if not bits or any(b.size != bits[0].size for b in bits):
+        raise ValueError("distinct_rows needs one or more columns of one length")
+    return bits
+
+
+def _hash(bits: list[np.ndarray], m: int) -> np.ndarray:
+    """A 64-bit hash of each of the m rows of the columns ``bits``."""
+    h = np.full(m, np.uint64(0xCBF29CE484222325))  # any non-zero start
+    with np.errstate(over="ignore"):
+        for column in bits:
+            h ^= column
+            h *= _MULTIPLIER
+            h ^= h >> _SHIFT
+    return h

@@ -28,7 +28,7 @@ from audit.engine import geometry, surface
 from audit.engine.air import T_MAX as AIR_T_MAX
 from audit.engine.air import T_MIN as AIR_T_MIN
 from audit.engine.conduction import ConductivityTables
-from audit.engine.distinct import distinct_rows
+from audit.engine.distinct import distinct_count, distinct_rows
 from audit.engine.geometry import CYLINDER, PLANE, SPHERE
 from audit.engine.solver import WallSolution, solve_walls
 
@@ -140,6 +140,8 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     each distinct wall element is solved once as well.
     """
     b = _complete(batch)
+    if not _may_repeat([b.t_process, b.od]):
+        return _solve_all(b, tables, surface_model)
     length_free = ((b.shape == PIPE) & (b.orientation == HORIZONTAL) & (b.fitting_length == 0)
                    & np.isfinite(b.length) & (b.length > 0))
     key_length = np.where(length_free, 1.0, b.length)
@@ -159,6 +161,13 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     shared.heat_loss = shared.heat_loss * scale
     shared.outer_area = shared.outer_area * scale
     return shared
+
+
+def _may_repeat(columns) -> bool:
+    """Whether rows keyed on ``columns`` among others can leave few enough distinct to share:
+    a whole key has at least as many distinct rows as a few of its columns, and counting
+    those is cheap next to hashing them all (a register of random values stops here)."""
+    return distinct_count(columns) <= _WORTH_SHARING * len(columns[0])
 
 
 def _solve_all(b: ItemBatch, tables: ConductivityTables, surface_model: str) -> ItemStates:
@@ -425,6 +434,8 @@ def _solve_distinct(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surfac
     """
     item = e.item
     r_inner = _inner_resistance(b, e)
+    if not _may_repeat([b.t_process[item], w.radii[:, -1]]):
+        return _solve(b, e, w, tables, surface_model, r_inner)
     uses_length = ~np.isin(e.kind, [surface.HORIZONTAL_CYLINDER, surface.SPHERE])
     plate = np.isin(e.kind, [surface.VERTICAL_PLATE, surface.HORIZONTAL_PLATE_UP,
                              surface.HORIZONTAL_PLATE_DOWN])

@@ -58,3 +58,13 @@ def test_integer_keys_and_empty_tables():
         distinct.distinct_rows([np.array([1, 2], dtype=np.int32)])
     with pytest.raises(ValueError, match="one length"):
         distinct.distinct_rows([np.ones(2), np.ones(3)])
+
+
+def test_distinct_count_never_exceeds_the_true_count():
+    rng = np.random.default_rng(5)
+    a = rng.choice([0.0, 1.0, 2.0], 500)
+    b = rng.choice([10.0, np.nan], 500)
+    true = len({(x, "nan" if y != y else y) for x, y in zip(a, b)})
+    assert distinct.distinct_count([a, b]) == true  # no collisions at this size
+    # Forced collisions can only lower the count.
+    assert distinct.distinct_count([a]) <= true
