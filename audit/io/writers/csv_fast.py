@@ -43,14 +43,22 @@ _TIGHT = 1e-9  # margin in units of the 17th digit: only exact or near ties go t
 _E_MIN, _E_MAX = -4, 15  # repr writes 1e-4 <= |x| < 1e16 without an exponent
 
 
-def write_frame_csv(frame: pd.DataFrame, path: Path) -> Path:
-    """``frame`` as UTF-8 CSV without its index, CRLF line ends; the bytes ``to_csv`` writes."""
+def write_frame_csv(frame: pd.DataFrame, path: Path, *, text=None) -> Path:
+    """``frame`` as UTF-8 CSV without its index, CRLF line ends; the bytes ``to_csv`` writes.
+
+    ``text``, if given, rewrites each column label (as ``str``) and each text cell (a cell of
+    type ``str`` in an object column, every present cell of a string column) before it is
+    quoted, once per distinct text: the bytes are then those of ``to_csv`` on the rewritten
+    frame (:func:`audit.io.writers.safety.neutralise_text` makes text inert in a spreadsheet).
+    """
+    if text is not None:
+        frame = frame.set_axis([text(str(c)) for c in frame.columns], axis=1)
     if frame.shape[1] == 0 or isinstance(frame.columns, pd.MultiIndex):
         frame.to_csv(path, index=False, encoding="utf-8", lineterminator="\r\n")
         return path
     header = frame.iloc[:0].to_csv(None, index=False, lineterminator="\r\n")
     try:
-        segments = _segments(frame)
+        segments = _segments(frame, text)
     except csv.Error:  # a fallback column's cell beyond the csv module's field size limit
         frame.to_csv(path, index=False, encoding="utf-8", lineterminator="\r\n")
         return path
@@ -73,7 +81,7 @@ def quote(text: str) -> str:
     return text
 
 
-def _segments(frame: pd.DataFrame) -> list:
+def _segments(frame: pd.DataFrame, text=None) -> list:
     """Functions ``(start, stop) -> list of texts``, one per run of float64 columns (the texts
     of several cells, comma-joined) or per other column, in column order."""
     segments, run = [], []
@@ -85,7 +93,7 @@ def _segments(frame: pd.DataFrame) -> list:
         if run:
             segments.append(_float_block(run))
             run = []
-        segments.append(_column_texts(series))
+        segments.append(_column_texts(series, text))
     if run:
         segments.append(_float_block(run))
     return segments
@@ -116,7 +124,7 @@ def float_texts(values: np.ndarray) -> list[str]:
     return [bytes(row).rstrip(b"\0").decode("ascii") for row in chars]
 
 
-def _column_texts(series: pd.Series):
+def _column_texts(series: pd.Series, text=None):
     """A function ``(start, stop) -> list of finished cell texts`` for one column."""
     dtype = series.dtype
     numpy = isinstance(dtype, np.dtype)
@@ -127,22 +135,28 @@ def _column_texts(series: pd.Series):
         texts = np.where(series.to_numpy(), "True", "False").astype(object)
         return lambda start, stop: texts[start:stop].tolist()
     if isinstance(dtype, pd.StringDtype):
-        return _by_text(series.array)
+        return _by_text(series.array, text)
     if numpy and dtype == object:
         values = series.to_numpy(object)
         missing = pd.isna(values)
         # the csv module writes a str as it is and anything else as str(); missing is empty
         texts = np.array(["" if gone else v if isinstance(v, str) else str(v)
                           for v, gone in zip(values, missing)], dtype=object)
+        if text is not None:  # only cells that are exactly str are text to rewrite
+            exact = np.fromiter((type(v) is str for v in values), bool, len(values)) & ~missing
+            texts[exact] = [text(v) for v in texts[exact]]
         return _by_text(texts)
     return _by_pandas(series)
 
 
-def _by_text(values):
-    """Cell texts of a text column (str or missing), each distinct text quoted once."""
+def _by_text(values, text=None):
+    """Cell texts of a text column (str or missing), each distinct text rewritten by ``text``
+    (if given) and quoted once."""
     codes, uniques = pd.factorize(values)
-    quoted = np.array([quote(u) for u in np.asarray(uniques, dtype=object).tolist()] + [""],
-                      dtype=object)  # code -1: missing
+    uniques = np.asarray(uniques, dtype=object).tolist()
+    if text is not None:
+        uniques = [text(u) for u in uniques]
+    quoted = np.array([quote(u) for u in uniques] + [""], dtype=object)  # code -1: missing
     return lambda start, stop: quoted[codes[start:stop]].tolist()
 
 

@@ -13,7 +13,7 @@ from pathlib import Path
 import pandas as pd
 
 from audit.io.writers.csv_fast import write_frame_csv
-from audit.io.writers.safety import neutralise_frame
+from audit.io.writers.safety import neutralise_text
 
 
 def write_csv(results: pd.DataFrame, path: Path) -> Path:
@@ -21,11 +21,12 @@ def write_csv(results: pd.DataFrame, path: Path) -> Path:
 
     Lines end in CRLF (RFC 4180), which also makes the writer quote any cell holding a
     carriage return, so a register's multi-line cell reads back as one cell.  The bytes are
-    those ``DataFrame.to_csv`` writes for the neutralised table;
+    those ``DataFrame.to_csv`` writes for the neutralised table
+    (:func:`~audit.io.writers.safety.neutralise_frame`), neutralised as they are written;
     :func:`~audit.io.writers.csv_fast.write_frame_csv` writes them several times faster,
     which a 100,000-item register needs.
     """
-    return write_frame_csv(neutralise_frame(results), path)
+    return write_frame_csv(results, path, text=neutralise_text)
 
 
 def write_json(results: pd.DataFrame, path: Path, *, meta: dict | None = None) -> Path:
