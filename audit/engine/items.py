@@ -144,11 +144,23 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
         return _solve_all(b, tables, surface_model)
     length_free = ((b.shape == PIPE) & (b.orientation == HORIZONTAL) & (b.fitting_length == 0)
                    & np.isfinite(b.length) & (b.length > 0))
-    key_length = np.where(length_free, 1.0, b.length)
-    key = [key_length]
+    # Inputs an item neither uses nor checks are left out of its key (NaN for all): the
+    # finish of a part it does not have, the area of a round item, the heads of a pipe.
+    covered = (b.layer_table >= 0).any(axis=1)
+    has_cover = covered & (b.bare_fraction < 1)
+    bare_part = (b.bare_fraction > 0) | ~covered | (b.fitting_length > 0)
+    vessel = np.isin(b.shape, [VERTICAL_VESSEL, HORIZONTAL_VESSEL])
+    unused = {"area": b.shape != FLAT, "heads": ~vessel,
+              **{name: ~has_cover for name in ("emissivity", "iso_ca", "iso_cb")},
+              **{name: ~bare_part for name in ("bare_emissivity", "bare_iso_ca", "bare_iso_cb")}}
+    key = [np.where(length_free, 1.0, b.length)]  # 1 m: any run, the answer per metre
     for name, value in vars(b).items():
-        if name != "length":
-            key.extend(np.asarray(value, float).reshape(len(b), -1).T)
+        if name == "length":
+            continue
+        value = np.asarray(value, float).reshape(len(b), -1)
+        if name in unused:
+            value = np.where(unused[name][:, None], np.nan, value)
+        key.extend(value.T)
     first, group = distinct_rows(key)
     if first.size > _WORTH_SHARING * len(b):
         return _solve_all(b, tables, surface_model)

@@ -243,3 +243,29 @@ def test_sharing_answers_never_hides_a_bad_length():
     assert set(rejected) == set(bad)
     assert all("length must be above zero" in r for r in states.reason[rejected])
     np.testing.assert_array_equal(states.heat_loss[50:], solve_items(good, TABLES).heat_loss)
+
+
+@pytest.mark.parametrize("field, value, same", [
+    ("bare_emissivity", 0.9, False),   # a damaged item has a bare part: its finish counts
+    ("emissivity", 0.2, False),        # ... and an insulated part
+    ("area", 5.0, True),               # a pipe has no area
+    ("heads", 1, True),                # ... nor heads
+    ("length", 33.0, False),           # its fittings do not grow with the run
+])
+def test_items_are_shared_only_when_every_input_they_use_agrees(field, value, same):
+    # Two damaged pipes with uninsulated fittings, alike but for one input, each repeated
+    # (so that the engine shares answers): each must get what it gets alone.
+    base = dict(shape=[PIPE], od=[0.1143], length=[12.0], area=[np.nan], heads=[3],
+                orientation=[0], t_process=[C + 180], t_air=[C + 10], t_surroundings=[C + 10],
+                wind=[2.0], emissivity=[0.5], bare_emissivity=[0.3], layer_table=[[0]],
+                layer_thickness=[[0.05]], layer_factor=[[1.0]], bare_fraction=[0.25],
+                fitting_length=[1.5])
+    other = dict(base, **{field: [value]})
+    one, two = (ItemBatch(**{k: np.asarray(v) for k, v in d.items()}) for d in (base, other))
+    alone = [solve_items(b, TABLES) for b in (one, two)]
+    both = ItemBatch(**{k: np.concatenate([np.asarray(base[k])] * 20 + [np.asarray(other[k])] * 20)
+                        for k in base})
+    states = solve_items(both, TABLES)
+    np.testing.assert_array_equal(states.heat_loss[:20], alone[0].heat_loss[0])
+    np.testing.assert_array_equal(states.heat_loss[20:], alone[1].heat_loss[0])
+    assert (alone[0].heat_loss[0] == alone[1].heat_loss[0]) == same
