@@ -16,7 +16,8 @@ import numpy as np
 
 from audit.economics.energy import yearly
 from audit.economics.repair import insulation_cost
-from audit.thermal import thermal_states
+from audit.engine.items import shared_items
+from audit.thermal import prepared_states, site_batch
 
 
 def annuity_factor(interest, years):
@@ -107,20 +108,28 @@ def economic_thickness(context, economic_rules, *, site, hours_h, material):
     if rows.size == 0 or candidates.size == 0:
         return out
     items = table.iloc[rows].reset_index(drop=True)
-    # The engine solves each distinct thermal problem once (audit.engine.distinct): a register
-    # repeats sizes, temperatures and conditions, so re-solving it per candidate is cheap.
     prepared = context.prepared().take(rows)
+    # Every item gets the same thickness at each candidate, so the items that can share one
+    # solve (the engine's shared_items: equal inputs, or pipe runs that differ in length only)
+    # are the same at every candidate: group them once, solve the representatives only.
+    probe, _ = site_batch(prepared.reinsulated(material[rows], candidates[0]), rules, site or None)
+    sharing = shared_items(probe)
+    first, group, scale = sharing if sharing is not None else \
+        (np.arange(rows.size), np.arange(rows.size), np.ones(rows.size))
+    representatives = prepared.take(first)
     shape = items["shape"].to_numpy(object)
     heat_cost = np.full((rows.size, candidates.size), np.nan)
     investment = np.full((rows.size, candidates.size), np.nan)
     for k, t in enumerate(candidates):
-        got = thermal_states(items, rules, site=site or None, surface_model=context.surface_model,
-                             tables=context.tables(), prepared=prepared.reinsulated(material[rows], t))
-        heat = np.where(got["computed"].to_numpy(bool), got["heat_loss_W"].to_numpy(float), np.nan)
+        got = prepared_states(representatives.reinsulated(material[rows][first], t), rules,
+                              site=site or None, surface_model=context.surface_model,
+                              tables=context.tables())
+        computed = got["computed"].to_numpy(bool)[group]
+        heat = np.where(computed, got["heat_loss_W"].to_numpy(float)[group] * scale, np.nan)
         heat_cost[:, k] = yearly(heat, hours_h[rows], economic_rules)["cost"]
         investment[:, k] = insulation_cost(economic_rules.repair, shape, items["od_m"].to_numpy(float),
                                            items["length_m"].to_numpy(float),
-                                           got["outer_area_m2"].to_numpy(float), t)
+                                           got["outer_area_m2"].to_numpy(float)[group] * scale, t)
     annuity = float(annuity_factor(economic_rules.interest, economic_rules.life))
     out[rows] = cheapest(candidates, heat_cost, investment, annuity)[0]
     return out

@@ -134,14 +134,45 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
 
     Notes
     -----
-    Each distinct item is solved once and its answer shared (:mod:`audit.engine.distinct`);
-    horizontal pipes without uninsulated fittings count as equal whatever their length, since
-    every answer of theirs is per metre or in proportion to the run.  Within the items solved,
-    each distinct wall element is solved once as well.
+    Each distinct item is solved once and its answer shared (:func:`shared_items`, grouping
+    by :mod:`audit.engine.distinct`).  Within the items solved, each distinct wall element is
+    solved once as well.
+    """
+    b = _complete(batch)
+    sharing = shared_items(b)
+    if sharing is None:
+        return _solve_all(b, tables, surface_model)
+    first, group, scale = sharing
+    states = _solve_all(take_items(b, first), tables, surface_model)
+    shared = ItemStates(**{name: value[group] for name, value in vars(states).items()})
+    shared.heat_loss = shared.heat_loss * scale
+    shared.outer_area = shared.outer_area * scale
+    return shared
+
+
+def take_items(batch: ItemBatch, rows: np.ndarray) -> ItemBatch:
+    """The items ``rows`` of ``batch`` (positions, repeats allowed) as a batch of their own."""
+    return ItemBatch(**{name: (None if value is None else np.asarray(value)[rows])
+                        for name, value in vars(batch).items()})
+
+
+def shared_items(batch: ItemBatch):
+    """Which items of ``batch`` can share one solve, if enough can to be worth it.
+
+    Items share when every input they use is equal; horizontal pipes without uninsulated
+    fittings whatever their length, since every answer of theirs is per metre or in
+    proportion to the run.
+
+    Returns
+    -------
+    tuple of numpy.ndarray or None
+        ``(first, group, scale)``: the representative items, each item's group, and the
+        factor [-] that turns its representative's heat loss and outer area into its own (the
+        ratio of run lengths, else 1); None when at most a fifth of the items would be saved.
     """
     b = _complete(batch)
     if not _may_repeat([b.t_process, b.od]):
-        return _solve_all(b, tables, surface_model)
+        return None
     length_free = ((b.shape == PIPE) & (b.orientation == HORIZONTAL) & (b.fitting_length == 0)
                    & np.isfinite(b.length) & (b.length > 0))
     # Inputs an item neither uses nor checks are left out of its key (NaN for all): the
@@ -163,16 +194,10 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
         key.extend(value.T)
     first, group = distinct_rows(key)
     if first.size > _WORTH_SHARING * len(b):
-        return _solve_all(b, tables, surface_model)
-    states = _solve_all(ItemBatch(**{name: value[first] for name, value in vars(b).items()}),
-                        tables, surface_model)
-    shared = ItemStates(**{name: value[group] for name, value in vars(states).items()})
-    # A length-free item's run against its representative's.
+        return None
     with np.errstate(invalid="ignore", divide="ignore"):
         scale = np.where(length_free, b.length / b.length[first][group], 1.0)
-    shared.heat_loss = shared.heat_loss * scale
-    shared.outer_area = shared.outer_area * scale
-    return shared
+    return first, group, scale
 
 
 def _may_repeat(columns) -> bool:
