@@ -6,8 +6,8 @@ interest rate, and added to the yearly cost of the heat that still flows through
 thickness with the smallest sum is the economic one.  Here the candidates are the rules'
 standard thicknesses (``[thicknesses]``), the insulation is one intact layer of the item's
 specification material (else its outermost installed material), fittings are left out (they
-are the same at every thickness), and the heat is the engine's, under the energy site.  The
-whole register is solved once per candidate thickness.
+are the same at every thickness), and the heat is the engine's, under the energy site.  Each
+distinct item (see ``audit.engine.items.shared_items``) is solved once per candidate thickness.
 """
 
 from __future__ import annotations
