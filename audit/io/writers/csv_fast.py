@@ -184,6 +184,21 @@ def _float_into(values: np.ndarray, chars: np.ndarray) -> None:
     """``repr`` of each float64 written into the rows of ``chars`` (n x 24 bytes), NUL-padded;
     NaN as an all-NUL row.
 
+    A column that repeats its values (temperatures, thicknesses, conditions of a scenario) is
+    formatted once per distinct value, told apart by its bits (so -0.0 stays apart from 0.0).
+    """
+    codes, uniques = pd.factorize(np.asarray(values, np.float64).view(np.uint64))
+    if uniques.size <= values.size // 2:
+        once = np.empty((uniques.size, chars.shape[1]), np.uint8)
+        _float_into_each(uniques.view(np.float64), once)
+        chars[:] = once[codes]
+        return
+    _float_into_each(values, chars)
+
+
+def _float_into_each(values: np.ndarray, chars: np.ndarray) -> None:
+    """:func:`_float_into`, value by value.
+
     ``|x|`` in [1e-4, 1e16) (printed without an exponent) is done for the whole array at once:
     Dekker's exact product gives ``x * 10**(16 - e)`` as an integer and a fraction, the 15-,
     16- and 17-digit decimals nearest to ``x`` follow from it, and the first that reads back as

@@ -201,3 +201,10 @@ def test_text_rewritten_while_writing_equals_the_rewritten_frame(frame):
         path = Path(folder) / "fast.csv"
         write_frame_csv(frame, path, text=neutralise_text)
         assert path.read_bytes() == pandas_bytes(neutralise_frame(frame))
+
+
+def test_float_texts_of_repeated_values_are_reprs():
+    # Columns that repeat their values are formatted once per distinct bit pattern: -0.0 and
+    # 0.0 compare equal but print differently, and NaN prints as an empty cell.
+    values = np.array([0.0, -0.0, np.nan, 1e-05, 2.5, 1e16, -0.0, 0.1, np.inf] * 40, np.float64)
+    assert float_texts(values) == ["" if v != v else repr(v) for v in values.tolist()]
