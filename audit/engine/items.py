@@ -171,10 +171,11 @@ def shared_items(batch: ItemBatch):
         ratio of run lengths, else 1); None when at most a fifth of the items would be saved.
     """
     b = _complete(batch)
-    if not _may_repeat([b.t_process, b.od]):
-        return None
     length_free = ((b.shape == PIPE) & (b.orientation == HORIZONTAL) & (b.fitting_length == 0)
                    & np.isfinite(b.length) & (b.length > 0))
+    run = np.where(length_free, 1.0, b.length)  # 1 m: any run, the answer per metre
+    if not _may_repeat([b.t_process, b.od, run, b.fitting_length, b.layer_thickness[:, 0]]):
+        return None
     # Inputs an item neither uses nor checks are left out of its key (NaN for all): the
     # finish of a part it does not have, the area of a round item, the heads of a pipe.
     covered = (b.layer_table >= 0).any(axis=1)
@@ -184,7 +185,7 @@ def shared_items(batch: ItemBatch):
     unused = {"area": b.shape != FLAT, "heads": ~vessel,
               **{name: ~has_cover for name in ("emissivity", "iso_ca", "iso_cb")},
               **{name: ~bare_part for name in ("bare_emissivity", "bare_iso_ca", "bare_iso_cb")}}
-    key = [np.where(length_free, 1.0, b.length)]  # 1 m: any run, the answer per metre
+    key = [run]
     for name, value in vars(b).items():
         if name == "length":
             continue
