@@ -133,7 +133,8 @@ def _read_csv(path: Path, lookup: Lookup) -> RawSheet:
     header = _csv_rows([head_lines[header_index]], delimiter)[0]
     body = text[_line_start(text, header_index + 1):]
     data = _csv_body(path, body, delimiter)
-    _refuse_unclosed_quotes(path, data, [h.strip() for h in header], lookup, header_index + 1)
+    if '"' in body:  # without a quote no cell can hold a line break
+        _refuse_unclosed_quotes(path, data, [h.strip() for h in header], lookup, header_index + 1)
     decimal_comma = delimiter != "," and bool(_DECIMAL_COMMA.search(body[:100_000]))
     sheet = finish(path, "", [h.strip() for h in header], None, data, header_index + 1,
                     decimal_comma)
