@@ -163,13 +163,17 @@ def evaluate(context, check, params):
     required_mm = need.thickness_m[rows] * 1000.0
     installed_mm = have[rows] * 1000.0
     process = states["process_temp_K"].to_numpy(float)[rows] - ZERO_CELSIUS
+    # Python floats in the loops, not numpy scalars: tens of thousands of rows.
+    spec, material = need.spec[rows].tolist(), need.material[rows].tolist()
     message = [
-        ("no insulation installed" if bare[r] else f"{mm:.0f} mm installed")
-        + f"; the {need.spec[r]} specification asks for {req:.0f} mm of {need.material[r]} "
-          f"at {t:.0f} degC (tolerance {need.tolerance_m[r] * 1000:.0f} mm)"
-        for r, mm, req, t in zip(rows, installed_mm, required_mm, process)]
-    remedy = [f"insulate to specification: {req:.0f} mm of {need.material[r]}"
-              for r, req in zip(rows, required_mm)]
+        ("no insulation installed" if none else f"{mm:.0f} mm installed")
+        + f"; the {s} specification asks for {req:.0f} mm of {m} at {t:.0f} degC "
+          f"(tolerance {tol:.0f} mm)"
+        for none, mm, s, req, m, t, tol in zip(
+            bare[rows].tolist(), installed_mm.tolist(), spec, required_mm.tolist(), material,
+            process.tolist(), (need.tolerance_m[rows] * 1000).tolist())]
+    remedy = [f"insulate to specification: {req:.0f} mm of {m}"
+              for req, m in zip(required_mm.tolist(), material)]
     return findings(context, check, rows, value=installed_mm, limit=required_mm, unit="mm",
                     message=message, remedy=remedy, fixable=True)
 

@@ -59,12 +59,15 @@ def evaluate(context, check, params):
     bare_is_coldest = has_bare & ~(insulated <= worst)
 
     message, remedy = [], []
-    for r in flagged:
-        part = bare_words[r] if bare_is_coldest[r] else "insulated surface"
-        message.append(f"{part} at {coldest[r] - ZERO_CELSIUS:.1f} degC, below the dew point "
-                       f"{dew[r] - ZERO_CELSIUS:.1f} degC + {margin:g} K margin (air "
-                       f"{air[r] - ZERO_CELSIUS:.0f} degC, {rh[r]:.0f} % RH)")
-        remedy.append("insulate the bare parts, with a sealed vapour retarder" if bare_is_coldest[r]
+    # Python floats in the loop, not numpy scalars: tens of thousands of rows.
+    for bare, words, cold_c, dew_c, air_c, rh_r in zip(
+            bare_is_coldest[flagged].tolist(), bare_words[flagged].tolist(),
+            (coldest[flagged] - ZERO_CELSIUS).tolist(), (dew[flagged] - ZERO_CELSIUS).tolist(),
+            (air[flagged] - ZERO_CELSIUS).tolist(), rh[flagged].tolist()):
+        part = words if bare else "insulated surface"
+        message.append(f"{part} at {cold_c:.1f} degC, below the dew point {dew_c:.1f} degC + "
+                       f"{margin:g} K margin (air {air_c:.0f} degC, {rh_r:.0f} % RH)")
+        remedy.append("insulate the bare parts, with a sealed vapour retarder" if bare
                       else "increase insulation thickness, with a sealed vapour retarder")
     return findings(context, check, flagged, value=coldest[flagged] - ZERO_CELSIUS,
                     limit=limit[flagged] - ZERO_CELSIUS, unit="degC",

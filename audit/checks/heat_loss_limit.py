@@ -102,7 +102,7 @@ def evaluate(context, check, params):
         rows = np.flatnonzero(over & (worst == k))
         if not rows.size:
             continue
-        message = [_message(r, keys, values, limits, ratios, heat, need) for r in rows]
+        message = _messages(rows, keys, values, limits, ratios, heat, need)
         frames.append(findings(context, check, rows, value=values[key][rows], limit=limits[key],
                                unit=_UNITS[key], message=message, remedy=_REMEDY, fixable=True))
     if not frames:
@@ -112,20 +112,27 @@ def evaluate(context, check, params):
                                                             ignore_index=True)
 
 
-def _message(r, keys, values, limits, ratios, heat, need) -> str:
-    what = "heat gain" if heat[r] < 0 else "heat loss"
-    parts = []
+def _messages(rows, keys, values, limits, ratios, heat, need) -> list[str]:
+    """One message per row of ``rows``, naming every limit it exceeds (Python floats, not
+    numpy scalars, in the loops: a register has tens of thousands of such rows)."""
+    pieces = []
     for k, key in enumerate(keys):
-        if not np.isfinite(ratios[r, k]):
-            continue
+        shown = np.isfinite(ratios[rows, k]).tolist()
+        value = values[key][rows].tolist()
         if key == "multiple_of_spec":
-            parts.append(f"{values[key][r]:.2f} times that of the item insulated to the "
-                         f"{need.spec[r]} specification ({need.thickness_m[r] * 1000:.0f} mm of "
-                         f"{need.material[r]}), above the limit of {limits[key]:g} times")
+            texts = [f"{x:.2f} times that of the item insulated to the {spec} specification "
+                     f"({mm:.0f} mm of {material}), above the limit of {limits[key]:g} times"
+                     if show else None
+                     for x, spec, mm, material, show in zip(
+                         value, need.spec[rows], (need.thickness_m[rows] * 1000).tolist(),
+                         need.material[rows], shown)]
         else:
-            parts.append(f"{values[key][r]:.1f} {_UNITS[key]}, above the limit of "
-                         f"{limits[key]:g} {_UNITS[key]}")
-    return f"{what} " + "; ".join(parts)
+            texts = [f"{x:.1f} {_UNITS[key]}, above the limit of {limits[key]:g} {_UNITS[key]}"
+                     if show else None for x, show in zip(value, shown)]
+        pieces.append(texts)
+    what = np.where(heat[rows] < 0, "heat gain", "heat loss").tolist()
+    return [f"{w} " + "; ".join(p for p in parts if p is not None)
+            for w, *parts in zip(what, *pieces)]
 
 
 KIND = CheckKind(

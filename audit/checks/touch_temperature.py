@@ -103,14 +103,17 @@ def evaluate(context, check, params):
     contact = params.get("contact_time")
     suffix = f" (contact time {contact:g} s)" if contact is not None else ""
     message, remedy = [], []
-    for r, v, lim in zip(flagged, value, limit):
-        if bare_is_worse[r]:
-            text = f"{bare_words[r]} at {v:.0f} degC, above the {lim:.0f} degC burn limit for metal"
+    # Python values in the loop, not numpy scalars: tens of thousands of rows.
+    for bare, words, surface, guessed, v, lim in zip(
+            bare_is_worse[flagged].tolist(), bare_words[flagged].tolist(), kind[flagged].tolist(),
+            assumed[flagged].tolist(), value.tolist(), limit.tolist()):
+        if bare:
+            text = f"{words} at {v:.0f} degC, above the {lim:.0f} degC burn limit for metal"
             action = "insulate the bare parts"
         else:
-            text = (f"{kind[r]} jacket surface at {v:.0f} degC, above the {lim:.0f} degC burn "
-                    f"limit for {kind[r]} surfaces")
-            if assumed[r]:
+            text = (f"{surface} jacket surface at {v:.0f} degC, above the {lim:.0f} degC burn "
+                    f"limit for {surface} surfaces")
+            if guessed:
                 text += "; no jacket named, only an emissivity: taken as metal (conservative)"
             action = "increase insulation thickness"
         message.append(text + suffix)
