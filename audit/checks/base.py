@@ -51,6 +51,15 @@ class CheckContext:
     _states: dict = field(default_factory=dict)
     _tables: tuple | None = None
     _prepared: PreparedItems | None = None
+    _once: dict = field(default_factory=dict)
+
+    def once(self, function: Callable, *args):
+        """``function(self.table, *args)``, computed once for this context: several checks ask
+        for the same facts of the table (its bare parts, which rows have layers)."""
+        key = (function, *map(id, args))  # the arguments (the rules) need not be hashable
+        if key not in self._once:
+            self._once[key] = (args, function(self.table, *args))  # args kept: ids stay theirs
+        return self._once[key][1]
 
     def tables(self) -> tuple:
         """:func:`audit.thermal.conductivity_tables` of the rules, built once."""

@@ -38,7 +38,6 @@ def _margin(value):
 
 def evaluate(context, check, params):
     margin = params.get("margin", DEFAULT_MARGIN_K)
-    table = context.table
     states = context.states(check.site)
     selected = context.selected(check)
     air = states["air_temp_K"].to_numpy(float)
@@ -55,7 +54,7 @@ def evaluate(context, check, params):
     flagged = np.flatnonzero(fails)
     if context.rows_only:
         return failing_rows(flagged)
-    has_bare, bare_words = bare_parts(table)
+    has_bare, bare_words = context.once(bare_parts)
     bare_is_coldest = has_bare & ~(insulated <= worst)
 
     message, remedy = [], []

@@ -74,7 +74,7 @@ def evaluate(context, check, params):
     share = table["damaged_pct"].to_numpy(float)
     valves = table["valves"].to_numpy(float)
     flanges = table["flanges"].to_numpy(float)
-    insulated = has_layers(table)
+    insulated = context.once(has_layers)
 
     missing = chosen & ("missing" in flags) & (condition == "missing")
     with np.errstate(invalid="ignore"):

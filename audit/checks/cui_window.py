@@ -228,7 +228,7 @@ def evaluate(context, check, params):
     chosen = (table["status"] == "ok").to_numpy()
     if check.applies_to is not None:
         chosen = chosen & check.applies_to.mask(table)
-    insulated = has_layers(table)
+    insulated = context.once(has_layers)
     condition = table["condition"].to_numpy(object)
     chosen = chosen & insulated & np.isin(condition, CONDITIONS)
 

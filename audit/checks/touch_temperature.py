@@ -77,13 +77,12 @@ def _limits(check, params):
 
 def evaluate(context, check, params):
     limit_metal, limit_non_metal = _limits(check, params)
-    table = context.table
     states = context.states(check.site)
     selected = context.selected(check)
     worst = states["surface_temp_K"].to_numpy(float)
     insulated_temp = states["surface_temp_insulated_K"].to_numpy(float)
-    has_bare, bare_words = bare_parts(table)
-    kind, assumed = insulated_surface_class(table, context.rules)
+    has_bare, bare_words = context.once(bare_parts)
+    kind, assumed = context.once(insulated_surface_class, context.rules)
     insulated_limit = np.where(kind == "metal", limit_metal, limit_non_metal)
 
     # The insulated surface: the worst part when nothing is bare, else the main insulated wall.
