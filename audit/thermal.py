@@ -190,12 +190,15 @@ class PreparedItems:
                           {name: value[at] for name, value in self.fixed.items()}, at)
 
     def reinsulated(self, materials, thickness_m, *, cover_fittings: bool = True) -> PreparedItems:
-        """Every row insulated with one intact layer of ``materials`` [name] and
-        ``thickness_m`` [m] instead of what it has (not wet, not damaged); its uninsulated
-        fittings covered too, unless ``cover_fittings`` is False."""
+        """Every row insulated with one intact layer of ``materials`` [name, or its index in
+        ``self.index``] and ``thickness_m`` [m] instead of what it has (not wet, not damaged);
+        its uninsulated fittings covered too, unless ``cover_fittings`` is False."""
         n = int(self.accepted.sum())
         fixed = dict(self.fixed)
-        fixed["layer_table"] = map_values(materials, self.index, -1, dtype=int).reshape(n, 1)
+        materials = np.asarray(materials)
+        table = materials if materials.dtype.kind in "iu" else \
+            map_values(materials, self.index, -1, dtype=int)
+        fixed["layer_table"] = np.broadcast_to(table, n).reshape(n, 1)
         fixed["layer_thickness"] = np.broadcast_to(np.asarray(thickness_m, float), n).reshape(n, 1)
         fixed["layer_factor"] = np.ones((n, 1))
         fixed["bare_fraction"] = np.zeros(n)

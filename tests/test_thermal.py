@@ -103,6 +103,9 @@ def test_prepared_subsets_equal_a_fresh_look_up_of_the_reinsulated_copy(tmp_path
     materials = np.array(["calcium-silicate", "mineral-wool", "cellular-glass"], dtype=object)
     thickness = np.array([0.08, 0.025, 0.1])
     derived = prepare_items(t, rules, tables[1]).take(rows).reinsulated(materials, thickness)
+    by_index = prepare_items(t, rules, tables[1]).take(rows).reinsulated(
+        np.array([tables[1][m] for m in materials]), thickness)
+    np.testing.assert_array_equal(by_index.fixed["layer_table"], derived.fixed["layer_table"])
     copy = _insulated_copy(t, rows, materials, thickness)
     fresh = prepare_items(copy, rules, tables[1])
     for site in (None, "hot-still-day"):

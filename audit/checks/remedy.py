@@ -24,6 +24,7 @@ import pandas as pd
 
 from audit.checks.base import CheckContext, per_distinct
 from audit.checks.below_spec import requirement
+from audit.thermal import map_values
 
 
 def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, params: dict) -> pd.DataFrame:
@@ -36,6 +37,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     rows = np.unique(fixable_findings["row"].astype(int))
     material = _remedy_material(context, rows)
     searchable = material != ""
+    material_index = map_values(material, context.tables()[1], -1, dtype=int)
     recheck = [c for c in rules.checks.values() if c.enabled and
                (kinds[c.kind].fixable_by_insulation or c.kind == "layer-overheat")]
     # Per check, which of the rows failed it (only those are re-checked; overheat for all).
@@ -57,7 +59,8 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
             trial_context = CheckContext(
                 _insulated_copy(cooked, picked, mats, thick), rules,
                 surface_model=context.surface_model, rows_only=True, _tables=context.tables(),
-                _prepared=context.prepared().take(picked).reinsulated(mats, thick))
+                _prepared=context.prepared().take(picked).reinsulated(
+                    material_index[at[sub]], thick))
             found = kinds[check.kind].evaluate(trial_context, check, params[check.name])
             ok[sub[found["row"].to_numpy(int)]] = False
             ok[sub[~trial_context.states(check.site)["computed"].to_numpy(bool)]] = False

@@ -17,7 +17,7 @@ import numpy as np
 from audit.economics.energy import yearly
 from audit.economics.repair import insulation_cost
 from audit.engine.items import shared_items
-from audit.thermal import prepared_states, site_batch
+from audit.thermal import map_values, prepared_states, site_batch
 
 
 def annuity_factor(interest, years):
@@ -117,11 +117,12 @@ def economic_thickness(context, economic_rules, *, site, hours_h, material):
     first, group, scale = sharing if sharing is not None else \
         (np.arange(rows.size), np.arange(rows.size), np.ones(rows.size))
     representatives = prepared.take(first)
+    material_index = map_values(material[rows][first], context.tables()[1], -1, dtype=int)
     shape = items["shape"].to_numpy(object)
     heat_cost = np.full((rows.size, candidates.size), np.nan)
     investment = np.full((rows.size, candidates.size), np.nan)
     for k, t in enumerate(candidates):
-        got = prepared_states(representatives.reinsulated(material[rows][first], t), rules,
+        got = prepared_states(representatives.reinsulated(material_index, t), rules,
                               site=site or None, surface_model=context.surface_model,
                               tables=context.tables())
         computed = got["computed"].to_numpy(bool)[group]
