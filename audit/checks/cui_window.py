@@ -42,7 +42,7 @@ import datetime
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckKind, findings, has_layers
+from audit.checks.base import CheckKind, findings, has_layers, per_distinct
 from audit.io.readers.headers import normalise_name, split_unit
 from audit.rules import SEVERITIES
 from audit.rules.converters import list_of, quantity, rows, temperature, text
@@ -272,7 +272,7 @@ def evaluate(context, check, params):
                             f"(intermittent weight {intermittent[name]:g})")
 
     factors = params["condition_factors"]
-    condition_factor = np.array([factors.get(c, 1.0) for c in condition])
+    condition_factor = per_distinct(lambda c: factors.get(c, 1.0), condition).astype(float)
     no_jacket = np.zeros(n, bool)
     if NO_JACKET in factors and "raw:jacket" in table:
         cells = table["raw:jacket"].fillna("").astype(str).str.strip().str.lower()
@@ -287,30 +287,35 @@ def evaluate(context, check, params):
     band = np.searchsorted(thresholds, score, side="right") - 1
     hit = np.flatnonzero(chosen & (weight > 0) & (band >= 0))
     cap = SEVERITIES.index(check.severity)
-    severity = [SEVERITIES[min(SEVERITIES.index(bands[band[r]][1]), cap)] for r in hit]
+    severity = [SEVERITIES[min(SEVERITIES.index(bands[b][1]), cap)] for b in band[hit].tolist()]
 
     messages = []
-    for r in hit:
-        span = (f"{temp[r] - ZERO_CELSIUS:.0f} degC" if top[r] == temp[r] or not np.isfinite(top[r])
-                else f"{temp[r] - ZERO_CELSIUS:.0f} to {top[r] - ZERO_CELSIUS:.0f} degC")
-        who = metal[r] + (" (default metal)" if not given[r] else "")
+    # Python values in the loop, not numpy scalars: tens of thousands of rows.
+    for (t, t_top, one_temp, who_metal, named, cond, f_cond, bare_jacket, f_jacket, cyc, f_cyc, years,
+         f_age, cyc_bad, age_bad, b, lab, s) in zip(*(
+            np.asarray(a)[hit].tolist() for a in (
+                temp - ZERO_CELSIUS, top - ZERO_CELSIUS, (top == temp) | ~np.isfinite(top), metal,
+                given != "", condition,
+                condition_factor, no_jacket, jacket_factor, cyclic, cyclic_factor, age, age_factor,
+                cyclic_unread, age_unread, band, label, score))):
+        span = f"{t:.0f} degC" if one_temp else f"{t:.0f} to {t_top:.0f} degC"
+        who = who_metal + (" (default metal)" if not named else "")
         raised = []
-        if condition_factor[r] != 1.0:
-            raised.append(f"{condition[r]} insulation x{condition_factor[r]:g}")
-        if no_jacket[r] and jacket_factor[r] != 1.0:
-            raised.append(f"no jacket x{jacket_factor[r]:g}")
-        if cyclic[r] and cyclic_factor[r] != 1.0:
-            raised.append(f"cyclic service x{cyclic_factor[r]:g}")
-        if age_factor[r] != 1.0:
-            raised.append(f"age {age[r]:g} yr x{age_factor[r]:g}")
+        if f_cond != 1.0:
+            raised.append(f"{cond} insulation x{f_cond:g}")
+        if bare_jacket and f_jacket != 1.0:
+            raised.append(f"no jacket x{f_jacket:g}")
+        if cyc and f_cyc != 1.0:
+            raised.append(f"cyclic service x{f_cyc:g}")
+        if f_age != 1.0:
+            raised.append(f"age {years:g} yr x{f_age:g}")
         unread = [f"{h}: cell not read, counted as not known"
-                  for h, bad in ((cyclic_header, cyclic_unread[r]), (age_header, age_unread[r]))
-                  if bad]
-        threshold, level = bands[band[r]]
+                  for h, bad in ((cyclic_header, cyc_bad), (age_header, age_bad)) if bad]
+        threshold, level = bands[b]
         messages.append(
-            f"{who} at {span}, inside the CUI {label[r]}"
+            f"{who} at {span}, inside the CUI {lab}"
             + (f"; raised by {', '.join(raised)}" if raised else "")
-            + f"; score {score[r]:.3g} reaches the band from {threshold:g} ({level})"
+            + f"; score {s:.3g} reaches the band from {threshold:g} ({level})"
             + ("; " + "; ".join(unread) if unread else ""))
 
     return findings(context, check, hit, value=score[hit], limit=thresholds[band[hit]],
