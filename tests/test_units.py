@@ -33,3 +33,22 @@ def test_temperatures(text, kelvin):
 def test_not_temperatures(text):
     with pytest.raises(UnitParseError):
         parse_temperature(text)
+
+
+def test_unit_registry_falls_back_when_its_cache_cannot_be_used(monkeypatch):
+    # pint's definition cache is a speed-up only: if it cannot be used, the registry is built
+    # the usual way and parses the same.
+    import pint
+
+    from audit import units
+
+    real = pint.UnitRegistry
+
+    def refusing(*args, **kwargs):
+        if "cache_folder" in kwargs:
+            raise PermissionError("cache folder not writable")
+        return real(*args, **kwargs)
+
+    monkeypatch.setattr(units.pint, "UnitRegistry", refusing)
+    registry = units._registry()
+    assert registry.Quantity(300, "degF").to("K").magnitude == pytest.approx(422.0388888888889)
