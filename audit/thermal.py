@@ -19,6 +19,7 @@ import pandas as pd
 from audit.engine import ConductivityTables, ItemBatch, solve_items
 from audit.engine.items import HEAD_CODES, ORIENTATION_CODES, SHAPE_CODES
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
+from audit.repeats import map_values, per_distinct
 from audit.rules import Rules
 
 ZERO_CELSIUS = 273.15
@@ -40,15 +41,13 @@ def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> p
     # A damaged share the reader could not read is its reason already, not "empty" here.
     damaged_given = (out["raw:damaged"].fillna("").astype(str).str.strip() != "").to_numpy() \
         if "raw:damaged" in out else np.zeros(len(out), bool)
-    keys = list(zip(
+    added = per_distinct(
+        lambda *key: "; ".join(_name_problems(key, rules)),
         out["layer_materials"].to_numpy(object), out["condition"].fillna("").to_numpy(object),
         out["jacket"].fillna("").to_numpy(object), np.isfinite(out["emissivity"].to_numpy(float)),
         out["location"].fillna("").to_numpy(object), out["material"].fillna("").to_numpy(object),
         count["valves"], count["flanges"],
-        np.isfinite(out["damaged_pct"].to_numpy(float)) | damaged_given))
-    codes, uniques = pd.factorize(pd.Series(keys, dtype=object))
-    verdicts = np.array(["; ".join(_name_problems(key, rules)) for key in uniques], dtype=object)
-    added = verdicts[codes]
+        np.isfinite(out["damaged_pct"].to_numpy(float)) | damaged_given)
     if notes:
         _note_defaults(out, rules)
     has = added != ""
@@ -132,13 +131,6 @@ def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
         mask = mask.to_numpy(bool)
         old = table.loc[mask, "warnings"].fillna("")
         table.loc[mask, "warnings"] = np.where(old == "", text, old + "; " + text)
-
-
-def map_values(names, mapping: dict, default=np.nan, dtype=float) -> np.ndarray:
-    """``mapping[name]`` for each of ``names`` (``default`` where absent), one lookup per
-    distinct name."""
-    codes, uniques = pd.factorize(np.asarray(names, dtype=object), use_na_sentinel=False)
-    return np.array([mapping.get(u, default) for u in uniques], dtype=dtype)[codes]
 
 
 def _listing(named: dict) -> str:
@@ -374,11 +366,8 @@ def _attributes(names, named: dict, attributes: tuple[str, ...]) -> dict[str, np
     """``getattr(named[name], a)`` for each of ``names`` and each attribute ``a`` (NaN where
     the name is absent), with one lookup per distinct name."""
     codes, uniques = pd.factorize(np.asarray(names, dtype=object), use_na_sentinel=False)
-    out = {}
-    for a in attributes:
-        values = [getattr(named[u], a) if u in named else np.nan for u in uniques]
-        out[a] = np.array(values, dtype=float)[codes]
-    return out
+    return {a: np.array([getattr(named[u], a) if u in named else np.nan for u in uniques],
+                        dtype=float)[codes] for a in attributes}
 
 
 def _fitting_length(rows: pd.DataFrame, rules: Rules) -> np.ndarray:

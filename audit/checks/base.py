@@ -13,8 +13,8 @@ from dataclasses import dataclass, field
 import numpy as np
 import pandas as pd
 
-from audit.engine.distinct import distinct_rows
 from audit.errors import Problem, RuleError
+from audit.repeats import per_distinct
 from audit.rules import Check, Rules
 from audit.thermal import ZERO_CELSIUS, PreparedItems, conductivity_tables, prepare_items, thermal_states
 from audit.units import UnitParseError
@@ -167,21 +167,6 @@ def validated_params(check: Check, kind: CheckKind) -> dict:
     if kind.validate is not None:
         kind.validate(check, values)
     return values
-
-
-def per_distinct(function: Callable, *columns) -> np.ndarray:
-    """``function(*cells)`` of every row's cells in ``columns``, called once per distinct
-    combination (a register repeats a few hundred): an object array, one value per row.
-
-    Cells compare by value; missing cells (None, NaN) are one value and reach ``function``
-    as NaN.  ``columns`` are equally long 1-d numpy arrays (object arrays may hold tuples).
-    """
-    factorized = [pd.factorize(np.asarray(c), use_na_sentinel=False) for c in columns]
-    first, group = distinct_rows([codes.astype(np.int64) for codes, _ in factorized])
-    values = np.empty(first.size, dtype=object)
-    for k, i in enumerate(first):  # one by one: a tuple result stays one object
-        values[k] = function(*(uniques[codes[i]] for codes, uniques in factorized))
-    return values[group]
 
 
 def has_layers(table: pd.DataFrame) -> np.ndarray:

@@ -29,8 +29,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from audit.checks.base import CheckKind, failing_rows, findings, per_distinct
+from audit.checks.base import CheckKind, failing_rows, findings
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
+from audit.repeats import per_distinct
 from audit.thermal import ZERO_CELSIUS
 
 NAME = "below-spec"

@@ -22,7 +22,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, findings, has_layers, per_distinct
+from audit.checks.base import CheckKind, findings, has_layers
+from audit.repeats import per_distinct
 from audit.rules.converters import choice, list_of, quantity
 
 NAME = "condition"

@@ -42,8 +42,9 @@ import datetime
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckKind, findings, has_layers, per_distinct
+from audit.checks.base import CheckKind, findings, has_layers
 from audit.io.readers.headers import normalise_name, split_unit
+from audit.repeats import per_distinct
 from audit.rules import SEVERITIES
 from audit.rules.converters import list_of, quantity, rows, temperature, text
 from audit.thermal import ZERO_CELSIUS

@@ -10,7 +10,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, failing_rows, findings, per_distinct
+from audit.checks.base import CheckKind, failing_rows, findings
+from audit.repeats import per_distinct
 from audit.thermal import ZERO_CELSIUS
 
 NAME = "layer-overheat"

@@ -22,9 +22,9 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckContext, per_distinct
+from audit.checks.base import CheckContext
 from audit.checks.below_spec import requirement
-from audit.thermal import map_values
+from audit.repeats import map_values, per_distinct
 
 
 def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, params: dict) -> pd.DataFrame:

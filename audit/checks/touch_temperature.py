@@ -19,8 +19,9 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, bare_parts, failing_rows, findings, per_distinct
+from audit.checks.base import CheckKind, bare_parts, failing_rows, findings
 from audit.errors import RuleError
+from audit.repeats import per_distinct
 from audit.rules.converters import boolean, quantity, rows, temperature
 from audit.thermal import ZERO_CELSIUS
 

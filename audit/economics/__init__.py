@@ -20,11 +20,11 @@ import pandas as pd
 
 from audit.economics import totals
 from audit.economics.energy import yearly
-from audit.economics.repair import (payback_years, per_distinct, plan_repairs, repair_cost,
-                                    repaired_copy)
+from audit.economics.repair import payback_years, plan_repairs, repair_cost, repaired_copy
 from audit.economics.rules import EconomicRules, load_economic_rules
 from audit.economics.thickness import annuity_factor, economic_thickness
 from audit.errors import RuleError
+from audit.repeats import per_distinct
 from audit.thermal import thermal_states
 
 __all__ = ["Economics", "EconomicRules", "compute_economics", "energy_site", "load_economic_rules"]
@@ -163,8 +163,8 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
 
 def _outermost(table: pd.DataFrame) -> np.ndarray:
     """The outermost installed material of each row ("" if none)."""
-    return per_distinct(table["layer_materials"],
-                        lambda x: x[-1] if isinstance(x, tuple) and x else "", "").astype(object)
+    return per_distinct(lambda x: x[-1] if isinstance(x, tuple) and x else "",
+                        table["layer_materials"].to_numpy(object))
 
 
 def _notes(computed, reasons) -> np.ndarray:

@@ -26,8 +26,10 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
+from audit.checks.base import has_layers
 from audit.checks.below_spec import installed_thickness, requirement
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
+from audit.repeats import per_distinct, tuples_of
 
 _OD_OF_NPS = {value: mm / 1000.0 for _, value, _, mm in NOMINAL_PIPE_SIZES}
 #: Thickness [m] and size comparisons carry this slack so that the same number written in the
@@ -138,13 +140,11 @@ def plan_repairs(table: pd.DataFrame, rules, spec_states: pd.DataFrame) -> Repai
     below = asked & ((have <= 0) | (have < need.thickness_m - need.tolerance_m - _EDGE_M))
     condition = table["condition"].fillna("").to_numpy(object)
     damaged = np.nan_to_num(table["damaged_pct"].to_numpy(float)) / 100.0
-    has_layers = per_distinct(table["layer_materials"], lambda x: isinstance(x, tuple) and len(x) > 0,
-                              False).astype(bool)
-    listed = per_distinct(table["layer_thicknesses_m"],
-                          lambda x: float(sum(x)) if isinstance(x, tuple) else 0.0, 0.0)
+    listed = per_distinct(lambda x: float(sum(x)) if isinstance(x, tuple) else 0.0,
+                          table["layer_thicknesses_m"].to_numpy(object)).astype(float)
     whole = (condition == "missing") | (condition == "wet")
     broken = whole | ((condition == "damaged") & (damaged > 0))
-    insulate = below | (broken & has_layers)
+    insulate = below | (broken & has_layers(table))
     share = np.where(below | whole, 1.0, np.where(insulate, damaged, 0.0))
     thickness = np.where(below, need.thickness_m, np.where(insulate, listed, have))
     pipe = (table["shape"] == "pipe").to_numpy()
@@ -154,23 +154,6 @@ def plan_repairs(table: pd.DataFrame, rules, spec_states: pd.DataFrame) -> Repai
     return RepairPlan(insulate=insulate & ok, share=np.where(ok, share, 0.0), to_spec=below & ok,
                       thickness_m=thickness, covers=np.where(pipe & ok, fittings, 0.0),
                       spec_material=need.material, installed_m=have)
-
-
-def per_distinct(column: pd.Series, function, missing) -> np.ndarray:
-    """``function`` of each value of ``column``, evaluated once per distinct value (a register
-    has few distinct layer builds); ``missing`` for NaN/None."""
-    codes, uniques = pd.factorize(column)
-    values = np.array([function(u) for u in uniques] + [missing])
-    return values[codes]   # code -1 (missing) takes the last entry
-
-
-def tuples_of(values) -> np.ndarray:
-    """An object array of 1-tuples ``(v,)``, built once per distinct value."""
-    codes, uniques = pd.factorize(pd.Series(values, dtype=object))
-    boxes = np.empty(len(uniques), dtype=object)
-    for k, u in enumerate(uniques):
-        boxes[k] = (u,)
-    return boxes[codes] if len(codes) else np.empty(0, dtype=object)
 
 
 def repaired_copy(table: pd.DataFrame, plan: RepairPlan) -> pd.DataFrame:

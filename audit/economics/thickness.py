@@ -17,7 +17,8 @@ import numpy as np
 from audit.economics.energy import yearly
 from audit.economics.repair import insulation_cost
 from audit.engine.items import shared_items
-from audit.thermal import map_values, prepared_states, site_batch
+from audit.repeats import map_values
+from audit.thermal import prepared_states, site_batch
 
 
 def annuity_factor(interest, years):

@@ -1,11 +1,10 @@
 """Repairs (audit/economics/repair.py): cost tables worked by hand, what a repair is, payback."""
 
 import numpy as np
-import pandas as pd
 import pytest
 
 from audit.economics.repair import (cover_cost, insulation_cost, payback_years, plan_repairs,
-                                    repaired_copy, tuples_of)
+                                    repaired_copy)
 from audit.economics.rules import load_economic_rules
 from audit.io.readers import read_register
 from audit.rules import load_rules
@@ -103,9 +102,3 @@ def test_repaired_copy(planned):
     assert (copy["condition"][1:5] == "intact").all()
     assert copy["valves"][6] == 0 and copy["flanges"][6] == 0
     assert table["valves"][6] == 2                          # the original is untouched
-
-
-def test_tuples_of_builds_one_tuple_per_row():
-    got = tuples_of(np.array(["a", "b", "a"], dtype=object))
-    assert list(got) == [("a",), ("b",), ("a",)]
-    assert list(tuples_of(pd.Series([0.05, 0.05]).to_numpy())) == [(0.05,), (0.05,)]
