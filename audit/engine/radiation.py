@@ -33,7 +33,10 @@ def radiative_flux_grey_body(surface_temp, surroundings_temp, emissivity):
     -----
     Valid for a grey, diffuse surface that sees only surroundings much larger
     than itself (view factor 1, the surroundings' emissivity then does not
-    matter).  Any temperatures in kelvin.
+    matter).  Any temperatures in kelvin.  Computed in the factored form
+    (T_s^2 + T_sur^2)(T_s + T_sur)(T_s - T_sur), so the exchange is exactly zero
+    when the two temperatures are equal: T^4 - T^4 leaves rounding there, which a
+    thick insulation layer amplifies in the solver.
 
     References
     ----------
@@ -43,9 +46,7 @@ def radiative_flux_grey_body(surface_temp, surroundings_temp, emissivity):
     """
     ts = np.asarray(surface_temp, dtype=float)
     tsur = np.asarray(surroundings_temp, dtype=float)
-    ts2 = ts * ts
-    tsur2 = tsur * tsur
-    return np.asarray(emissivity, dtype=float) * STEFAN_BOLTZMANN * (ts2 * ts2 - tsur2 * tsur2)
+    return radiative_coefficient_linearised(ts, tsur, emissivity) * (ts - tsur)
 
 
 def radiative_coefficient_linearised(surface_temp, surroundings_temp, emissivity):

@@ -76,7 +76,7 @@ import numpy as np
 
 from audit.engine import convection as cv
 from audit.engine.air import air_transport_tabulated
-from audit.engine.radiation import STEFAN_BOLTZMANN
+from audit.engine.radiation import radiative_flux_grey_body
 from audit.errors import EngineInputError
 
 HORIZONTAL_CYLINDER = 0
@@ -266,9 +266,7 @@ def _build_correlations(kind, *, diameter, length, wind, air_temp, surroundings_
             windy=windy, h_forced=nu_f * free.conductivity[at] / lf))
 
     t_air = np.array(air_temp, dtype=float)
-    eps_sigma = emissivity * STEFAN_BOLTZMANN
     t_sur = np.asarray(surroundings_temp, dtype=float)
-    t_sur2 = t_sur * t_sur
 
     def flux(surface_temp):
         ts = _rows("surface_temp", surface_temp, n)
@@ -294,10 +292,7 @@ def _build_correlations(kind, *, diameter, length, wind, air_temp, surroundings_
                 # Coefficients, not Nusselt numbers: the two regimes may use different lengths.
                 h_g[g.windy] = cv.combine_nusselt(h_g[g.windy], g.h_forced)
             h[r] = h_g
-        # Factored so that the exchange is exactly zero when the surface sits at the
-        # surroundings' temperature (T^4 - T^4 leaves rounding that a thick layer amplifies).
-        q_rad = eps_sigma * (ts * ts + t_sur2) * (ts + t_sur) * (ts - t_sur)
-        return h * dt, q_rad
+        return h * dt, radiative_flux_grey_body(ts, t_sur, emissivity)
 
     return flux
 
