@@ -30,6 +30,15 @@ _RA_JOIN_PLATE_UP = (0.54 / 0.15) ** 12
 """Rayleigh number where 0.54 Ra^(1/4) and 0.15 Ra^(1/3) are equal, about 4.7e6."""
 
 
+def _churchill_chu_all_ra(rayleigh, prandtl, lead, pr_ref):
+    """[lead + 0.387 Ra^(1/6) / (1 + (pr_ref / Pr)^(9/16))^(8/27)]^2: the form Churchill & Chu
+    (1975) share between the horizontal cylinder and the vertical plate."""
+    ra = np.asarray(rayleigh, dtype=float)
+    pr = np.asarray(prandtl, dtype=float)
+    term = lead + 0.387 * ra ** (1.0 / 6.0) / (1.0 + (pr_ref / pr) ** (9.0 / 16.0)) ** (8.0 / 27.0)
+    return term * term
+
+
 def nusselt_natural_horizontal_cylinder_churchill_chu(rayleigh, prandtl):
     r"""Natural convection from an isothermal horizontal cylinder (Churchill & Chu).
 
@@ -60,10 +69,7 @@ def nusselt_natural_horizontal_cylinder_churchill_chu(rayleigh, prandtl):
     and turbulent free convection from a horizontal cylinder. Int. J. Heat
     Mass Transfer 18(9), 1049-1053. doi:10.1016/0017-9310(75)90222-7
     """
-    ra = np.asarray(rayleigh, dtype=float)
-    pr = np.asarray(prandtl, dtype=float)
-    term = 0.60 + 0.387 * ra ** (1.0 / 6.0) / (1.0 + (0.559 / pr) ** (9.0 / 16.0)) ** (8.0 / 27.0)
-    return term * term
+    return _churchill_chu_all_ra(rayleigh, prandtl, 0.60, 0.559)
 
 
 def nusselt_natural_vertical_plate_churchill_chu(rayleigh, prandtl):
@@ -104,10 +110,7 @@ def nusselt_natural_vertical_plate_churchill_chu(rayleigh, prandtl):
     Fundamentals of Heat and Mass Transfer, 7th ed., Wiley, Chapter 9
     (vertical cylinders).
     """
-    ra = np.asarray(rayleigh, dtype=float)
-    pr = np.asarray(prandtl, dtype=float)
-    term = 0.825 + 0.387 * ra ** (1.0 / 6.0) / (1.0 + (0.492 / pr) ** (9.0 / 16.0)) ** (8.0 / 27.0)
-    return term * term
+    return _churchill_chu_all_ra(rayleigh, prandtl, 0.825, 0.492)
 
 
 def nusselt_natural_sphere_churchill(rayleigh, prandtl):
