@@ -4,9 +4,8 @@ the reasons and warnings gathered per row."""
 from __future__ import annotations
 
 import numpy as np
-import pandas as pd
 
-from audit.io.readers.sheet import QUOTE_CHARS
+from audit.io.readers.sheet import QUOTE_CHARS, recode
 
 
 def quoted(text: str) -> str:
@@ -48,7 +47,7 @@ class Column:
         else:
             self.codes, self.uniques = stripped
             if decimal_comma:
-                self.codes, self.uniques = _recode(self.codes, np.array(
+                self.codes, self.uniques = recode(self.codes, np.array(
                     [u.replace(",", ".") for u in self.uniques], dtype=object))
         self.given = (self.uniques != "")[self.codes] if n else np.zeros(0, dtype=bool)
 
@@ -67,12 +66,6 @@ class Column:
         texts = np.array([f'{self.name}: "{quoted(u)}" {p}' if p else ""
                           for u, p in zip(self.uniques, problems)], dtype=object)
         return texts[self.codes]
-
-
-def _recode(codes: np.ndarray, texts: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Merge distinct texts that became equal (``1,5`` and ``1.5``)."""
-    new_codes, uniques = pd.factorize(texts, use_na_sentinel=False)
-    return new_codes[codes] if len(codes) else codes, np.asarray(uniques, dtype=object)
 
 
 def _objects(values: list) -> np.ndarray:

@@ -54,10 +54,15 @@ def find_header(rows: list[list[str]], lookup: Lookup) -> tuple[int, int]:
 def factorize_stripped(values: pd.Series) -> tuple[np.ndarray, np.ndarray]:
     """``(codes, uniques)`` of the stripped texts, stripping each distinct text once."""
     codes, uniques = pd.factorize(values, use_na_sentinel=False)
-    stripped = np.array([str(u).strip() for u in np.asarray(uniques, dtype=object)],
-                        dtype=object)
-    merged_codes, merged = pd.factorize(stripped, use_na_sentinel=False)
-    return merged_codes[codes] if len(codes) else codes, np.asarray(merged, dtype=object)
+    return recode(codes, np.array([str(u).strip() for u in np.asarray(uniques, dtype=object)],
+                                  dtype=object))
+
+
+def recode(codes: np.ndarray, texts: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """``(codes, uniques)`` once the distinct values behind ``codes`` have become ``texts``:
+    values that became equal (`` 1.5`` and ``1.5 ``, ``1,5`` and ``1.5``) merge."""
+    new_codes, uniques = pd.factorize(texts, use_na_sentinel=False)
+    return new_codes[codes] if len(codes) else codes, np.asarray(uniques, dtype=object)
 
 
 def finish(path: Path, sheet: str, header: list[str], groups, data: pd.DataFrame,

@@ -27,7 +27,7 @@ import python_calamine
 
 from audit.io.readers.headers import Lookup
 from audit.io.readers.sheet import (HEADER_SEARCH_ROWS, MAX_ROWS, RawSheet, find_header,
-                                    finish, refuse)
+                                    finish, recode, refuse)
 
 MAX_UNCOMPRESSED_BYTES = 1 << 30
 MAX_COMPRESSION_RATIO = 200  # real registers measured ~10x; Apache POI refuses above 100x
@@ -114,9 +114,7 @@ def _text_frame(rows: list[list]) -> tuple[pd.DataFrame, list]:
         codes, uniques = pd.factorize(frame[position].to_numpy(), use_na_sentinel=False)
         texts = np.array([_cell_text(v) for v in uniques], dtype=object)
         columns[position] = texts[codes]
-        merged_codes, merged = pd.factorize(np.array([t.strip() for t in texts], dtype=object),
-                                            use_na_sentinel=False)
-        stripped.append((merged_codes[codes], np.asarray(merged, dtype=object)))
+        stripped.append(recode(codes, np.array([t.strip() for t in texts], dtype=object)))
     return pd.DataFrame(columns, dtype=object), stripped
 
 
