@@ -51,4 +51,5 @@ def test_unit_registry_falls_back_when_its_cache_cannot_be_used(monkeypatch):
 
     monkeypatch.setattr(units.pint, "UnitRegistry", refusing)
     registry = units._registry()
+    # (300 - 32) * 5/9 + 273.15 K: the definitions of the Fahrenheit and Celsius scales.
     assert registry.Quantity(300, "degF").to("K").magnitude == pytest.approx(422.0388888888889)
