@@ -1,8 +1,11 @@
 """Helpers shared by the test modules (tests/ is on the import path: see pyproject.toml)."""
 
+from dataclasses import replace
+
 import pytest
 
-from audit.errors import RegisterError
+from audit.checks.base import validated_params
+from audit.errors import RegisterError, RuleError
 from audit.io.readers import read_register
 from audit.thermal import resolve_names
 
@@ -21,3 +24,11 @@ def refused_register(path, pattern, **kwargs):
     assert info.value.file == str(path) and str(path) in str(info.value)
     assert info.value.expected  # says what to do
     return info.value
+
+
+def refused_parameter(rules, name, kind, key, value):
+    """The shipped check ``name`` with ``key = value`` must fail validation, naming the key."""
+    check = replace(rules.checks[name], params={**rules.checks[name].params, key: value})
+    with pytest.raises(RuleError) as info:
+        validated_params(check, kind)
+    assert f"check.{name}.{key}" in str(info.value)

@@ -9,14 +9,13 @@ from dataclasses import replace
 
 import numpy as np
 import pytest
-from support import item_table
+from support import item_table, refused_parameter
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from audit.checks import run_checks
 from audit.checks.base import CheckContext, validated_params
 from audit.checks.cui_window import KIND, REMEDY, window_weight
-from audit.errors import RuleError
 from audit.units import parse_temperature
 
 C = 273.15
@@ -240,11 +239,7 @@ def test_selector_restricts_the_items(tmp_path, rules):
     ("audit_year", "2025"),                                            # not a year
 ])
 def test_invalid_parameters_name_the_key(rules, key, value):
-    check = replace(rules.checks["cui-window"],
-                    params={**rules.checks["cui-window"].params, key: value})
-    with pytest.raises(RuleError) as info:
-        validated_params(check, KIND)
-    assert f"check.cui-window.{key}" in str(info.value)
+    refused_parameter(rules, "cui-window", KIND, key, value)
 
 
 # --- invariants -------------------------------------------------------------------------
