@@ -139,7 +139,7 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     solved once as well.
     """
     b = _complete(batch)
-    sharing = shared_items(b)
+    sharing = _shared_items(b)
     if sharing is None:
         return _solve_all(b, tables, surface_model)
     first, group, scale = sharing
@@ -170,7 +170,11 @@ def shared_items(batch: ItemBatch):
         factor [-] that turns its representative's heat loss and outer area into its own (the
         ratio of run lengths, else 1); None when at most a fifth of the items would be saved.
     """
-    b = _complete(batch)
+    return _shared_items(_complete(batch))
+
+
+def _shared_items(b: ItemBatch):
+    """:func:`shared_items` of a batch already completed by :func:`_complete`."""
     length_free = ((b.shape == PIPE) & (b.orientation == HORIZONTAL) & (b.fitting_length == 0)
                    & np.isfinite(b.length) & (b.length > 0))
     run = np.where(length_free, 1.0, b.length)  # 1 m: any run, the answer per metre
