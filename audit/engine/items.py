@@ -30,7 +30,7 @@ from audit.engine.air import T_MIN as AIR_T_MIN
 from audit.engine.conduction import ConductivityTables
 from audit.engine.distinct import distinct_count, distinct_rows
 from audit.engine.geometry import CYLINDER, PLANE, SPHERE
-from audit.engine.solver import WallSolution, solve_walls
+from audit.engine.solver import solve_walls
 
 # Item shapes.
 PIPE, VERTICAL_VESSEL, HORIZONTAL_VESSEL, SPHERE_ITEM, FLAT = range(5)
@@ -144,7 +144,7 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
         return _solve_all(b, tables, surface_model)
     first, group, scale = sharing
     states = _solve_all(take_items(b, first), tables, surface_model)
-    shared = ItemStates(**{name: value[group] for name, value in vars(states).items()})
+    shared = _rows_of(states, group)
     shared.heat_loss = shared.heat_loss * scale
     shared.outer_area = shared.outer_area * scale
     return shared
@@ -152,8 +152,14 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
 
 def take_items(batch: ItemBatch, rows: np.ndarray) -> ItemBatch:
     """The items ``rows`` of ``batch`` (positions, repeats allowed) as a batch of their own."""
-    return ItemBatch(**{name: (None if value is None else np.asarray(value)[rows])
-                        for name, value in vars(batch).items()})
+    return _rows_of(batch, rows)
+
+
+def _rows_of(arrays, rows):
+    """A copy of a dataclass of per-row arrays (items, elements, answers) holding the rows
+    ``rows`` (positions, repeats allowed); fields that are not arrays are kept as they are."""
+    return type(arrays)(**{name: (np.asarray(value)[rows] if isinstance(value, np.ndarray | list)
+                                  else value) for name, value in vars(arrays).items()})
 
 
 def shared_items(batch: ItemBatch):
@@ -488,11 +494,8 @@ def _solve_distinct(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surfac
     first, group = distinct_rows(key)
     if first.size > _WORTH_SHARING * item.size:
         return _solve(b, e, w, tables, surface_model, r_inner)
-    sub_e = _Elements(**{name: value[first] for name, value in vars(e).items()})
-    sub_w = _WallGeometry(**{name: value[first] for name, value in vars(w).items()})
-    sol = _solve(b, sub_e, sub_w, tables, surface_model, r_inner[first])
-    return WallSolution(**{name: (value[group] if isinstance(value, np.ndarray) else value)
-                           for name, value in vars(sol).items()})
+    sol = _solve(b, _rows_of(e, first), _rows_of(w, first), tables, surface_model, r_inner[first])
+    return _rows_of(sol, group)
 
 
 def _solve(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model, r_inner):
