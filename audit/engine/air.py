@@ -307,7 +307,7 @@ _VALUES = np.stack([_TABLE.conductivity, _TABLE.kinematic_viscosity, _TABLE.pran
 _SLOPES = np.diff(_VALUES, axis=1)
 
 
-def air_transport_tabulated(temperature) -> AirTransport:
+def air_transport_tabulated(temperature, *, with_derivatives=False):
     """Conductivity, kinematic viscosity and Prandtl number, fast.
 
     The same properties as :func:`air_properties`, linearly interpolated in a
@@ -318,12 +318,18 @@ def air_transport_tabulated(temperature) -> AirTransport:
     ----------
     temperature : float or array_like
         Air temperature, for surface correlations the film temperature [K].
+    with_derivatives : bool, optional
+        Also return the derivatives of the three properties in temperature.
 
     Returns
     -------
     AirTransport
         Conductivity [W/(m K)], kinematic viscosity [m2/s] and Prandtl number
         [-], arrays of the shape of ``temperature``.
+    AirTransport
+        Only ``with_derivatives``: their derivatives in temperature [W/(m K2),
+        m2/(s K), 1/K], those of the interpolation (constant within a table
+        step), so that they are the exact slopes of the values returned.
 
     Raises
     ------
@@ -339,5 +345,9 @@ def air_transport_tabulated(temperature) -> AirTransport:
     x = (t - T_MIN) * (1.0 / _STEP)
     i = x.astype(np.intp)  # floor, as x >= 0
     f = x - i
-    k, nu, pr = (v[i] + f * d[i] for v, d in zip(_VALUES, _SLOPES))
-    return AirTransport(conductivity=k, kinematic_viscosity=nu, prandtl=pr)
+    steps = [d[i] for d in _SLOPES]
+    k, nu, pr = (v[i] + f * d for v, d in zip(_VALUES, steps))
+    values = AirTransport(conductivity=k, kinematic_viscosity=nu, prandtl=pr)
+    if not with_derivatives:
+        return values
+    return values, AirTransport(*(d * (1.0 / _STEP) for d in steps))

@@ -30,16 +30,23 @@ _RA_JOIN_PLATE_UP = (0.54 / 0.15) ** 12
 """Rayleigh number where 0.54 Ra^(1/4) and 0.15 Ra^(1/3) are equal, about 4.7e6."""
 
 
-def _churchill_chu_all_ra(rayleigh, prandtl, lead, pr_ref):
+def _churchill_chu_all_ra(rayleigh, prandtl, lead, pr_ref, with_slopes):
     """[lead + 0.387 Ra^(1/6) / (1 + (pr_ref / Pr)^(9/16))^(8/27)]^2: the form Churchill & Chu
     (1975) share between the horizontal cylinder and the vertical plate."""
     ra = np.asarray(rayleigh, dtype=float)
     pr = np.asarray(prandtl, dtype=float)
-    term = lead + 0.387 * ra ** (1.0 / 6.0) / (1.0 + (pr_ref / pr) ** (9.0 / 16.0)) ** (8.0 / 27.0)
-    return term * term
+    a = (pr_ref / pr) ** (9.0 / 16.0)
+    rising = 0.387 * np.sqrt(np.cbrt(ra)) / (1.0 + a) ** (8.0 / 27.0)
+    term = lead + rising
+    nu = term * term
+    if not with_slopes:
+        return nu
+    # d ln Nu = 2 d ln(term); d ln(rising) = d ln Ra / 6 + (1/6) a / (1 + a) d ln Pr.
+    slope_ra = rising / (3.0 * term)
+    return nu, slope_ra, slope_ra * a / (1.0 + a)
 
 
-def nusselt_natural_horizontal_cylinder_churchill_chu(rayleigh, prandtl):
+def nusselt_natural_horizontal_cylinder_churchill_chu(rayleigh, prandtl, *, with_slopes=False):
     r"""Natural convection from an isothermal horizontal cylinder (Churchill & Chu).
 
     .. math::
@@ -52,11 +59,16 @@ def nusselt_natural_horizontal_cylinder_churchill_chu(rayleigh, prandtl):
         Rayleigh number on the outer diameter, g beta |dT| D^3 / (nu alpha) [-].
     prandtl : float or array_like
         Prandtl number of the fluid [-].
+    with_slopes : bool, optional
+        Also return the local exponents of the correlation [-] (see Returns).
 
     Returns
     -------
     numpy.ndarray
         Average Nusselt number on the diameter, h D / k [-].
+    numpy.ndarray, numpy.ndarray
+        Only ``with_slopes``: d ln Nu / d ln Ra and d ln Nu / d ln Pr [-], exact
+        derivatives of the formula, for the slope of the heat flux in a Newton solver.
 
     Notes
     -----
@@ -69,10 +81,10 @@ def nusselt_natural_horizontal_cylinder_churchill_chu(rayleigh, prandtl):
     and turbulent free convection from a horizontal cylinder. Int. J. Heat
     Mass Transfer 18(9), 1049-1053. doi:10.1016/0017-9310(75)90222-7
     """
-    return _churchill_chu_all_ra(rayleigh, prandtl, 0.60, 0.559)
+    return _churchill_chu_all_ra(rayleigh, prandtl, 0.60, 0.559, with_slopes)
 
 
-def nusselt_natural_vertical_plate_churchill_chu(rayleigh, prandtl):
+def nusselt_natural_vertical_plate_churchill_chu(rayleigh, prandtl, *, with_slopes=False):
     r"""Natural convection from an isothermal vertical plate, all-Ra form (Churchill & Chu).
 
     .. math::
@@ -85,11 +97,16 @@ def nusselt_natural_vertical_plate_churchill_chu(rayleigh, prandtl):
         Rayleigh number on the height L, g beta |dT| L^3 / (nu alpha) [-].
     prandtl : float or array_like
         Prandtl number of the fluid [-].
+    with_slopes : bool, optional
+        Also return the local exponents of the correlation [-] (see Returns).
 
     Returns
     -------
     numpy.ndarray
         Average Nusselt number on the height, h L / k [-].
+    numpy.ndarray, numpy.ndarray
+        Only ``with_slopes``: d ln Nu / d ln Ra and d ln Nu / d ln Pr [-], exact
+        derivatives of the formula, for the slope of the heat flux in a Newton solver.
 
     Notes
     -----
@@ -110,10 +127,10 @@ def nusselt_natural_vertical_plate_churchill_chu(rayleigh, prandtl):
     Fundamentals of Heat and Mass Transfer, 7th ed., Wiley, Chapter 9
     (vertical cylinders).
     """
-    return _churchill_chu_all_ra(rayleigh, prandtl, 0.825, 0.492)
+    return _churchill_chu_all_ra(rayleigh, prandtl, 0.825, 0.492, with_slopes)
 
 
-def nusselt_natural_sphere_churchill(rayleigh, prandtl):
+def nusselt_natural_sphere_churchill(rayleigh, prandtl, *, with_slopes=False):
     r"""Natural convection from an isothermal sphere (Churchill).
 
     .. math::
@@ -127,11 +144,16 @@ def nusselt_natural_sphere_churchill(rayleigh, prandtl):
         Rayleigh number on the diameter [-].
     prandtl : float or array_like
         Prandtl number of the fluid [-].
+    with_slopes : bool, optional
+        Also return the local exponents of the correlation [-] (see Returns).
 
     Returns
     -------
     numpy.ndarray
         Average Nusselt number on the diameter [-].
+    numpy.ndarray, numpy.ndarray
+        Only ``with_slopes``: d ln Nu / d ln Ra and d ln Nu / d ln Pr [-], exact
+        derivatives of the formula, for the slope of the heat flux in a Newton solver.
 
     Notes
     -----
@@ -147,12 +169,19 @@ def nusselt_natural_sphere_churchill(rayleigh, prandtl):
     """
     ra = np.asarray(rayleigh, dtype=float)
     pr = np.asarray(prandtl, dtype=float)
-    f = 1.0 + (0.469 / pr) ** (9.0 / 16.0)
-    return 2.0 + 0.589 * ra ** 0.25 / f ** (4.0 / 9.0) * (
-        1.0 + 7.44e-8 * ra / f ** (16.0 / 9.0)) ** (1.0 / 12.0)
+    a = (0.469 / pr) ** (9.0 / 16.0)
+    f = 1.0 + a
+    w = 7.44e-8 * ra / f ** (16.0 / 9.0)
+    rising = 0.589 * np.sqrt(np.sqrt(ra)) / f ** (4.0 / 9.0) * (1.0 + w) ** (1.0 / 12.0)
+    nu = 2.0 + rising
+    if not with_slopes:
+        return nu
+    # d ln(rising) = (1/4 + w / (12 (1 + w))) (d ln Ra + a / f d ln Pr).
+    slope_ra = rising / nu * (0.25 + w / (12.0 * (1.0 + w)))
+    return nu, slope_ra, slope_ra * a / f
 
 
-def nusselt_natural_horizontal_plate_up_mcadams(rayleigh, prandtl):
+def nusselt_natural_horizontal_plate_up_mcadams(rayleigh, prandtl, *, with_slopes=False):
     r"""Natural convection above a hot horizontal plate facing up (McAdams, Lloyd & Moran).
 
     Also the case of a cold plate facing down: the flow is the same, mirrored.
@@ -168,11 +197,16 @@ def nusselt_natural_horizontal_plate_up_mcadams(rayleigh, prandtl):
     prandtl : float or array_like
         Prandtl number of the fluid [-]; not used (the correlation has no
         Prandtl dependence), accepted for a uniform signature.
+    with_slopes : bool, optional
+        Also return the local exponents of the correlation [-] (see Returns).
 
     Returns
     -------
     numpy.ndarray
         Average Nusselt number on L [-].
+    numpy.ndarray, numpy.ndarray
+        Only ``with_slopes``: d ln Nu / d ln Ra and d ln Nu / d ln Pr [-], exact
+        derivatives of the formula, for the slope of the heat flux in a Newton solver.
 
     Notes
     -----
@@ -193,10 +227,14 @@ def nusselt_natural_horizontal_plate_up_mcadams(rayleigh, prandtl):
     (characteristic length A/P).
     """
     ra = np.asarray(rayleigh, dtype=float)
-    return np.where(ra < _RA_JOIN_PLATE_UP, 0.54 * ra ** 0.25, 0.15 * np.cbrt(ra))
+    laminar = ra < _RA_JOIN_PLATE_UP
+    nu = np.where(laminar, 0.54 * np.sqrt(np.sqrt(ra)), 0.15 * np.cbrt(ra))
+    if not with_slopes:
+        return nu
+    return nu, np.where(laminar, 0.25, 1.0 / 3.0), np.zeros_like(nu)
 
 
-def nusselt_natural_horizontal_plate_down_mcadams(rayleigh, prandtl):
+def nusselt_natural_horizontal_plate_down_mcadams(rayleigh, prandtl, *, with_slopes=False):
     r"""Natural convection below a hot horizontal plate facing down (McAdams).
 
     Also the case of a cold plate facing up.
@@ -211,11 +249,16 @@ def nusselt_natural_horizontal_plate_down_mcadams(rayleigh, prandtl):
     prandtl : float or array_like
         Prandtl number of the fluid [-]; not used, accepted for a uniform
         signature.
+    with_slopes : bool, optional
+        Also return the local exponents of the correlation [-] (see Returns).
 
     Returns
     -------
     numpy.ndarray
         Average Nusselt number on L [-].
+    numpy.ndarray, numpy.ndarray
+        Only ``with_slopes``: d ln Nu / d ln Ra and d ln Nu / d ln Pr [-], exact
+        derivatives of the formula, for the slope of the heat flux in a Newton solver.
 
     Notes
     -----
@@ -229,7 +272,10 @@ def nusselt_natural_horizontal_plate_down_mcadams(rayleigh, prandtl):
     Fundamentals of Heat and Mass Transfer, 6th ed., Wiley, Chapter 9.
     """
     ra = np.asarray(rayleigh, dtype=float)
-    return 0.27 * ra ** 0.25
+    nu = 0.27 * np.sqrt(np.sqrt(ra))
+    if not with_slopes:
+        return nu
+    return nu, np.full_like(nu, 0.25), np.zeros_like(nu)
 
 
 def nusselt_forced_cylinder_churchill_bernstein(reynolds, prandtl):

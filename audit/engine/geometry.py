@@ -52,20 +52,33 @@ def conductance_factor(geometry, r1, r2):
         G [1/m for a plane, - for a cylinder per metre, m for a sphere]; ``inf`` for a layer
         of zero thickness, which then carries heat with no temperature drop.
     """
-    geometry, r1, r2 = np.broadcast_arrays(np.asarray(geometry), np.asarray(r1, float),
-                                           np.asarray(r2, float))
-    thickness = r2 - r1
-    g = np.full(thickness.shape, np.inf)
-    layer = thickness != 0.0
-    plane = layer & (geometry == PLANE)
-    cylinder = layer & (geometry == CYLINDER)
-    sphere = layer & (geometry != PLANE) & (geometry != CYLINDER)
-    # Each form only where it applies: the logarithm is the costly part.
     with np.errstate(divide="ignore", invalid="ignore"):
-        g[plane] = 1.0 / thickness[plane]
-        g[cylinder] = 2.0 * np.pi / np.log(r2[cylinder] / r1[cylinder])
-        g[sphere] = 4.0 * np.pi / (1.0 / r1[sphere] - 1.0 / r2[sphere])
+        if np.ndim(geometry) == 0:
+            # One geometry for all (the engine's call): its form everywhere, no masks; a zero
+            # thickness divides by an exact zero.
+            r1, r2 = np.broadcast_arrays(np.asarray(r1, float), np.asarray(r2, float))
+            return np.where(r2 == r1, np.inf, _FORMS[_code(geometry)](r1, r2))
+        geometry, r1, r2 = np.broadcast_arrays(np.asarray(geometry), np.asarray(r1, float),
+                                               np.asarray(r2, float))
+        g = np.full(r1.shape, np.inf)
+        layer = r2 != r1
+        codes = _code(geometry)
+        # Each form only where it applies: the logarithm is the costly part.
+        for code, form in _FORMS.items():
+            at = layer & (codes == code)
+            g[at] = form(r1[at], r2[at])
     return g
+
+
+# The forms of the table in the module docstring; any other code counts as a sphere.
+_FORMS = {PLANE: lambda r1, r2: 1.0 / (r2 - r1),
+          CYLINDER: lambda r1, r2: 2.0 * np.pi / np.log(r2 / r1),
+          SPHERE: lambda r1, r2: 4.0 * np.pi / (1.0 / r1 - 1.0 / r2)}
+
+
+def _code(geometry):
+    geometry = np.asarray(geometry)
+    return np.where((geometry == PLANE) | (geometry == CYLINDER), geometry, SPHERE)[()]
 
 
 def outer_area_factor(geometry, r_out):

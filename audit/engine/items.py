@@ -337,7 +337,6 @@ class _Elements:
 
 def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
     blocks = []
-    n_layers = b.layer_table.shape[1]
     radius = b.od / 2.0
     shape, orient = b.shape, b.orientation
     insulatable = (b.layer_table >= 0).any(axis=1)
@@ -416,20 +415,33 @@ def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
                                      np.full(m, geometry_code), kind, r_metal, length, flow)):
             parts[key].append(np.asarray(value))
     cat = {k: (np.concatenate(v) if v else np.empty(0)) for k, v in parts.items()}
+    # Elements in the surface model's evaluation order (surface.evaluation_order).
+    order = surface.evaluation_order(cat["kind"].astype(int), b.wind[cat["item"].astype(int)])
+    cat = {k: v[order] for k, v in cat.items()}
     item = cat["item"].astype(int)
     insulated = cat["insulated"].astype(bool)
-    table = np.where(insulated[:, None], b.layer_table[item], -1).reshape(item.size, n_layers)
+    # Layers of each element: its item's, or none (the extra last row) for bare metal.
+    layers = np.where(insulated, item, len(b))
+    present = b.layer_table >= 0
     return _Elements(
         item=item, role=cat["role"].astype(int), insulated=insulated, weight=cat["weight"],
         geometry=cat["geometry"].astype(int), kind=cat["kind"].astype(int),
         r_metal=cat["r_metal"], length=cat["length"], flow_length=cat["flow_length"],
-        layer_table=table,
-        layer_thickness=np.where(table >= 0, b.layer_thickness[item], 0.0).reshape(item.size, n_layers),
-        layer_factor=np.where(table >= 0, b.layer_factor[item], 1.0).reshape(item.size, n_layers),
+        layer_table=_with_row(np.where(present, b.layer_table, -1), -1)[layers],
+        layer_thickness=_with_row(np.where(present, b.layer_thickness, 0.0), 0.0)[layers],
+        layer_factor=_with_row(np.where(present, b.layer_factor, 1.0), 1.0)[layers],
         emissivity=np.where(insulated, b.emissivity[item], b.bare_emissivity[item]),
         iso_ca=np.where(insulated, b.iso_ca[item], b.bare_iso_ca[item]),
         iso_cb=np.where(insulated, b.iso_cb[item], b.bare_iso_cb[item]),
     )
+
+
+def _with_row(rows: np.ndarray, fill) -> np.ndarray:
+    """``rows`` (m, L) with one more row of ``fill`` at the end."""
+    out = np.empty((rows.shape[0] + 1, rows.shape[1]), rows.dtype)
+    out[:-1] = rows
+    out[-1] = fill
+    return out
 
 
 @dataclass
@@ -449,7 +461,10 @@ def _wall_geometry(e: _Elements) -> _WallGeometry:
     if np.any(e.geometry == PLANE):
         # Plane walls count their "radius" from the metal face.
         radii = np.where((e.geometry == PLANE)[:, None], radii - e.r_metal[:, None], radii)
-    g = geometry.conductance_factor(e.geometry[:, None], radii[:, :-1], radii[:, 1:])
+    g = np.empty(e.layer_factor.shape)
+    for code in (PLANE, CYLINDER, SPHERE):
+        rows = np.flatnonzero(e.geometry == code)
+        g[rows] = geometry.conductance_factor(code, radii[rows, :-1], radii[rows, 1:])
     conductance = g * e.layer_factor
     r_out = radii[:, -1]
     outer_area = geometry.outer_area_factor(e.geometry, r_out)
@@ -494,6 +509,9 @@ def _solve_distinct(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surfac
     first, group = distinct_rows(key)
     if first.size > _WORTH_SHARING * item.size:
         return _solve(b, e, w, tables, surface_model, r_inner)
+    # Representatives in element order, which keeps the surface model's evaluation order.
+    rank = np.argsort(first)
+    first, group = first[rank], np.argsort(rank)[group]
     sol = _solve(b, _rows_of(e, first), _rows_of(w, first), tables, surface_model, r_inner[first])
     return _rows_of(sol, group)
 
@@ -506,17 +524,14 @@ def _solve(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model, 
     diameter = 2.0 * w.radii[:, -1]
     wind = b.wind[item]
 
-    def flux_for(rows):
-        return surface.surface_flux_function(
-            surface_model, e.kind[rows], diameter[rows], e.length[rows], wind[rows], t_air[rows],
-            t_sur[rows], e.emissivity[rows], iso_ca=e.iso_ca[rows], iso_cb=e.iso_cb[rows],
-            flow_length=e.flow_length[rows])
-
+    model = surface.surface_flux_function(
+        surface_model, e.kind, diameter, e.length, wind, t_air, t_sur, e.emissivity,
+        iso_ca=e.iso_ca, iso_cb=e.iso_cb, flow_length=e.flow_length)
     t_low = np.minimum(np.minimum(t_process, t_air), t_sur)
     t_high = np.maximum(np.maximum(t_process, t_air), t_sur)
     return solve_walls(t_process, t_air, t_low, t_high, w.conductance,
                        np.where(w.present, e.layer_table, 0), w.present, tables,
-                       r_inner, w.outer_area, flux_for)
+                       r_inner, w.outer_area, model.take)
 
 
 def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,

@@ -79,3 +79,26 @@ def radiative_coefficient_linearised(surface_temp, surroundings_temp, emissivity
     tsur = np.asarray(surroundings_temp, dtype=float)
     eps_sigma = np.asarray(emissivity, dtype=float) * STEFAN_BOLTZMANN
     return eps_sigma * (ts * ts + tsur * tsur) * (ts + tsur)
+
+
+def radiative_flux_grey_body_slope(surface_temp, emissivity):
+    r"""Derivative of :func:`radiative_flux_grey_body` in the surface temperature.
+
+    .. math::
+        \frac{\partial q_{rad}}{\partial T_s} = 4\,\varepsilon\,\sigma\,T_s^3
+
+    Parameters
+    ----------
+    surface_temp : float or array_like
+        Surface temperature [K].
+    emissivity : float or array_like
+        Hemispherical total emissivity of the surface, 0 to 1 [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Slope of the net radiative flux [W/(m2 K)]; the surroundings' temperature drops
+        out.  Same validity as :func:`radiative_flux_grey_body`.
+    """
+    ts = np.asarray(surface_temp, dtype=float)
+    return 4.0 * STEFAN_BOLTZMANN * np.asarray(emissivity, dtype=float) * ts * ts * ts

@@ -16,7 +16,8 @@ Newton steps kept inside that bracket, falling back to bisection when a step lea
 bracket or fails to halve the residual (the safeguarded Newton method, Press, W.H. et al.
 (2007), Numerical Recipes, 3rd ed., Cambridge, section 9.4): quadratic where the residual is
 smooth, never worse than bisection.  The derivative comes from the march itself: through each
-layer k(T_hot) dT_hot = k(T_cold) dT_cold + dQ/G.
+layer k(T_hot) dT_hot = k(T_cold) dT_cold + dQ/G, with dQ/dT_s from the surface model's own
+analytic slope.
 """
 
 from __future__ import annotations
@@ -29,8 +30,6 @@ from audit.engine.conduction import ConductivityTables
 
 #: Relative closure of the surface heat balance that counts as converged.
 BALANCE_TOLERANCE = 1e-6
-#: Surface-temperature step of the forward difference for the surface model's slope [K].
-_STEP = 1e-4
 #: A working set this small is swept whole rather than gathered anew.
 _SMALL_SET = 4096
 
@@ -76,8 +75,11 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
     outer_area : numpy.ndarray
         Outer surface area per basis [m2/m2, m2/m or m2], (n,).
     flux_for : callable
-        ``flux_for(rows)`` returns ``flux(T_s) -> (q_conv, q_rad)`` [W/m2] for the elements
-        ``rows`` (an index array); the solver asks again for fewer rows as elements converge.
+        ``flux_for(rows)`` returns the surface model of the elements ``rows`` (an index
+        array): ``flux(T_s) -> (q_conv, q_rad)`` [W/m2] and
+        ``flux(T_s, slope=True) -> (q_conv, q_rad, dq_dT)`` [W/m2, W/m2, W/(m2 K)], as
+        :func:`audit.engine.surface.surface_flux_function` builds them.  The solver asks
+        again for fewer rows as elements converge.
     max_iter : int
         Most sweeps of the root finder.  An element stops when its residual is a hundredth
         of what the balance tolerance allows, or when its bracket is a few float steps wide.
@@ -123,14 +125,20 @@ def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,
     for iterations in range(1, max_iter + 1):
         if not live.any():
             break
-        x = np.where(np.isfinite(x) & (x > low) & (x < high), x, 0.5 * (low + high))
+        # The bracket is closed: an element at ambient without heat flow (the simplified ISO
+        # model ignores the surroundings) has its root at an end of it.
+        x = np.where(np.isfinite(x) & (x >= low) & (x <= high), x, 0.5 * (low + high))
         state, df = walls.march(x, slope=True)
         f = walls.residual(*state[:2])
         root[rows] = np.where(live, x, root[rows])
         below = f < 0
         low, high = np.where(below, x, low), np.where(below, high, x)
         drop = np.maximum(np.abs(walls.t_process - x), 1e-6)
-        finished = live & ((np.abs(f) <= 1e-2 * BALANCE_TOLERANCE * drop)
+        # Done when the residual is well inside the tolerance, or down to the rounding of
+        # the temperatures (an element within microkelvins of its process temperature), or
+        # when the bracket is.
+        finished = live & ((np.abs(f) <= np.maximum(1e-2 * BALANCE_TOLERANCE * drop,
+                                                    _ulps(x, walls.t_process)))
                            | (high - low <= _ulps(low, high)) | np.isnan(f))
         store(rows[finished], tuple(part[finished] for part in state))
         live &= ~finished
@@ -216,15 +224,15 @@ class _Walls:
         """Interface temperatures, heat rate and fluxes for trial surface temperatures.
 
         With ``slope``, also d(T_hot_computed)/d(T_s): through each layer
-        k(T_hot) dT_hot = k(T_cold) dT_cold + dQ / G, with dQ/dT_s of the surface model
-        by a forward difference.
+        k(T_hot) dT_hot = k(T_cold) dT_cold + dQ / G, with dQ/dT_s of the surface model.
         """
-        q_conv, q_rad = self.flux(t_surface)
-        heat = self.outer_area * (q_conv + q_rad)
         if slope:
-            q_conv_up, q_rad_up = self.flux(t_surface + _STEP)
-            dheat = (self.outer_area * (q_conv_up + q_rad_up) - heat) / _STEP
+            q_conv, q_rad, dq = self.flux(t_surface, slope=True)
+            dheat = self.outer_area * dq
             d = np.ones_like(t_surface)
+        else:
+            q_conv, q_rad = self.flux(t_surface)
+        heat = self.outer_area * (q_conv + q_rad)
         n_layers = len(self.slots)
         temps = np.empty((t_surface.size, n_layers + 1))
         temps[:, n_layers] = t_surface

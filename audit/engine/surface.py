@@ -4,7 +4,8 @@ A surface model turns a surface temperature into a convective and a radiative
 heat flux.  :func:`surface_flux_function` does once, for n surfaces of mixed
 kinds, everything that does not depend on the surface temperature, and returns
 a fast vectorised ``flux(T_s) -> (q_conv, q_rad)`` for the solver to call
-repeatedly.  Fluxes are in W/m2 of outer surface, positive when heat leaves the
+repeatedly, with the flux's slope in T_s on request.  Surfaces given in
+:func:`evaluation_order` are evaluated fastest.  Fluxes are in W/m2 of outer surface, positive when heat leaves the
 surface.
 
 Surface kinds are small integer codes, so one call serves a whole register:
@@ -76,7 +77,7 @@ import numpy as np
 
 from audit.engine import convection as cv
 from audit.engine.air import air_transport_tabulated
-from audit.engine.radiation import radiative_flux_grey_body
+from audit.engine.radiation import radiative_flux_grey_body, radiative_flux_grey_body_slope
 from audit.errors import EngineInputError
 
 HORIZONTAL_CYLINDER = 0
@@ -172,7 +173,11 @@ def surface_flux_function(model, kind, diameter, length, wind, air_temp, surroun
     callable
         ``flux(T_s)`` taking surface temperatures [K], length n (or a scalar),
         and returning ``(q_conv, q_rad)`` [W/m2], arrays of length n, positive
-        for heat leaving the surface.
+        for heat leaving the surface.  ``flux(T_s, slope=True)`` returns
+        ``(q_conv, q_rad, dq_dT)``, the last the derivative of q_conv + q_rad in
+        T_s [W/(m2 K)], exact for the model as computed (air properties and all),
+        for a Newton solver.  ``flux.take(rows)`` is the same model for the
+        surfaces ``rows`` (positions) only, without validating them again.
 
     Raises
     ------
@@ -205,96 +210,171 @@ def surface_flux_function(model, kind, diameter, length, wind, air_temp, surroun
 # model "correlations"
 
 class _Group(NamedTuple):
-    """Rows of one kind family, with what the flux needs that does not depend on T_s."""
+    """Surfaces of one kind, all in wind or all in calm air, with what the flux needs that
+    does not depend on T_s."""
 
-    rows: np.ndarray | slice
-    natural: Callable | None   # None for horizontal plates (orientation decides per call)
+    rows: np.ndarray | slice   # a slice where they are contiguous: views, no copies
+    natural: Callable | None   # None for horizontal plates (the heat's direction decides)
+    facing_up: bool            # horizontal plates: the exposed face looks up
     g_l3: np.ndarray           # g L^3 of the natural-convection length [m4/s2]
     inv_l: np.ndarray          # 1 / natural-convection length [1/m]
-    facing_up: np.ndarray | None  # horizontal plates: True where the exposed face looks up
-    windy: np.ndarray          # positions within the group with wind > 0
-    h_forced: np.ndarray       # forced-convection coefficient of those rows [W/(m2 K)]
+    h_forced: np.ndarray | None  # forced-convection coefficient [W/(m2 K)]; None in calm air
+
+
+_NATURAL = {
+    HORIZONTAL_CYLINDER: cv.nusselt_natural_horizontal_cylinder_churchill_chu,
+    VERTICAL_CYLINDER: cv.nusselt_natural_vertical_plate_churchill_chu,
+    SPHERE: cv.nusselt_natural_sphere_churchill,
+    VERTICAL_PLATE: cv.nusselt_natural_vertical_plate_churchill_chu,
+    HORIZONTAL_PLATE_UP: None,
+    HORIZONTAL_PLATE_DOWN: None,
+}
+_FORCED = (  # (kinds, correlation, its length: the diameter or the flow length)
+    ((HORIZONTAL_CYLINDER, VERTICAL_CYLINDER), cv.nusselt_forced_cylinder_churchill_bernstein,
+     "diameter"),
+    ((SPHERE,), cv.nusselt_forced_sphere_whitaker, "diameter"),
+    ((VERTICAL_PLATE, HORIZONTAL_PLATE_UP, HORIZONTAL_PLATE_DOWN),
+     cv.nusselt_forced_flat_plate_mixed_incropera, "flow_length"),
+)
+
+
+def evaluation_order(kind, wind):
+    """An order of n surfaces in which their flux is evaluated fastest.
+
+    Parameters
+    ----------
+    kind : array_like of int
+        Surface kind code per surface [-].
+    wind : array_like
+        Wind speed per surface [m/s].
+
+    Returns
+    -------
+    numpy.ndarray of int
+        Positions grouped by kind and, within a kind, calm before windy (a stable sort).
+        Surfaces given to :func:`surface_flux_function` in this order, or any subset of it
+        in the same order, are evaluated group by group on views instead of gathered copies.
+    """
+    # Keys below 256 as bytes: numpy sorts those stably by radix, in linear time.
+    return np.argsort(_group_key(np.asarray(kind), np.asarray(wind)).astype(np.uint8),
+                      kind="stable")
+
+
+def _group_key(kind, wind):
+    return 2 * kind.astype(np.int64) + (wind > 0)
+
+
+def _rows_by_key(key):
+    """(key value, rows) for each value present in ``key`` (small non-negative ints)."""
+    counts = np.bincount(key)
+    present = np.flatnonzero(counts)
+    if np.all(key[1:] >= key[:-1]):
+        ends = np.cumsum(counts)
+        return [(int(v), slice(int(ends[v] - counts[v]), int(ends[v]))) for v in present]
+    return [(int(v), np.flatnonzero(key == v)) for v in present]
 
 
 def _build_correlations(kind, *, diameter, length, wind, air_temp, surroundings_temp,
                         emissivity, flow_length, **_unused):
-    n = kind.size
     _require(np.isfinite(surroundings_temp) & (surroundings_temp > 0), "surroundings_temp",
              surroundings_temp, "a temperature > 0 K")
     _require((emissivity >= 0) & (emissivity <= 1), "emissivity", emissivity, "0 to 1")
     _require(np.isfinite(wind) & (wind >= 0), "wind", wind, ">= 0 m/s")
-    round_kinds = np.isin(kind, [HORIZONTAL_CYLINDER, VERTICAL_CYLINDER, SPHERE])
+    round_kinds = kind <= SPHERE  # horizontal and vertical cylinders, spheres
     _require(~round_kinds | (np.isfinite(diameter) & (diameter > 0)), "diameter", diameter,
              "> 0 m for cylinders and spheres")
-    long_kinds = ~np.isin(kind, [HORIZONTAL_CYLINDER, SPHERE])
-    _require(~long_kinds | (np.isfinite(length) & (length > 0)), "length", length,
+    uses_diameter = (kind == HORIZONTAL_CYLINDER) | (kind == SPHERE)
+    _require(uses_diameter | (np.isfinite(length) & (length > 0)), "length", length,
              "> 0 m for vertical cylinders and plates")
-    plates = np.isin(kind, [VERTICAL_PLATE, HORIZONTAL_PLATE_UP, HORIZONTAL_PLATE_DOWN])
-    _require(~(plates & (wind > 0)) | (np.isfinite(flow_length) & (flow_length > 0)),
+    plates = kind >= VERTICAL_PLATE
+    windy = wind > 0
+    _require(~(plates & windy) | (np.isfinite(flow_length) & (flow_length > 0)),
              "flow_length", flow_length, "> 0 m for plates in wind")
 
-    # (kinds, natural correlation, its length, forced correlation, its length)
-    families = (
-        ((HORIZONTAL_CYLINDER,), cv.nusselt_natural_horizontal_cylinder_churchill_chu, diameter,
-         cv.nusselt_forced_cylinder_churchill_bernstein, diameter),
-        ((VERTICAL_CYLINDER,), cv.nusselt_natural_vertical_plate_churchill_chu, length,
-         cv.nusselt_forced_cylinder_churchill_bernstein, diameter),
-        ((SPHERE,), cv.nusselt_natural_sphere_churchill, diameter,
-         cv.nusselt_forced_sphere_whitaker, diameter),
-        ((VERTICAL_PLATE,), cv.nusselt_natural_vertical_plate_churchill_chu, length,
-         cv.nusselt_forced_flat_plate_mixed_incropera, flow_length),
-        ((HORIZONTAL_PLATE_UP, HORIZONTAL_PLATE_DOWN), None, length,
-         cv.nusselt_forced_flat_plate_mixed_incropera, flow_length),
-    )
+    natural_length = np.where(uses_diameter, diameter, length)
     # Forced convection with free-stream (air-temperature) properties: see the notes of
     # the "correlations" model in the module docstring.
-    free = air_transport_tabulated(air_temp)
-    groups = []
-    for kinds, natural, l_nat, forced, l_forced in families:
-        idx = np.flatnonzero(np.isin(kind, kinds))
-        if idx.size == 0:
-            continue
-        rows = slice(None) if idx.size == n else idx  # a slice keeps views, no copies
-        ln = np.ascontiguousarray(l_nat[rows])
-        windy = np.flatnonzero(wind[rows] > 0)
-        at = np.arange(n)[rows][windy]
-        lf = l_forced[at]
-        nu_f = forced(wind[at] * lf / free.kinematic_viscosity[at], free.prandtl[at])
-        groups.append(_Group(
-            rows=rows, natural=natural, g_l3=GRAVITY * ln ** 3, inv_l=1.0 / ln,
-            facing_up=None if natural else kind[rows] == HORIZONTAL_PLATE_UP,
-            windy=windy, h_forced=nu_f * free.conductivity[at] / lf))
+    h_forced = np.zeros(kind.size)
+    lengths = {"diameter": diameter, "flow_length": flow_length}
+    for kinds, forced, length_name in _FORCED:
+        at = np.flatnonzero(windy & np.isin(kind, kinds))
+        if at.size:
+            free = air_transport_tabulated(air_temp[at])
+            lf = lengths[length_name][at]
+            nu_f = forced(wind[at] * lf / free.kinematic_viscosity, free.prandtl)
+            h_forced[at] = nu_f * free.conductivity / lf
+    return _CorrelationsFlux(kind, windy, air_temp, surroundings_temp, emissivity,
+                             GRAVITY * natural_length ** 3, 1.0 / natural_length, h_forced)
 
-    t_air = np.array(air_temp, dtype=float)
-    t_sur = np.asarray(surroundings_temp, dtype=float)
 
-    def flux(surface_temp):
-        ts = _rows("surface_temp", surface_temp, n)
+class _CorrelationsFlux:
+    """``flux(T_s)`` of the "correlations" model for n validated surfaces (see
+    :func:`surface_flux_function`); ``h_forced`` is 0 where the air is calm."""
+
+    def __init__(self, kind, windy, t_air, t_sur, emissivity, g_l3, inv_l, h_forced):
+        self._surfaces = (kind, windy, t_air, t_sur, emissivity, g_l3, inv_l, h_forced)
+        self.n = kind.size
+        self.t_air, self.t_sur, self.emissivity = t_air, t_sur, emissivity
+        self.groups = [
+            _Group(rows, _NATURAL[value // 2], value // 2 == HORIZONTAL_PLATE_UP, g_l3[rows],
+                   inv_l[rows], h_forced[rows] if value % 2 else None)
+            for value, rows in _rows_by_key(_group_key(kind, windy))]
+
+    def take(self, rows):
+        """The same model for the surfaces ``rows`` (positions) only, not validated again."""
+        return _CorrelationsFlux(*(value[rows] for value in self._surfaces))
+
+    def __call__(self, surface_temp, slope=False):
+        ts = _rows("surface_temp", surface_temp, self.n)
+        t_air = self.t_air
         dt = ts - t_air
         t_film = 0.5 * (ts + t_air)
-        air = air_transport_tabulated(t_film)
+        if slope:
+            air, d_air = air_transport_tabulated(t_film, with_derivatives=True)
+            # Logarithmic slopes in T_s (the film temperature moves half as fast):
+            # d ln Ra/dT_s = 1/dt + p_ra, d ln Pr/dT_s = p_pr, d ln k/dT_s = p_k.
+            p_pr = 0.5 * d_air.prandtl / air.prandtl
+            p_k = 0.5 * d_air.conductivity / air.conductivity
+            p_ra = p_pr - 0.5 / t_film - d_air.kinematic_viscosity / air.kinematic_viscosity
+            growth = np.empty(self.n)
+        else:
+            air = air_transport_tabulated(t_film)
         k, nu, pr = air.conductivity, air.kinematic_viscosity, air.prandtl
         # Ra = g beta |dT| L^3 / (nu alpha) with beta = 1/T_film and alpha = nu / Pr.
         ra_per_gl3 = np.abs(dt) * pr / (t_film * nu * nu)
-        h = np.empty(n)
-        for g in groups:
+        h = np.empty(self.n)
+        for g in self.groups:
             r = g.rows
-            ra, pr_g, k_g = g.g_l3 * ra_per_gl3[r], pr[r], k[r]
+            ra, pr_g = g.g_l3 * ra_per_gl3[r], pr[r]
             if g.natural is None:
                 # Heat rising off the exposed face: hot facing up or cold facing down.
                 rising = (dt[r] > 0) == g.facing_up
-                nu_nat = np.where(rising, cv.nusselt_natural_horizontal_plate_up_mcadams(ra, pr_g),
-                                  cv.nusselt_natural_horizontal_plate_down_mcadams(ra, pr_g))
+                up = cv.nusselt_natural_horizontal_plate_up_mcadams(ra, pr_g, with_slopes=slope)
+                down = cv.nusselt_natural_horizontal_plate_down_mcadams(ra, pr_g,
+                                                                        with_slopes=slope)
+                natural = ([np.where(rising, a, b) for a, b in zip(up, down)] if slope
+                           else np.where(rising, up, down))
             else:
-                nu_nat = g.natural(ra, pr_g)
-            h_g = nu_nat * k_g * g.inv_l
-            if g.windy.size:
+                natural = g.natural(ra, pr_g, with_slopes=slope)
+            nu_nat, s_ra, s_pr = natural if slope else (natural, None, None)
+            h_g = h_natural = nu_nat * k[r] * g.inv_l
+            if g.h_forced is not None:
                 # Coefficients, not Nusselt numbers: the two regimes may use different lengths.
-                h_g[g.windy] = cv.combine_nusselt(h_g[g.windy], g.h_forced)
+                h_g = cv.combine_nusselt(h_natural, g.h_forced)
             h[r] = h_g
-        return h * dt, radiative_flux_grey_body(ts, t_sur, emissivity)
-
-    return flux
+            if slope:
+                # dt d ln h/dT_s, written without 1/dt; combined, d ln h = (h_n/h)^3 d ln h_n.
+                dt_g = dt[r]
+                e = s_ra * (1.0 + dt_g * p_ra[r]) + dt_g * (s_pr * p_pr[r] + p_k[r])
+                if g.h_forced is not None:
+                    share = h_natural / h_g
+                    e *= share * share * share
+                growth[r] = e
+        q_conv = h * dt
+        q_rad = radiative_flux_grey_body(ts, self.t_sur, self.emissivity)
+        if not slope:
+            return q_conv, q_rad
+        return q_conv, q_rad, h * (1.0 + growth) + radiative_flux_grey_body_slope(ts, self.emissivity)
 
 
 # ----------------------------------------------------------------------------------------
@@ -373,16 +453,28 @@ def _build_iso12241_simplified(kind, *, air_temp, iso_ca, iso_cb, **_unused):
              ">= 0 W/(m2 K) for horizontal cylinders")
     _require(horizontal | (np.isfinite(iso_cb) & (iso_cb >= 0)), "iso_cb", iso_cb,
              ">= 0 W/(m2 K) for vertical and other surfaces")
-    c0 = np.where(horizontal, iso_ca, iso_cb)
-    c1 = np.where(horizontal, ISO12241_SLOPE_HORIZONTAL, ISO12241_SLOPE_VERTICAL)
-    t_air = np.array(air_temp, dtype=float)
-    n = kind.size
+    return _Iso12241Flux(air_temp, np.where(horizontal, iso_ca, iso_cb),
+                         np.where(horizontal, ISO12241_SLOPE_HORIZONTAL, ISO12241_SLOPE_VERTICAL))
 
-    def flux(surface_temp):
-        dt = _rows("surface_temp", surface_temp, n) - t_air
-        return (c0 + c1 * np.abs(dt)) * dt, np.zeros(n)
 
-    return flux
+class _Iso12241Flux:
+    """``flux(T_s)`` of the "iso12241-simplified" model: h = c0 + c1 |dT|, radiation lumped."""
+
+    def __init__(self, t_air, c0, c1):
+        self.t_air, self.c0, self.c1 = t_air, c0, c1
+
+    def take(self, rows):
+        """The same model for the surfaces ``rows`` (positions) only, not validated again."""
+        return _Iso12241Flux(self.t_air[rows], self.c0[rows], self.c1[rows])
+
+    def __call__(self, surface_temp, slope=False):
+        n = self.t_air.size
+        dt = _rows("surface_temp", surface_temp, n) - self.t_air
+        rise = self.c1 * np.abs(dt)
+        h = self.c0 + rise
+        if not slope:
+            return h * dt, np.zeros(n)
+        return h * dt, np.zeros(n), h + rise
 
 
 # ----------------------------------------------------------------------------------------

@@ -103,3 +103,28 @@ def test_out_of_range_raises(function, temp):
         function(np.array([300.0, temp]))
     assert isinstance(info.value, LagauditError) and isinstance(info.value, ValueError)
     assert "100 K to 2000 K" in str(info.value)
+
+
+def test_tabulated_derivatives_are_the_slopes_of_the_interpolation():
+    # Within one 0.25 K table step the interpolation is a straight line, so a centred
+    # difference over +-0.01 K (kept inside the step) equals its slope up to rounding
+    # (~1e-16 / 0.02 relative to the values: 1e-12 leaves margin).
+    rng = np.random.default_rng(5)
+    cells = rng.integers(0, int((T_MAX - T_MIN) / 0.25) - 1, 2000)
+    temps = T_MIN + 0.25 * cells + rng.uniform(0.02, 0.23, cells.size)
+    values, slopes = air_transport_tabulated(temps, with_derivatives=True)
+    up, down = air_transport_tabulated(temps + 0.01), air_transport_tabulated(temps - 0.01)
+    for field in ("conductivity", "kinematic_viscosity", "prandtl"):
+        np.testing.assert_array_equal(getattr(values, field),
+                                      getattr(air_transport_tabulated(temps), field))
+        central = (getattr(up, field) - getattr(down, field)) / 0.02
+        np.testing.assert_allclose(getattr(slopes, field), central,
+                                   rtol=1e-6, atol=1e-12 * np.abs(getattr(values, field)).max() / 0.02)
+    # And they are the slopes of the physical properties: against central differences of
+    # the closed form over 1 K.  A 0.25 K chord's slope differs from the tangent by about
+    # (f''/f') x 0.25 K, of order 0.25 K / T, so 5e-3 from 100 K up.
+    inner = (temps > T_MIN + 1.0) & (temps < T_MAX - 1.0)
+    for field in ("conductivity", "kinematic_viscosity"):
+        exact_slope = (getattr(air_properties(temps[inner] + 0.5), field)
+                       - getattr(air_properties(temps[inner] - 0.5), field))
+        np.testing.assert_allclose(getattr(slopes, field)[inner], exact_slope, rtol=5e-3)

@@ -205,3 +205,24 @@ def test_unknown_correlation_names_the_available_ones():
     assert isinstance(info.value, LagauditError)
     for name in cv.CORRELATIONS:
         assert name in str(info.value)
+
+
+NATURAL = [c.function for c in cv.available_correlations() if c.regime == "natural"]
+
+
+@pytest.mark.parametrize("function", NATURAL,
+                         ids=[c.name for c in cv.available_correlations() if c.regime == "natural"])
+def test_local_exponents_are_the_derivatives_of_the_formula(function):
+    # d ln Nu / d ln Ra and d ln Nu / d ln Pr against central differences of the function
+    # itself, a step of 1e-5 in ln Ra or ln Pr: truncation error ~1e-10, rounding ~1e-11, so
+    # 1e-7 (absolute, on exponents of order 0.1) leaves a wide margin and still catches any
+    # wrong factor.  Ra runs over the whole range the solver meets, Pr over air and beyond;
+    # the McAdams join at Ra = 4.7e6 is avoided (a kink, no derivative there).
+    ra, pr = grid(np.logspace(-3, 13, 33) * 1.37, PR_AIR + [0.05, 7.0])
+    nu, s_ra, s_pr = function(ra, pr, with_slopes=True)
+    np.testing.assert_array_equal(nu, function(ra, pr))
+    step = 1e-5
+    d_ra = (np.log(function(ra * np.exp(step), pr)) - np.log(function(ra * np.exp(-step), pr))) / (2 * step)
+    d_pr = (np.log(function(ra, pr * np.exp(step))) - np.log(function(ra, pr * np.exp(-step)))) / (2 * step)
+    np.testing.assert_allclose(s_ra, d_ra, rtol=0, atol=1e-7)
+    np.testing.assert_allclose(s_pr, d_pr, rtol=0, atol=1e-7)

@@ -53,6 +53,25 @@ def test_balance_closes_over_the_whole_domain():
         assert np.isfinite(getattr(states, name)).all(), name
 
 
+def test_iso_model_closes_the_balance_also_for_items_at_ambient():
+    # The simplified ISO 12241 model ignores the surroundings, so an item at the air
+    # temperature carries no heat and its surface sits at an end of the solver's bracket
+    # (lowest to highest of process, air and surroundings).  The constants are arbitrary
+    # positive inputs, not surface data.
+    batch = random_batch(11, 4000)
+    n = batch.shape.size
+    at_ambient = np.arange(n) % 4 == 0
+    batch.t_process = np.where(at_ambient, batch.t_air, batch.t_process)
+    batch.iso_ca, batch.iso_cb = np.full(n, 1.5), np.full(n, 2.0)
+    batch.bare_iso_ca, batch.bare_iso_cb = np.full(n, 6.0), np.full(n, 7.0)
+    states = solve_items(batch, TABLES, surface_model="iso12241-simplified")
+    assert states.converged.all(), set(states.reason[~states.converged])
+    assert np.nanmax(states.balance_error) <= BALANCE_TOLERANCE
+    # No heat flows: exactly, up to the rounding of temperatures near 300 K.
+    np.testing.assert_allclose(states.heat_loss[at_ambient], 0.0, atol=1e-6)
+    np.testing.assert_allclose(states.surface_temp[at_ambient], batch.t_air[at_ambient], rtol=1e-12)
+
+
 def test_balance_checked_independently_layer_by_layer():
     # Independent of the solver's own measure: recompute each layer's heat rate from the
     # returned interface temperatures (integral of k) and the surface's from the surface

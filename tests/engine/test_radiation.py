@@ -8,7 +8,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from audit.engine.radiation import (
-    STEFAN_BOLTZMANN, radiative_coefficient_linearised, radiative_flux_grey_body)
+    STEFAN_BOLTZMANN, radiative_coefficient_linearised, radiative_flux_grey_body,
+    radiative_flux_grey_body_slope)
 
 
 def test_sigma_is_codata_2018():
@@ -61,3 +62,14 @@ def test_accepts_arrays_and_series(make):
     expected = [float(radiative_flux_grey_body(a, b, e)) for a, b, e in zip(ts, tsur, eps)]
     got = radiative_flux_grey_body(make(ts), make(tsur), make(eps))
     np.testing.assert_allclose(np.asarray(got), expected, rtol=1e-15)
+
+
+def test_slope_is_the_derivative_of_the_flux():
+    # d/dT_s of eps sigma (T_s^4 - T_sur^4) is 4 eps sigma T_s^3; here against a central
+    # difference of the flux itself over +-1e-3 K (truncation ~1e-8 relative).
+    ts = np.linspace(73.15, 1073.15, 41)
+    slope = radiative_flux_grey_body_slope(ts, 0.7)
+    central = (radiative_flux_grey_body(ts + 1e-3, 293.15, 0.7)
+               - radiative_flux_grey_body(ts - 1e-3, 293.15, 0.7)) / 2e-3
+    np.testing.assert_allclose(slope, central, rtol=1e-7)
+    assert radiative_flux_grey_body_slope(300.0, 0.0) == 0.0

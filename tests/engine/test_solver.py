@@ -18,8 +18,10 @@ from audit.engine.solver import BALANCE_TOLERANCE, solve_walls
 
 
 def constant_h(h, t_air):
-    def flux(t_surface):
-        return h * (t_surface - t_air), np.zeros_like(t_surface)
+    """A surface model of constant coefficient h, with its slope h."""
+    def flux(t_surface, slope=False):
+        q = h * (t_surface - t_air), np.zeros_like(t_surface)
+        return (*q, np.full_like(t_surface, h)) if slope else q
     return flux
 
 

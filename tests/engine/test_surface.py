@@ -6,7 +6,7 @@ import pandas as pd
 import pytest
 import scipy.constants
 from CoolProp.CoolProp import PropsSI
-from hypothesis import given, settings
+from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
 from audit.engine import surface as sf
@@ -332,3 +332,60 @@ def test_film_temperature_outside_air_range_raises():
     flux = build(sf.HORIZONTAL_CYLINDER)
     with pytest.raises(EngineInputError, match="100 K to 2000 K"):
         flux(np.array([5000.0]))
+
+
+@settings(max_examples=300, deadline=None)
+@given(**{key: ROW[key] for key in ("kind", "diameter", "length", "wind", "air", "sur_offset",
+                                    "eps", "ts")})
+def test_slope_is_the_derivative_of_the_flux(kind, diameter, length, wind, air, sur_offset, eps,
+                                            ts):
+    # The analytic dq/dT_s (the solver's Newton slope) against a central difference of the
+    # flux itself over +-1e-4 K.  The step stays inside one 0.25 K step of the air-property
+    # table at the film temperature (T_s moves it half as fast) or the difference would
+    # straddle a kink; flux curvature and rounding leave ~1e-6 relative, so 1e-5 (or a
+    # millionth of the flux's scale, where the slope itself nearly vanishes).
+    film = 0.5 * (ts + air)
+    offset = (film - 100.0) % 0.25
+    assume(0.01 < offset < 0.24)
+    # |T_s - T_a| has a kink at zero.  (McAdams' join at Ra = 4.7e6 is one too, met within
+    # 1e-4 K only by a vanishing share of draws.)
+    assume(abs(ts - air) > 1e-3)
+    flux = build([kind] * 3, diameter=diameter, length=length, wind=wind, air=air,
+                 sur=air + sur_offset, eps=eps)
+    q_conv, q_rad, slope = flux(np.array([ts, ts, ts]), slope=True)
+    plain = flux(np.array([ts, ts, ts]))
+    np.testing.assert_array_equal(q_conv, plain[0])
+    np.testing.assert_array_equal(q_rad, plain[1])
+    up = sum(flux(np.full(3, ts + 1e-4)))
+    down = sum(flux(np.full(3, ts - 1e-4)))
+    central = (up - down) / 2e-4
+    scale = np.abs(q_conv + q_rad).max() + 1.0
+    np.testing.assert_allclose(slope, central, rtol=1e-5, atol=1e-6 * scale)
+
+
+@pytest.mark.parametrize("kind", KINDS)
+def test_iso_slope_is_the_derivative_of_the_flux(kind):
+    # h = C + c1 |dT|, q = h dT: the slope C + 2 c1 |dT| against a central difference
+    # (exact for a quadratic away from dT = 0, up to rounding).
+    flux = build([kind] * 5, model="iso12241-simplified", iso_ca=1.2, iso_cb=2.4)
+    ts = np.array([100.0, 250.0, 293.5, 400.0, 1000.0])
+    _, _, slope = flux(ts, slope=True)
+    central = (flux(ts + 1e-3)[0] - flux(ts - 1e-3)[0]) / 2e-3
+    np.testing.assert_allclose(slope, central, rtol=1e-8)
+
+
+def test_take_is_the_same_model_for_fewer_surfaces():
+    rng = np.random.default_rng(9)
+    n = 60
+    kind = rng.choice(KINDS, n)
+    order = sf.evaluation_order(kind, np.zeros(n))
+    assert np.all(np.diff(kind[order]) >= 0)
+    flux = build(kind, diameter=rng.uniform(0.02, 3, n), length=rng.uniform(0.1, 10, n),
+                 wind=rng.choice([0.0, 3.0], n), air=rng.uniform(250, 310, n),
+                 sur=rng.uniform(250, 310, n), eps=rng.uniform(0, 1, n))
+    ts = rng.uniform(150, 900, n)
+    rows = np.flatnonzero(rng.random(n) < 0.5)
+    whole = flux(ts, slope=True)
+    part = flux.take(rows)(ts[rows], slope=True)
+    for a, b in zip(whole, part):
+        np.testing.assert_array_equal(a[rows], b)
