@@ -7,7 +7,8 @@ no heads; spheres; flat surfaces.  Process temperatures -200 to 800 degC (some a
 some in cold service), 0 to 4 layers with 0 to 300 mm in total, wind 0 to 20 m/s,
 emissivity 0.03 to 0.97, some damaged or missing insulation, some uninsulated fittings.
 
-It then times ``solve_items`` (best of 3 after a warm-up) and a per-item reference loop:
+It then times ``solve_items`` (best of 3 after a warm-up; in one thread per usable CPU, as
+``lagaudit`` runs it, or at most ``--threads``) and a per-item reference loop:
 for each item of a random sample, one at a time, the outer surface temperature is found by
 ``scipy.optimize.brentq`` on the same physics, built from the engine's own model functions
 called on length-1 arrays (the surface flux of ``audit.engine.surface``, the conductivity
@@ -17,7 +18,7 @@ answers.  Targets (issue 2): at least 200,000 items/s, at least 500 times the lo
 2-core machine.
 
 Not a test: run ``python benchmarks/bench_engine.py [--items N] [--loop-sample M] [--seed S]
-[--profile]``.  Exit status 1 when the loop and the engine disagree (or nothing to compare).
+[--threads T] [--profile]``.  Exit status 1 when the loop and the engine disagree (or nothing to compare).
 """
 
 from __future__ import annotations
@@ -39,7 +40,8 @@ from audit.engine import geometry, surface
 from audit.engine.conduction import ConductivityTables
 from audit.engine.items import (FACING_DOWN, FACING_UP, FLAT, FLAT_HEADS, ELLIPSOIDAL,
                                 HEMISPHERICAL, HORIZONTAL, HORIZONTAL_VESSEL, NO_HEADS, PIPE,
-                                SPHERE_ITEM, VERTICAL, VERTICAL_VESSEL, ItemBatch, solve_items)
+                                SPHERE_ITEM, VERTICAL, VERTICAL_VESSEL, ItemBatch, solve_items,
+                                solve_threads)
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
 
 TARGET_ITEMS_PER_S = 200_000
@@ -244,6 +246,8 @@ def main(argv=None) -> int:
     parser.add_argument("--items", type=int, default=100_000, help="register size N")
     parser.add_argument("--loop-sample", type=int, default=300, help="items in the per-item loop")
     parser.add_argument("--seed", type=int, default=2026, help="random seed of the register")
+    parser.add_argument("--threads", type=int, default=None,
+                        help="most threads solve_items may use (default: one per usable CPU)")
     parser.add_argument("--profile", action="store_true",
                         help="also print a cProfile summary of one solve_items call")
     args = parser.parse_args(argv)
@@ -263,11 +267,15 @@ def main(argv=None) -> int:
           + ", ".join(f"{names[k]} {shapes[k]}" for k in sorted(shapes)))
     print("conductivity tables: INVENTED benchmark data (" + ", ".join(INVENTED_TABLES) + ")")
 
-    solve_items(batch, tables)  # warm-up
-    seconds, cpu, states = best_of(3, lambda: solve_items(batch, tables))
+    def solve():
+        return solve_items(batch, tables, threads=args.threads)
+
+    solve()  # warm-up
+    seconds, cpu, states = best_of(3, solve)
     rate = n / seconds
-    print(f"vectorised solve_items: {n} items in {seconds:.3f} s (best of 3; CPU {cpu:.3f} s) "
-          f"= {rate:,.0f} items/s"
+    threads = solve_threads(n, args.threads)  # no item repeats here: all n are distinct
+    print(f"vectorised solve_items: {n} items in {seconds:.3f} s (best of 3; CPU {cpu:.3f} s; "
+          f"{threads} thread{'s' if threads > 1 else ''}) = {rate:,.0f} items/s"
           f"   target >= {TARGET_ITEMS_PER_S:,} items/s: {verdict(rate >= TARGET_ITEMS_PER_S)}")
 
     bad = ~states.converged
@@ -321,7 +329,7 @@ def main(argv=None) -> int:
           f"   target >= {TARGET_RATIO}x: {verdict(ratio >= TARGET_RATIO)}")
 
     tracemalloc.start()
-    solve_items(batch, tables)
+    solve()
     traced_peak = tracemalloc.get_traced_memory()[1]
     tracemalloc.stop()
     max_rss = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss  # KiB on Linux
@@ -330,7 +338,7 @@ def main(argv=None) -> int:
 
     if args.profile:
         profile = cProfile.Profile()
-        profile.runcall(solve_items, batch, tables)
+        profile.runcall(solve)
         print("\nprofile of one solve_items call (cProfile, top 15 by own time):")
         pstats.Stats(profile, stream=sys.stdout).sort_stats("tottime").print_stats(15)
     # Timings of different answers mean nothing: fail loudly when loop and engine disagree.

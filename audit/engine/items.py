@@ -20,6 +20,8 @@ add up over an item's elements; the item's surface temperature is that of its wo
 
 from __future__ import annotations
 
+import os
+from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -51,6 +53,8 @@ MAIN, HEAD, FITTING = range(3)
 #: Equal items or elements are solved once when they leave at most this share distinct;
 #: above it, gathering the distinct ones costs more than solving the repeats.
 _WORTH_SHARING = 0.8
+#: Fewest items a thread is given: below this a part's fixed costs outweigh the second core.
+_ITEMS_PER_THREAD = 10_000
 
 
 @dataclass
@@ -113,7 +117,7 @@ class ItemStates:
 
 
 def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
-                surface_model: str = "correlations") -> ItemStates:
+                surface_model: str = "correlations", threads: int | None = None) -> ItemStates:
     """Heat loss and surface temperatures of every item of ``batch`` in one vectorised solve.
 
     Parameters
@@ -125,6 +129,8 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     surface_model : str
         Name of the outer-surface model, see
         :func:`audit.engine.surface.available_surface_models`.
+    threads : int, optional
+        Most threads to solve in; by default one per CPU this process may use.
 
     Returns
     -------
@@ -137,13 +143,17 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     Each distinct item is solved once and its answer shared (:func:`shared_items`, grouping
     by :mod:`audit.engine.distinct`).  Within the items solved, each distinct wall element is
     solved once as well.
+
+    A large batch is cut into consecutive parts of at least 10,000 items, solved side by
+    side in threads: numpy lets go of the interpreter lock inside its array operations, so
+    the parts use every core.  An item's answer does not depend on the cut.
     """
     b = _complete(batch)
     sharing = _shared_items(b)
     if sharing is None:
-        return _solve_all(b, tables, surface_model)
+        return _solve_in_parts(b, tables, surface_model, threads)
     first, group, scale = sharing
-    states = _solve_all(take_items(b, first), tables, surface_model)
+    states = _solve_in_parts(take_items(b, first), tables, surface_model, threads)
     shared = _rows_of(states, group)
     shared.heat_loss = shared.heat_loss * scale
     shared.outer_area = shared.outer_area * scale
@@ -216,6 +226,36 @@ def _may_repeat(columns) -> bool:
     a whole key has at least as many distinct rows as a few of its columns, and counting
     those is cheap next to hashing them all (a register of random values stops here)."""
     return distinct_count(columns) <= _WORTH_SHARING * len(columns[0])
+
+
+def _solve_in_parts(b: ItemBatch, tables: ConductivityTables, surface_model: str,
+                    threads: int | None) -> ItemStates:
+    """:func:`_solve_all` on consecutive parts of ``b``, one thread each (see solve_items)."""
+    n = len(b)
+    parts = solve_threads(n, threads)
+    if parts == 1:
+        return _solve_all(b, tables, surface_model)
+    cuts = np.linspace(0, n, parts + 1).astype(int)
+    pieces = [take_items(b, np.arange(start, stop)) for start, stop in zip(cuts, cuts[1:])]
+    with ThreadPoolExecutor(parts) as pool:
+        solved = list(pool.map(lambda piece: _solve_all(piece, tables, surface_model), pieces))
+    return type(solved[0])(**{
+        name: np.concatenate([getattr(part, name) for part in solved])
+        for name in vars(solved[0])})
+
+
+def solve_threads(n_items: int, threads: int | None = None) -> int:
+    """Threads :func:`solve_items` uses for ``n_items`` distinct items.
+
+    One per CPU this process may run on (or at most ``threads``), each with at least
+    10,000 items.
+    """
+    if threads is None:
+        try:
+            threads = len(os.sched_getaffinity(0))
+        except AttributeError:  # not on every system
+            threads = os.cpu_count() or 1
+    return min(max(1, threads), max(1, n_items // _ITEMS_PER_THREAD))
 
 
 def _solve_all(b: ItemBatch, tables: ConductivityTables, surface_model: str) -> ItemStates:

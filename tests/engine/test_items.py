@@ -10,7 +10,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from audit.engine import ConductivityTables, ItemBatch, solve_item, solve_items
-from audit.engine import geometry, surface
+from audit.engine import geometry, items, surface
 from audit.engine.items import FLAT, HORIZONTAL_VESSEL, PIPE, SPHERE_ITEM, VERTICAL_VESSEL
 from audit.engine.solver import BALANCE_TOLERANCE
 
@@ -70,6 +70,22 @@ def test_iso_model_closes_the_balance_also_for_items_at_ambient():
     # No heat flows: exactly, up to the rounding of temperatures near 300 K.
     np.testing.assert_allclose(states.heat_loss[at_ambient], 0.0, atol=1e-6)
     np.testing.assert_allclose(states.surface_temp[at_ambient], batch.t_air[at_ambient], rtol=1e-12)
+
+
+def test_answers_do_not_depend_on_the_threads(monkeypatch):
+    # Cut into parts solved in threads, every item gets the answer it gets in one piece, bit
+    # for bit (and the batch really is cut: three parts solved).
+    monkeypatch.setattr(items, "_ITEMS_PER_THREAD", 500)
+    solved = []
+    solve_all = items._solve_all
+    monkeypatch.setattr(items, "_solve_all", lambda b, *a: solved.append(len(b)) or solve_all(b, *a))
+    batch = random_batch(5, 3000)
+    whole = solve_items(batch, TABLES, threads=1)
+    assert solved == [3000]
+    parts = solve_items(batch, TABLES, threads=3)
+    assert sorted(solved[1:]) == [1000, 1000, 1000]
+    for name, value in vars(whole).items():
+        np.testing.assert_array_equal(getattr(parts, name), value, err_msg=name)
 
 
 def test_balance_checked_independently_layer_by_layer():
