@@ -455,9 +455,6 @@ def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
                                      np.full(m, geometry_code), kind, r_metal, length, flow)):
             parts[key].append(np.asarray(value))
     cat = {k: (np.concatenate(v) if v else np.empty(0)) for k, v in parts.items()}
-    # Elements in the surface model's evaluation order (surface.evaluation_order).
-    order = surface.evaluation_order(cat["kind"].astype(int), b.wind[cat["item"].astype(int)])
-    cat = {k: v[order] for k, v in cat.items()}
     item = cat["item"].astype(int)
     insulated = cat["insulated"].astype(bool)
     # Layers of each element: its item's, or none (the extra last row) for bare metal.
@@ -549,9 +546,6 @@ def _solve_distinct(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surfac
     first, group = distinct_rows(key)
     if first.size > _WORTH_SHARING * item.size:
         return _solve(b, e, w, tables, surface_model, r_inner)
-    # Representatives in element order, which keeps the surface model's evaluation order.
-    rank = np.argsort(first)
-    first, group = first[rank], np.argsort(rank)[group]
     sol = _solve(b, _rows_of(e, first), _rows_of(w, first), tables, surface_model, r_inner[first])
     return _rows_of(sol, group)
 

@@ -4,8 +4,7 @@ A surface model turns a surface temperature into a convective and a radiative
 heat flux.  :func:`surface_flux_function` does once, for n surfaces of mixed
 kinds, everything that does not depend on the surface temperature, and returns
 a fast vectorised ``flux(T_s) -> (q_conv, q_rad)`` for the solver to call
-repeatedly, with the flux's slope in T_s on request.  Surfaces given in
-:func:`evaluation_order` are evaluated fastest.  Fluxes are in W/m2 of outer surface, positive when heat leaves the
+repeatedly, with the flux's slope in T_s on request.  Fluxes are in W/m2 of outer surface, positive when heat leaves the
 surface.
 
 Surface kinds are small integer codes, so one call serves a whole register:
@@ -213,7 +212,7 @@ class _Group(NamedTuple):
     """Surfaces of one kind, all in wind or all in calm air, with what the flux needs that
     does not depend on T_s."""
 
-    rows: np.ndarray | slice   # a slice where they are contiguous: views, no copies
+    rows: np.ndarray | slice   # a slice when they are all the surfaces
     natural: Callable | None   # None for horizontal plates (the heat's direction decides)
     facing_up: bool            # horizontal plates: the exposed face looks up
     g_l3: np.ndarray           # g L^3 of the natural-convection length [m4/s2]
@@ -238,39 +237,15 @@ _FORCED = (  # (kinds, correlation, its length: the diameter or the flow length)
 )
 
 
-def evaluation_order(kind, wind):
-    """An order of n surfaces in which their flux is evaluated fastest.
-
-    Parameters
-    ----------
-    kind : array_like of int
-        Surface kind code per surface [-].
-    wind : array_like
-        Wind speed per surface [m/s].
-
-    Returns
-    -------
-    numpy.ndarray of int
-        Positions grouped by kind and, within a kind, calm before windy (a stable sort).
-        Surfaces given to :func:`surface_flux_function` in this order, or any subset of it
-        in the same order, are evaluated group by group on views instead of gathered copies.
-    """
-    # Keys below 256 as bytes: numpy sorts those stably by radix, in linear time.
-    return np.argsort(_group_key(np.asarray(kind), np.asarray(wind)).astype(np.uint8),
-                      kind="stable")
-
-
 def _group_key(kind, wind):
     return 2 * kind.astype(np.int64) + (wind > 0)
 
 
 def _rows_by_key(key):
     """(key value, rows) for each value present in ``key`` (small non-negative ints)."""
-    counts = np.bincount(key)
-    present = np.flatnonzero(counts)
-    if np.all(key[1:] >= key[:-1]):
-        ends = np.cumsum(counts)
-        return [(int(v), slice(int(ends[v] - counts[v]), int(ends[v]))) for v in present]
+    present = np.flatnonzero(np.bincount(key))
+    if present.size == 1:
+        return [(int(present[0]), slice(None))]  # all rows: views, no copies
     return [(int(v), np.flatnonzero(key == v)) for v in present]
 
 
