@@ -166,8 +166,9 @@ def take_items(batch: ItemBatch, rows: np.ndarray) -> ItemBatch:
 
 
 def _rows_of(arrays, rows):
-    """A copy of a dataclass of per-row arrays (items, elements, answers) holding the rows
-    ``rows`` (positions, repeats allowed); fields that are not arrays are kept as they are."""
+    """A dataclass of per-row arrays (items, elements, answers) holding the rows ``rows``
+    (positions, repeats allowed: a copy; or a slice: views); fields that are not arrays are
+    kept as they are."""
     return type(arrays)(**{name: (np.asarray(value)[rows] if isinstance(value, np.ndarray | list)
                                   else value) for name, value in vars(arrays).items()})
 
@@ -236,7 +237,7 @@ def _solve_in_parts(b: ItemBatch, tables: ConductivityTables, surface_model: str
     if parts == 1:
         return _solve_all(b, tables, surface_model)
     cuts = np.linspace(0, n, parts + 1).astype(int)
-    pieces = [take_items(b, np.arange(start, stop)) for start, stop in zip(cuts, cuts[1:])]
+    pieces = [_rows_of(b, slice(start, stop)) for start, stop in zip(cuts, cuts[1:])]  # views
     with ThreadPoolExecutor(parts) as pool:
         solved = list(pool.map(lambda piece: _solve_all(piece, tables, surface_model), pieces))
     return type(solved[0])(**{
