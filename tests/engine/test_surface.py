@@ -222,9 +222,12 @@ def test_grouped_batch_equals_rows_one_by_one():
                 eps=rng.uniform(0, 1, n))
     ts = rng.uniform(150, 900, n)
     q_conv, q_rad = build(**args)(ts)
+    slope = build(**args)(ts, slope=True)[2]
     for i in range(n):
-        one = build(**{key: value[i] for key, value in args.items()})(ts[i:i + 1])
+        alone = build(**{key: value[i] for key, value in args.items()})
+        one = alone(ts[i:i + 1])
         assert (q_conv[i], q_rad[i]) == pytest.approx((one[0][0], one[1][0]), rel=1e-12)
+        assert slope[i] == pytest.approx(alone(ts[i:i + 1], slope=True)[2][0], rel=1e-12)
 
 
 def test_accepts_series_and_scalars():
