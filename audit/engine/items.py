@@ -458,28 +458,27 @@ def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
     cat = {k: (np.concatenate(v) if v else np.empty(0)) for k, v in parts.items()}
     item = cat["item"].astype(int)
     insulated = cat["insulated"].astype(bool)
-    # Layers of each element: its item's, or none (the extra last row) for bare metal.
+    # Layers of each element: its item's, or none (an extra last row) for bare metal.
     layers = np.where(insulated, item, len(b))
     present = b.layer_table >= 0
+
+    def layer_slots(values, fill):
+        """Each element's row of ``values``; ``fill`` in slots without a layer."""
+        rows = np.full((len(b) + 1, values.shape[1]), fill, values.dtype)
+        np.copyto(rows[:-1], values, where=present)
+        return rows[layers]
+
     return _Elements(
         item=item, role=cat["role"].astype(int), insulated=insulated, weight=cat["weight"],
         geometry=cat["geometry"].astype(int), kind=cat["kind"].astype(int),
         r_metal=cat["r_metal"], length=cat["length"], flow_length=cat["flow_length"],
-        layer_table=_with_row(np.where(present, b.layer_table, -1), -1)[layers],
-        layer_thickness=_with_row(np.where(present, b.layer_thickness, 0.0), 0.0)[layers],
-        layer_factor=_with_row(np.where(present, b.layer_factor, 1.0), 1.0)[layers],
+        layer_table=layer_slots(b.layer_table, -1),
+        layer_thickness=layer_slots(b.layer_thickness, 0.0),
+        layer_factor=layer_slots(b.layer_factor, 1.0),
         emissivity=np.where(insulated, b.emissivity[item], b.bare_emissivity[item]),
         iso_ca=np.where(insulated, b.iso_ca[item], b.bare_iso_ca[item]),
         iso_cb=np.where(insulated, b.iso_cb[item], b.bare_iso_cb[item]),
     )
-
-
-def _with_row(rows: np.ndarray, fill) -> np.ndarray:
-    """``rows`` (m, L) with one more row of ``fill`` at the end."""
-    out = np.empty((rows.shape[0] + 1, rows.shape[1]), rows.dtype)
-    out[:-1] = rows
-    out[-1] = fill
-    return out
 
 
 @dataclass

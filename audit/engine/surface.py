@@ -4,8 +4,8 @@ A surface model turns a surface temperature into a convective and a radiative
 heat flux.  :func:`surface_flux_function` does once, for n surfaces of mixed
 kinds, everything that does not depend on the surface temperature, and returns
 a fast vectorised ``flux(T_s) -> (q_conv, q_rad)`` for the solver to call
-repeatedly, with the flux's slope in T_s on request.  Fluxes are in W/m2 of outer surface, positive when heat leaves the
-surface.
+repeatedly, with the flux's slope in T_s on request.  Fluxes are in W/m2 of
+outer surface, positive when heat leaves the surface.
 
 Surface kinds are small integer codes, so one call serves a whole register:
 
@@ -237,10 +237,6 @@ _FORCED = (  # (kinds, correlation, its length: the diameter or the flow length)
 )
 
 
-def _group_key(kind, wind):
-    return 2 * kind.astype(np.int64) + (wind > 0)
-
-
 def _rows_by_key(key):
     """(key value, rows) for each value present in ``key`` (small non-negative ints)."""
     present = np.flatnonzero(np.bincount(key))
@@ -293,7 +289,7 @@ class _CorrelationsFlux:
         self.groups = [
             _Group(rows, _NATURAL[value // 2], value // 2 == HORIZONTAL_PLATE_UP, g_l3[rows],
                    inv_l[rows], h_forced[rows] if value % 2 else None)
-            for value, rows in _rows_by_key(_group_key(kind, windy))]
+            for value, rows in _rows_by_key(2 * kind.astype(np.int64) + windy)]
 
     def take(self, rows):
         """The same model for the surfaces ``rows`` (positions) only, not validated again."""
@@ -349,7 +345,8 @@ class _CorrelationsFlux:
         q_rad = radiative_flux_grey_body(ts, self.t_sur, self.emissivity)
         if not slope:
             return q_conv, q_rad
-        return q_conv, q_rad, h * (1.0 + growth) + radiative_flux_grey_body_slope(ts, self.emissivity)
+        dq_dt = h * (1.0 + growth) + radiative_flux_grey_body_slope(ts, self.emissivity)
+        return q_conv, q_rad, dq_dt
 
 
 # ----------------------------------------------------------------------------------------
