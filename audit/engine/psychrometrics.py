@@ -56,6 +56,13 @@ def _dln_p(temp, c):
             + c[6] / temp)
 
 
+def _saturation_pressure(temp, c):
+    """exp(ln p) of coefficients ``c`` [Pa], NaN outside the range of validity."""
+    temp = np.asarray(temp, float)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        return _out(np.where(_in_range(temp), np.exp(_ln_p(temp, c)), np.nan))
+
+
 def _out(x):
     return x[()] if isinstance(x, np.ndarray) and x.ndim == 0 else x
 
@@ -83,9 +90,7 @@ def saturation_pressure_water_hyland_wexler(temp):
     ----------
     ASHRAE Handbook - Fundamentals (2017), ch. 1, eq. 6; Hyland & Wexler (1983).
     """
-    temp = np.asarray(temp, float)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        return _out(np.where(_in_range(temp), np.exp(_ln_p(temp, _WATER)), np.nan))
+    return _saturation_pressure(temp, _WATER)
 
 
 def saturation_pressure_ice_hyland_wexler(temp):
@@ -105,9 +110,7 @@ def saturation_pressure_ice_hyland_wexler(temp):
     ----------
     ASHRAE Handbook - Fundamentals (2017), ch. 1, eq. 5; Hyland & Wexler (1983).
     """
-    temp = np.asarray(temp, float)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        return _out(np.where(_in_range(temp), np.exp(_ln_p(temp, _ICE)), np.nan))
+    return _saturation_pressure(temp, _ICE)
 
 
 def saturation_pressure_hyland_wexler(temp):
