@@ -49,6 +49,15 @@ _MONEY = quantity("dimensionless", "dimensionless", low=0.0)
 _MM = quantity("mm", "m", low=0.0, low_open=True)
 _NPS = quantity("dimensionless", "dimensionless", low=0.0, low_open=True)
 
+#: What [economics.heat] and [economics.cold] both say of the energy bought.
+_PURCHASE = {
+    "price": (_MONEY, True),
+    "price_per": (_energy_unit, True),
+    "price_source": (text, True),
+    "emission_factor": (quantity("kg/MWh", "kg/MWh", low=0.0), True),
+    "emission_source": (text, True),
+}
+
 #: sub-table -> {key: (converter, required)}; "" is the [economics] table itself
 SCHEMA = {
     "": {
@@ -62,20 +71,12 @@ SCHEMA = {
         "fuel": (text, True),
         "efficiency": (_fraction(), True),
         "efficiency_source": (text, True),
-        "price": (_MONEY, True),
-        "price_per": (_energy_unit, True),
-        "price_source": (text, True),
-        "emission_factor": (quantity("kg/MWh", "kg/MWh", low=0.0), True),
-        "emission_source": (text, True),
+        **_PURCHASE,
     },
     "cold": {
         "cop": (_POSITIVE, True),
         "cop_source": (text, True),
-        "price": (_MONEY, True),
-        "price_per": (_energy_unit, True),
-        "price_source": (text, True),
-        "emission_factor": (quantity("kg/MWh", "kg/MWh", low=0.0), True),
-        "emission_source": (text, True),
+        **_PURCHASE,
     },
     "finance": {
         "interest": (quantity("dimensionless", "dimensionless", low=0.0, high=1.0), True),
