@@ -199,9 +199,7 @@ def _shared_items(b: ItemBatch):
         return None
     # Inputs an item neither uses nor checks are left out of its key (NaN for all): the
     # finish of a part it does not have, the area of a round item, the heads of a pipe.
-    covered = (b.layer_table >= 0).any(axis=1)
-    has_cover = covered & (b.bare_fraction < 1)
-    bare_part = (b.bare_fraction > 0) | ~covered | (b.fitting_length > 0)
+    has_cover, bare_part = _surfaces(b)
     vessel = np.isin(b.shape, [VERTICAL_VESSEL, HORIZONTAL_VESSEL])
     unused = {"area": b.shape != FLAT, "heads": ~vessel,
               **{name: ~has_cover for name in ("emissivity", "iso_ca", "iso_cb")},
@@ -220,6 +218,14 @@ def _shared_items(b: ItemBatch):
     with np.errstate(invalid="ignore", divide="ignore"):
         scale = np.where(length_free, b.length / b.length[first][group], 1.0)
     return first, group, scale
+
+
+def _surfaces(b: ItemBatch):
+    """Per item, whether it has an insulated outer surface, and whether it has bare metal
+    (damaged or missing insulation, no layers, uninsulated fittings)."""
+    covered = (b.layer_table >= 0).any(axis=1)
+    return (covered & (b.bare_fraction < 1),
+            (b.bare_fraction > 0) | ~covered | (b.fitting_length > 0))
 
 
 def _may_repeat(columns) -> bool:
@@ -321,10 +327,9 @@ def _invalid_reasons(b: ItemBatch, tables: ConductivityTables, surface_model: st
     flag(((coldest + b.t_air) / 2 < AIR_T_MIN) | ((hottest + b.t_air) / 2 > AIR_T_MAX)
          | (b.t_air < AIR_T_MIN) | (b.t_air > AIR_T_MAX),
          f"temperatures leave the air-property range ({AIR_T_MIN:g} to {AIR_T_MAX:g} K at the film)")
-    has_cover = (b.layer_table >= 0).any(axis=1) & (b.bare_fraction < 1)
+    has_cover, bare_part = _surfaces(b)
     flag(has_cover & (bad(b.emissivity) | ~((b.emissivity >= 0) & (b.emissivity <= 1))),
          "emissivity must be between 0 and 1")
-    bare_part = (b.bare_fraction > 0) | ~(b.layer_table >= 0).any(axis=1) | (b.fitting_length > 0)
     flag(bare_part & (bad(b.bare_emissivity) | ~((b.bare_emissivity >= 0) & (b.bare_emissivity <= 1))),
          "bare-metal emissivity must be between 0 and 1")
     present = b.layer_table >= 0
