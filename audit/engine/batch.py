@@ -98,16 +98,38 @@ def rows_of(arrays, rows):
                                   else value) for name, value in vars(arrays).items()})
 
 
-def item_surfaces(batch: ItemBatch) -> tuple[np.ndarray, np.ndarray]:
-    """Per item, whether it has an insulated outer surface, and whether it has bare metal
-    (damaged or missing insulation, no layers, uninsulated fittings).
+def surfaces(covered, bare_fraction, fitting_length) -> tuple[np.ndarray, np.ndarray]:
+    """Per item, whether it has an insulated outer surface, and whether it has bare metal.
 
-    The one statement of that rule: the engine's validation and sharing key, and the checks'
-    wording of bare parts (through :mod:`audit.thermal`), all read it from here.
+    The one statement of that rule: the engine's validation and sharing key, the look-up of
+    names and defaults (``audit.thermal.table_surfaces``) and the checks' bare parts all read
+    it from here.
+
+    Parameters
+    ----------
+    covered : array_like of bool
+        The item lists at least one layer of insulation
+    bare_fraction : array_like
+        Share of its surface without insulation (damaged or missing) [-]
+    fitting_length : array_like
+        Bare pipe equivalent of its uninsulated fittings [m] (any value > 0: it has some)
+
+    Returns
+    -------
+    has_cover, has_bare : numpy.ndarray of bool
+        An insulated part (listed layers, not all bare); a bare part (no layers, a bare
+        share, or uninsulated fittings).
     """
-    covered = (np.asarray(batch.layer_table) >= 0).any(axis=1)
-    return (covered & (batch.bare_fraction < 1),
-            (batch.bare_fraction > 0) | ~covered | (batch.fitting_length > 0))
+    covered = np.asarray(covered, bool)
+    bare_fraction = np.asarray(bare_fraction, float)
+    return (covered & (bare_fraction < 1),
+            (bare_fraction > 0) | ~covered | (np.asarray(fitting_length, float) > 0))
+
+
+def item_surfaces(batch: ItemBatch) -> tuple[np.ndarray, np.ndarray]:
+    """:func:`surfaces` of the items of ``batch``."""
+    return surfaces((np.asarray(batch.layer_table) >= 0).any(axis=1), batch.bare_fraction,
+                    batch.fitting_length)
 
 
 def complete(batch: ItemBatch) -> ItemBatch:
