@@ -1,8 +1,12 @@
-"""What every check shares: the context it reads, the findings it returns, its parameters.
+"""What every check shares: the context it reads, the verdict it returns, the findings the
+framework builds from it, its parameters.
 
-A check is a pure function ``evaluate(context, check) -> findings`` of the item table, the
-thermal states of the scenario it declares, and the rules.  It formats no report text beyond
-a one-line ``message``; it never opens a file.
+A check decides, then words.  Its ``evaluate(context, check, params)`` is a pure function of
+the item table, the thermal states of the scenario it declares and the rules, and returns a
+:class:`Verdict`: which rows fail, with the value, limit and unit compared (data, no text).
+Its ``word(context, check, params, verdict)`` writes each failing row's one-line message and
+remedy.  :meth:`CheckKind.findings` builds the findings table from the two; the remedy search
+asks only for verdicts.  A check never opens a file.
 """
 
 from __future__ import annotations
@@ -27,16 +31,42 @@ FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value",
 
 
 @dataclass
-class CheckKind:
-    """A kind of check: its function, its own parameters and whether insulation can fix it."""
+class Verdict:
+    """What a check decided, as data: the failing rows (positions in the item table) and,
+    aligned with them or one for all, the value compared, the limit and its unit."""
 
-    evaluate: Callable                 #: (CheckContext, Check) -> DataFrame of findings
+    rows: np.ndarray
+    value: object = np.nan
+    limit: object = np.nan
+    unit: object = ""
+    severity: object = None     #: per row where it differs from the check's, else None
+    facts: dict = field(default_factory=dict)  #: what the wording reads, aligned with rows
+
+
+@dataclass
+class CheckKind:
+    """A kind of check: how it decides, how it words, its own parameters and whether
+    insulation can fix it."""
+
+    evaluate: Callable                 #: (CheckContext, Check, params) -> Verdict
+    word: Callable                     #: (CheckContext, Check, params, Verdict) -> (message, remedy)
     params: dict                       #: key -> (converter, required); see audit.rules.converters
     fixable_by_insulation: bool        #: the remedy search may add insulation for it
     description: str
     #: (check, params) -> None; raises RuleError for rules across keys that the per-key
     #: schema cannot express (e.g. "at least one of"), so they fail at load, not mid-run
     validate: Callable | None = None
+    #: the remedy's insulation must pass it too: the remedy search evaluates it on every
+    #: trial, not only on the items that failed it (e.g. a layer's maximum temperature)
+    remedy_must_pass: bool = False
+
+    def findings(self, context: CheckContext, check: Check, params: dict) -> pd.DataFrame:
+        """The findings table of ``check`` on ``context``: its verdict, worded."""
+        verdict = self.evaluate(context, check, params)
+        message, remedy = self.word(context, check, params, verdict)
+        return findings(context, check, verdict.rows, value=verdict.value, limit=verdict.limit,
+                        unit=verdict.unit, message=message, remedy=remedy,
+                        fixable=self.fixable_by_insulation, severity=verdict.severity)
 
 
 @dataclass
@@ -46,27 +76,24 @@ class CheckContext:
     table: pd.DataFrame
     rules: Rules
     surface_model: str = "correlations"
-    #: Only which rows fail is wanted (the remedy search): the checks that insulation can fix
-    #: return :func:`failing_rows` instead of worded findings.
-    rows_only: bool = False
     _states: dict = field(default_factory=dict)
     _tables: tuple | None = None
     _prepared: PreparedItems | None = None
     _once: dict = field(default_factory=dict)
 
-    def once(self, function: Callable, *args):
-        """``function(self.table, *args)``, computed once for this context: several checks ask
-        for the same facts of the table (its bare parts, which rows have layers)."""
-        key = (function, *map(id, args))  # the arguments (the rules) need not be hashable
-        if key not in self._once:
-            self._once[key] = (args, function(self.table, *args))  # args kept: ids stay theirs
-        return self._once[key][1]
+    def once(self, function: Callable, *, rules: bool = False):
+        """``function(self.table)`` (with ``rules``: ``function(self.table, self.rules)``),
+        computed once for this context: several checks ask for the same facts of the table
+        (its bare parts, which rows have layers)."""
+        if function not in self._once:
+            self._once[function] = function(self.table, self.rules) if rules else function(self.table)
+        return self._once[function]
 
-    def trial(self, items: PreparedItems, *, rows_only: bool = False) -> CheckContext:
+    def trial(self, items: PreparedItems) -> CheckContext:
         """A context of the trial ``items`` (derived from :meth:`prepared`): its table, the
         same rules, surface model and conductivity tables."""
         return CheckContext(items.table(), self.rules, surface_model=self.surface_model,
-                            rows_only=rows_only, _tables=self.tables(), _prepared=items)
+                            _tables=self.tables(), _prepared=items)
 
     def tables(self) -> tuple:
         """:func:`audit.thermal.conductivity_tables` of the rules, built once."""
@@ -97,12 +124,12 @@ class CheckContext:
         return mask
 
 
-def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, limit, unit: str,
+def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, limit, unit,
              message, remedy, fixable=False, severity=None) -> pd.DataFrame:
     """A findings table for ``rows`` (positions in the item table) of one check.
 
-    ``value``, ``limit``, ``message``, ``remedy`` and ``severity`` are arrays aligned with
-    ``rows`` or scalars; ``severity`` defaults to the check's; the conditions come from the
+    ``value``, ``limit``, ``unit``, ``message``, ``remedy`` and ``severity`` are arrays
+    aligned with ``rows`` or scalars; ``severity`` defaults to the check's; the conditions come from the
     check's scenario.
     """
     rows = np.asarray(rows, int)
@@ -112,6 +139,11 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
 
     def spread(x, dtype=object):
         return np.full(n, x, dtype=dtype) if np.isscalar(x) or x is None else np.asarray(x, dtype=dtype)
+
+    if unit is None or isinstance(unit, str):
+        unit = str(unit or "")
+    else:
+        unit = spread(unit)
 
     return pd.DataFrame({
         "row": rows,
@@ -134,12 +166,6 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
         "remedy_thickness [mm]": np.nan,
         "remedy_material": "",
     }, columns=FINDING_COLUMNS)
-
-
-def failing_rows(rows) -> pd.DataFrame:
-    """A findings table that holds only its ``row`` column: the answer of a check evaluated
-    with ``CheckContext.rows_only``, which skips wording what the caller will not read."""
-    return pd.DataFrame({"row": np.asarray(rows, int)})
 
 
 def empty_findings() -> pd.DataFrame:
