@@ -20,9 +20,10 @@ import pandas as pd
 from audit.errors import Problem, RuleError
 from audit.repeats import per_distinct
 from audit.rules import Check, Rules
+from audit.rules.loader import CHECK_KEYS
+from audit.rules.schema import convert_keys
 from audit.thermal import (ZERO_CELSIUS, PreparedItems, conductivity_tables, has_layers,
                            prepare_items, table_surfaces, thermal_states)
-from audit.units import UnitParseError
 
 #: Columns of a findings table, in order (``row`` indexes the item table).
 FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value", "limit", "unit",
@@ -174,26 +175,10 @@ def empty_findings() -> pd.DataFrame:
 
 def validated_params(check: Check, kind: CheckKind) -> dict:
     """The check's own parameters converted by its kind's schema; RuleError naming file and key."""
-    problems, values = [], {}
-    where = f"check.{check.name}"
-    for key, raw in check.params.items():
-        if key not in kind.params:
-            problems.append(Problem(f"unknown key {key!r} for a check of kind {check.kind!r}",
-                                    file=check.origin, column=f"{where}.{key}",
-                                    expected="one of " + ", ".join(
-                                        ["kind", "enabled", "site", "applies_to", "severity",
-                                         "source", "description", *kind.params])))
-            continue
-        convert, _ = kind.params[key]
-        try:
-            values[key] = convert(raw)
-        except (ValueError, UnitParseError) as exc:
-            problems.append(Problem(f"invalid value: {exc}", file=check.origin,
-                                    column=f"{where}.{key}", value=raw))
-    for key, (_, required) in kind.params.items():
-        if required and key not in check.params:
-            problems.append(Problem(f"missing key {key!r}", file=check.origin, column=where,
-                                    expected=f"{key} = ..."))
+    problems: list[Problem] = []
+    values = convert_keys(check.params, kind.params, where=f"check.{check.name}",
+                          origin=check.origin, problems=problems, known=CHECK_KEYS,
+                          unknown_note=f" for a check of kind {check.kind!r}")
     if problems:
         raise RuleError(f"{len(problems)} problem(s) in check {check.name!r}", file=check.origin,
                         problems=problems)
