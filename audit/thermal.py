@@ -210,9 +210,9 @@ class PreparedItems:
             if self.source_rows is None and not self.edits:
                 self._table = self.source
             else:
-                keep = [c for c in self.source.columns if not str(c).startswith("raw:")]
+                keep = [i for i, c in enumerate(self.source.columns) if not str(c).startswith("raw:")]
                 rows = slice(None) if self.source_rows is None else self.source_rows
-                table = self.source.loc[:, keep].iloc[rows].reset_index(drop=True)  # a copy
+                table = self.source.iloc[rows, keep].reset_index(drop=True)  # a copy
                 for column, values in self.edits.items():
                     table[column] = values
                 self._table = table
