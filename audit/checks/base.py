@@ -23,7 +23,7 @@ from audit.rules import Check, Rules
 from audit.rules.loader import CHECK_KEYS
 from audit.rules.schema import convert_keys
 from audit.thermal import (ZERO_CELSIUS, PreparedItems, conductivity_tables, has_layers,
-                           prepare_items, table_surfaces, thermal_states)
+                           prepare_items, thermal_states)
 
 #: Columns of a findings table, in order (``row`` indexes the item table).
 FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value", "limit", "unit",
@@ -187,16 +187,14 @@ def validated_params(check: Check, kind: CheckKind) -> dict:
     return values
 
 
-def bare_parts(table: pd.DataFrame):
-    """Per row of the item table: has it a bare metal part (:func:`audit.thermal.table_surfaces`),
-    and which, in words."""
-    has_bare = table_surfaces(table)[1]
-    words = per_distinct(
+def bare_parts(table: pd.DataFrame) -> np.ndarray:
+    """Per row of the item table: its bare metal parts in words ("" where it has none; which
+    rows have some is :func:`audit.thermal.table_surfaces`' rule, and these words follow it)."""
+    return per_distinct(
         _bare_words, has_layers(table), table["condition"].fillna("").to_numpy(object),
         np.nan_to_num(table["damaged_pct"].to_numpy(float), nan=-1.0),
         (table["shape"] == "pipe").to_numpy(), np.nan_to_num(table["valves"].to_numpy(float)),
         np.nan_to_num(table["flanges"].to_numpy(float)))
-    return has_bare, np.where(has_bare, words, "").astype(object)
 
 
 def _bare_words(insulated, condition, damaged, pipe, valves, flanges) -> str:

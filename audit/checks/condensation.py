@@ -20,7 +20,7 @@ import numpy as np
 from audit.checks.base import CheckKind, Verdict, bare_parts
 from audit.engine.psychrometrics import dew_point_hyland_wexler
 from audit.rules.converters import temperature_difference
-from audit.thermal import ZERO_CELSIUS
+from audit.thermal import ZERO_CELSIUS, table_surfaces
 
 NAME = "condensation"
 
@@ -60,7 +60,8 @@ def evaluate(context, check, params):
 
 def word(context, check, params, verdict):
     margin = params.get("margin", DEFAULT_MARGIN_K)
-    has_bare, bare_words = (x[verdict.rows] for x in context.once(bare_parts))
+    has_bare = context.once(table_surfaces)[1][verdict.rows]
+    bare_words = context.once(bare_parts)[verdict.rows]
     facts = verdict.facts
     message, remedy = [], []
     # Python floats in the loop, not numpy scalars: tens of thousands of rows.

@@ -102,7 +102,7 @@ def evaluate(context, check, params):
 
 
 def word(context, check, params, verdict):
-    bare_words = context.once(bare_parts)[1][verdict.rows]
+    bare_words = context.once(bare_parts)[verdict.rows]
     guard = params.get("guard_allowed", False)
     contact = params.get("contact_time")
     suffix = f" (contact time {contact:g} s)" if contact is not None else ""
