@@ -305,6 +305,8 @@ _GRID = T_MIN + _STEP * np.arange(int(round((T_MAX - T_MIN) / _STEP)) + 2)
 _TABLE = _properties(_GRID)
 _VALUES = np.stack([_TABLE.conductivity, _TABLE.kinematic_viscosity, _TABLE.prandtl])
 _SLOPES = np.diff(_VALUES, axis=1)
+_MU = _TABLE.dynamic_viscosity
+_MU_SLOPES = np.diff(_MU)
 
 
 def air_transport_tabulated(temperature, *, with_derivatives=False):
@@ -351,3 +353,43 @@ def air_transport_tabulated(temperature, *, with_derivatives=False):
     if not with_derivatives:
         return values
     return values, AirTransport(*(d * (1.0 / _STEP) for d in steps))
+
+
+def dynamic_viscosity_tabulated(temperature, *, with_derivative=False):
+    """Dynamic viscosity of dry air at 101.325 kPa, fast.
+
+    The viscosity of :func:`air_properties`, linearly interpolated in the same 0.25 K
+    table as :func:`air_transport_tabulated`.
+
+    Parameters
+    ----------
+    temperature : float or array_like
+        Air temperature [K].
+    with_derivative : bool, optional
+        Also return the derivative in temperature [Pa s/K], that of the interpolation.
+
+    Returns
+    -------
+    numpy.ndarray
+        Dynamic viscosity [Pa s], of the shape of ``temperature``.
+    numpy.ndarray
+        Only ``with_derivative``: its derivative in temperature [Pa s/K].
+
+    Raises
+    ------
+    EngineInputError
+        If a temperature is NaN or lies outside 100 K to 2000 K.
+
+    Notes
+    -----
+    Validity 100 K to 2000 K; within 2e-6 (relative) of :func:`air_properties`.
+    """
+    t = np.asarray(temperature, dtype=float)
+    _check_range(t)
+    x = (t - T_MIN) * (1.0 / _STEP)
+    i = x.astype(np.intp)
+    slope = _MU_SLOPES[i]
+    mu = _MU[i] + (x - i) * slope
+    if not with_derivative:
+        return mu
+    return mu, slope * (1.0 / _STEP)

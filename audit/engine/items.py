@@ -568,9 +568,11 @@ def _solve(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model, 
         iso_ca=e.iso_ca, iso_cb=e.iso_cb, flow_length=e.flow_length)
     t_low = np.minimum(np.minimum(t_process, t_air), t_sur)
     t_high = np.maximum(np.maximum(t_process, t_air), t_sur)
-    return solve_walls(t_process, t_air, t_low, t_high, w.conductance,
-                       np.where(w.present, e.layer_table, 0), w.present, tables,
-                       r_inner, w.outer_area, model.take)
+    sol = solve_walls(t_process, t_air, t_low, t_high, w.conductance,
+                      np.where(w.present, e.layer_table, 0), w.present, tables,
+                      r_inner, w.outer_area, model.take)
+    sol.validity = model.outside_validity(sol.surface_temp)
+    return sol
 
 
 def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
@@ -625,6 +627,7 @@ def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
         reason[failed] = _failure_reasons(np.flatnonzero(failed), e, sol, tables)
     computed = (reason == "")
     warnings = _warnings(n, e, sol, tables, w.present)
+    _add_validity_warnings(warnings, e, sol.validity)
 
     length = np.where(b.shape == PIPE, b.length, np.nan)
     with np.errstate(invalid="ignore", divide="ignore"):
@@ -702,6 +705,23 @@ def _warnings(n, e, sol, tables, present) -> np.ndarray:
     joined = np.array(["; ".join(text[flags[warned[i]]]) for i in first], dtype=object)
     out[warned] = joined[which]
     return out
+
+
+def _add_validity_warnings(warnings, e, validity) -> None:
+    """Add to ``warnings`` (per item) the correlations that ran outside their published
+    ranges on any of the item's elements (:data:`audit.engine.surface.VALIDITY_FLAGS`)."""
+    flagged = np.flatnonzero(validity)
+    if flagged.size == 0:
+        return
+    bits = np.zeros(len(warnings), np.int64)
+    np.bitwise_or.at(bits, e.item[flagged], validity[flagged])
+    items = np.flatnonzero(bits)
+    for value in np.unique(bits[items]):
+        text = "; ".join(surface.validity_warning(c, v)
+                         for i, (c, v) in enumerate(surface.VALIDITY_FLAGS) if value >> i & 1)
+        rows = items[bits[items] == value]
+        old = warnings[rows]
+        warnings[rows] = np.where(old == "", text, old + ("; " + text))
 
 
 def _packed_words(flags: np.ndarray) -> np.ndarray:

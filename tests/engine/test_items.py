@@ -53,6 +53,55 @@ def test_balance_closes_over_the_whole_domain():
         assert np.isfinite(getattr(states, name)).all(), name
 
 
+@settings(max_examples=40, deadline=None)
+@given(seed=st.integers(0, 2 ** 32 - 1), hot=st.booleans())
+def test_bare_and_thinly_covered_metal_in_wind_converges_across_the_transition(seed, hot):
+    # Forced convection at the film temperature makes a plate's flux fall with T_s near the
+    # flat plate's transition (test_surface.py); the solver's bracket and bisection must still
+    # close every balance.  Bare metal with a metal wall and an inner film (else its surface
+    # is the process temperature and nothing is solved), or up to 20 mm of insulation, in
+    # wind of 0-20 m/s over flat surfaces to 400 m2 (flow lengths to 20 m) and cylinders to
+    # 20 m: Reynolds numbers from zero through both transitions; hot (to 800 C) and cold.
+    rng = np.random.default_rng(seed)
+    n = 400
+    shape = rng.choice([PIPE, FLAT, FLAT, VERTICAL_VESSEL, HORIZONTAL_VESSEL, SPHERE_ITEM], n)
+    od = np.where(shape == PIPE, rng.choice(NPS_OD_M, n), rng.uniform(0.5, 20.0, n))
+    covered = rng.random(n) < 0.3
+    t_air = rng.uniform(C - 20, C + 45, n)
+    t_process = rng.uniform(C + 100, C + 800, n) if hot else rng.uniform(C - 200, C - 20, n)
+    batch = ItemBatch(
+        shape=shape, od=od, length=rng.uniform(0.5, 40.0, n), area=rng.uniform(0.5, 400.0, n),
+        heads=rng.integers(0, 4, n), orientation=rng.integers(0, 4, n) % np.where(shape == FLAT, 4, 2),
+        t_process=t_process, t_air=t_air, t_surroundings=t_air + rng.uniform(-20, 20, n),
+        wind=rng.uniform(0, 20, n), emissivity=rng.uniform(0.03, 0.97, n),
+        bare_emissivity=rng.uniform(0.03, 0.97, n),
+        layer_table=np.where(covered, rng.integers(0, 3, n), -1)[:, None],
+        layer_thickness=rng.uniform(0.0, 0.02, (n, 1)), layer_factor=np.ones((n, 1)),
+        bare_fraction=np.zeros(n), fitting_length=np.zeros(n),
+        wall_thickness=np.minimum(rng.uniform(0.002, 0.03, n), 0.4 * od),
+        wall_conductivity=rng.uniform(15.0, 50.0, n), inner_film=rng.uniform(5.0, 5000.0, n))
+    states = solve_items(batch, TABLES)
+    assert states.converged.all(), set(states.reason[~states.converged])
+    assert np.nanmax(states.balance_error) <= BALANCE_TOLERANCE
+    low = np.minimum(np.minimum(t_process, t_air), batch.t_surroundings)
+    high = np.maximum(np.maximum(t_process, t_air), batch.t_surroundings)
+    assert np.all((states.surface_temp >= low - 1e-9) & (states.surface_temp <= high + 1e-9))
+
+
+def test_correlations_outside_their_published_range_are_named_in_warnings():
+    # A 2 m sphere in 5 m/s wind: Re = 6e5, beyond Whitaker's 7.6e4, and a hot surface has
+    # mu_inf/mu_s < 1, below his 1.0; the same sphere in still air is inside every range it
+    # uses (Churchill: Ra <= 1e11 at this size and difference, Pr of air about 0.7).
+    common = dict(temp=C + 60, ambient=C + 20, od=2.0, shape="sphere", layers=[],
+                  bare_emissivity=0.8)
+    windy = solve_item(wind=5.0, **common).warnings
+    assert len(windy) == 2 and all("Whitaker (1972)" in w for w in windy)
+    assert "3.5 <= Re <= 7.6e4" in windy[0] and "1.0 <= mu_inf/mu_s <= 3.2" in windy[1]
+    assert solve_item(wind=0.0, **common).warnings == ()
+    # An item at ambient exchanges no heat: no correlation result is used, nothing to flag.
+    assert solve_item(wind=5.0, **{**common, "temp": C + 20}).warnings == ()
+
+
 def test_iso_model_closes_the_balance_also_for_items_at_ambient():
     # The simplified ISO 12241 model ignores the surroundings, so an item at the air
     # temperature carries no heat and its surface sits at an end of the solver's bracket
