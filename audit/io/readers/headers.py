@@ -22,7 +22,7 @@ from audit.units import _normalise, _unit
 COLUMNS: tuple[str, ...] = (
     "tag", "shape", "nps", "od", "length", "area", "heads", "orientation", "temp", "layers",
     "insulation", "thickness", "jacket", "emissivity", "location", "ambient", "wind", "rh",
-    "accessible", "condition", "damaged", "service", "material", "area_code", "valves",
+    "surroundings", "accessible", "condition", "damaged", "service", "material", "area_code", "valves",
     "flanges", "hours",
 )
 DN_UNIT = "DN"  # nominal diameter: not a pint unit, a size designation

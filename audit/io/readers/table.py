@@ -47,6 +47,7 @@ QUANTITIES = {
     "area": ("m**2", "m**2", "an area", 0.0, math.inf, True),
     "emissivity": ("dimensionless", "dimensionless", "an emissivity", 0.0, 1.0, True),
     "ambient": ("degC", "kelvin", "a temperature", 0.0, math.inf, False),
+    "surroundings": ("degC", "kelvin", "a temperature", 0.0, math.inf, False),
     "wind": ("m/s", "m/s", "a wind speed", 0.0, math.inf, False),
     "rh": ("percent", "percent", "a relative humidity", 0.0, 100.0, False),
     "damaged": ("percent", "percent", "a share of the length", 0.0, 100.0, False),
@@ -63,7 +64,7 @@ ITEM_COLUMNS = (
     "tag", "source", "status", "reason", "warnings", "shape", "od_m", "nps", "length_m",
     "area_m2", "heads", "orientation", "temp_K", "temp_is_ambient", "temp_max_K",
     "layer_materials", "layer_thicknesses_m", "jacket", "emissivity", "location", "ambient_K",
-    "wind_m_s", "rh_pct", "accessible", "condition", "damaged_pct", "service", "material",
+    "wind_m_s", "rh_pct", "surroundings_K", "accessible", "condition", "damaged_pct", "service", "material",
     "area_code", "valves", "flanges", "hours_h",
 )
 STRING_COLUMNS = ("tag", "source", "status", "reason", "warnings", "shape", "nps", "heads",
@@ -155,7 +156,8 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     out["layer_materials"], out["layer_thicknesses_m"] = insulation_layers(col, condition, notes)
     _surface(col, notes, out, info)
     for c, key in (("ambient", "ambient_K"), ("wind", "wind_m_s"), ("rh", "rh_pct"),
-                   ("damaged", "damaged_pct"), ("hours", "hours_h")):
+                   ("surroundings", "surroundings_K"), ("damaged", "damaged_pct"),
+                   ("hours", "hours_h")):
         out[key] = _quantity(col[c], notes, everyone, info)
     notes.warn((condition == "damaged") & ~col["damaged"].given,
                "damaged: empty for a damaged item; share of the length bare not known")
