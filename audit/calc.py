@@ -26,6 +26,7 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
+from audit import methods
 from audit.errors import LagauditError
 from audit.io.readers import read_register
 from audit.pipeline import audit_table
@@ -146,6 +147,8 @@ def add_calc_arguments(parser: argparse.ArgumentParser) -> None:
                         help="print in SI (default) or US customary units")
     parser.add_argument("--surface-model", default="correlations", metavar="NAME",
                         help="outer-surface model: correlations (default) or iso12241-simplified")
+    parser.add_argument("--explain", action="store_true",
+                        help="also print the methods and references the figures come from")
 
 
 def calc_item(*, rules: Rules | None = None, rules_dirs=(), surface_model: str = "correlations",
@@ -341,4 +344,7 @@ def run_calc(args: argparse.Namespace) -> int:
     flags = {column: getattr(args, column, None) for column in FLAG_COLUMNS}
     result = calc_item(rules_dirs=args.rules, surface_model=args.surface_model, **flags)
     print(format_calc(result, args.units))
+    if getattr(args, "explain", False):
+        print()
+        print(methods.text())
     return 0

@@ -12,6 +12,9 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
+from markupsafe import Markup
+
+from audit import methods
 from audit.digests import rules_digest, sha256_file
 from audit.io.readers.table import ITEM_COLUMNS
 from audit.report import charts
@@ -94,6 +97,9 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "rejected": _rejected(results, max_rows),
         "assumptions": _assumptions(audit, meta, economics),
         "economics": _economics(audit, area, economics, max_rows),
+        "methods": [{name: Markup(methods.to_html(value)) for name, value in m._asdict().items()}
+                    for m in methods.METHODS],
+        "method_notes": [Markup(methods.to_html(note)) for note in methods.NOTES],
     }
     context["charts"] = {
         "pareto": charts.cost_pareto(results["tag"].to_numpy(object),
