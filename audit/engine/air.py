@@ -305,8 +305,20 @@ _GRID = T_MIN + _STEP * np.arange(int(round((T_MAX - T_MIN) / _STEP)) + 2)
 _TABLE = _properties(_GRID)
 _VALUES = np.stack([_TABLE.conductivity, _TABLE.kinematic_viscosity, _TABLE.prandtl])
 _SLOPES = np.diff(_VALUES, axis=1)
-_MU = _TABLE.dynamic_viscosity
-_MU_SLOPES = np.diff(_MU)
+_MU = _TABLE.dynamic_viscosity[None]
+_MU_SLOPES = np.diff(_MU, axis=1)
+
+
+def _interpolated(rows, slopes, temperature):
+    """The table ``rows`` at ``temperature`` [K], linearly interpolated: the values, and the
+    rise of each row over the table step the temperature falls in (per step, not per K)."""
+    t = np.asarray(temperature, dtype=float)
+    _check_range(t)
+    x = (t - T_MIN) * (1.0 / _STEP)
+    i = x.astype(np.intp)  # floor, as x >= 0
+    f = x - i
+    steps = [d[i] for d in slopes]
+    return [v[i] + f * d for v, d in zip(rows, steps)], steps
 
 
 def air_transport_tabulated(temperature, *, with_derivatives=False):
@@ -342,13 +354,7 @@ def air_transport_tabulated(temperature, *, with_derivatives=False):
     -----
     Validity 100 K to 2000 K; within 2e-6 (relative) of :func:`air_properties`.
     """
-    t = np.asarray(temperature, dtype=float)
-    _check_range(t)
-    x = (t - T_MIN) * (1.0 / _STEP)
-    i = x.astype(np.intp)  # floor, as x >= 0
-    f = x - i
-    steps = [d[i] for d in _SLOPES]
-    k, nu, pr = (v[i] + f * d for v, d in zip(_VALUES, steps))
+    (k, nu, pr), steps = _interpolated(_VALUES, _SLOPES, temperature)
     values = AirTransport(conductivity=k, kinematic_viscosity=nu, prandtl=pr)
     if not with_derivatives:
         return values
@@ -378,18 +384,13 @@ def dynamic_viscosity_tabulated(temperature, *, with_derivative=False):
     Raises
     ------
     EngineInputError
-        If a temperature is NaN or lies outside 100 K to 2000 K.
+        For a temperature that :func:`air_transport_tabulated` refuses.
 
     Notes
     -----
-    Validity 100 K to 2000 K; within 2e-6 (relative) of :func:`air_properties`.
+    The range and accuracy of :func:`air_transport_tabulated`, whose table this is.
     """
-    t = np.asarray(temperature, dtype=float)
-    _check_range(t)
-    x = (t - T_MIN) * (1.0 / _STEP)
-    i = x.astype(np.intp)
-    slope = _MU_SLOPES[i]
-    mu = _MU[i] + (x - i) * slope
+    (mu,), (step,) = _interpolated(_MU, _MU_SLOPES, temperature)
     if not with_derivative:
         return mu
-    return mu, slope * (1.0 / _STEP)
+    return mu, step * (1.0 / _STEP)
