@@ -215,8 +215,10 @@ def _assumptions(audit, meta: dict, economics) -> list[str]:
     for name in used:
         site = rules.sites.get(name)
         if site is not None:
+            surroundings = ("" if not np.isfinite(site.surroundings) else
+                            f", surroundings {fmt(site.surroundings - 273.15)} °C")
             lines.append(f"Site condition {name}: air {fmt(site.ambient - 273.15)} °C, wind "
-                         f"{fmt(site.wind)} m/s, RH {fmt(site.rh)} % ({site.source}).")
+                         f"{fmt(site.wind)} m/s, RH {fmt(site.rh)} %{surroundings} ({site.source}).")
     if economics is not None:
         extra = economics.assumptions
         if isinstance(extra, dict):
