@@ -545,3 +545,41 @@ def test_take_is_the_same_model_for_fewer_surfaces():
     part = flux.take(rows)(ts[rows], slope=True)
     for a, b in zip(whole, part):
         np.testing.assert_array_equal(a[rows], b)
+
+
+def flagged(flux, ts):
+    """The warnings of the ranges each surface left at ``ts``."""
+    bits = flux.outside_validity(np.atleast_1d(np.asarray(ts, float)))
+    return [[sf.validity_warning(*sf.VALIDITY_FLAGS[i]) for i in range(len(sf.VALIDITY_FLAGS))
+             if b >> i & 1] for b in bits]
+
+
+def test_a_correlation_is_flagged_only_where_it_carries_the_coefficient():
+    # A 20 m tall wall 300 K above the air: Ra on its height is about 1e13, beyond Churchill &
+    # Chu's 1e12.  In still air natural convection is the whole coefficient: flagged.  In a
+    # 15 m/s wind over a 2 m flow length the forced term is several times larger, so the
+    # natural one changes the combined coefficient by well under 1 %: not flagged.
+    calm = flagged(build(sf.VERTICAL_PLATE, length=20.0, wind=0.0), 593.15)[0]
+    assert len(calm) == 1 and "1e-1 <= Ra <= 1e12" in calm[0]
+    windy = build(sf.VERTICAL_PLATE, length=20.0, wind=15.0, flow_length=2.0)
+    assert flagged(windy, 593.15) == [[]]
+    # No heat exchanged with the air, no correlation used: nothing flagged.
+    assert flagged(build(sf.VERTICAL_PLATE, length=20.0), 293.15) == [[]]
+    # NaN surface temperatures (an element not computed) are skipped, not raised on.
+    assert flagged(build([sf.VERTICAL_PLATE] * 2, length=20.0), [np.nan, 593.15])[0] == []
+
+
+def test_whitaker_beyond_the_air_property_range_is_flagged_not_refused():
+    # A -190 C sphere surface (83 K) in 20 C air: mu_s cannot be read below 100 K, so it is
+    # held at 100 K and the viscosity ratio is flagged; the flux stays finite.
+    flux = build(sf.SPHERE, diameter=0.3, wind=2.0)
+    q_conv, q_rad = flux(np.array([83.15]))
+    assert np.isfinite(q_conv[0]) and q_conv[0] < 0
+    assert any("mu_inf/mu_s" in w for w in flagged(flux, 83.15)[0])
+    # A cold surface within the property range: mu_inf/mu_s = 1.36 at 200 K, inside his range.
+    assert not any("mu_inf/mu_s" in w for w in flagged(flux, 200.0)[0])
+
+
+def test_the_iso_model_has_no_ranges_to_leave():
+    flux = build(KINDS, model="iso12241-simplified", iso_ca=3.0, iso_cb=3.5)
+    assert list(flux.outside_validity(np.full(len(KINDS), 400.0))) == [0] * len(KINDS)
