@@ -315,7 +315,6 @@ def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
         reason[failed] = _failure_reasons(np.flatnonzero(failed), e, sol, tables)
     computed = (reason == "")
     warnings = _warnings(n, e, sol, tables, w.present)
-    _add_validity_warnings(warnings, e, sol.validity)
 
     length = np.where(b.shape == PIPE, b.length, np.nan)
     with np.errstate(invalid="ignore", divide="ignore"):
@@ -369,7 +368,8 @@ def _failure_reasons(items, e, sol, tables) -> list[str]:
 
 
 def _warnings(n, e, sol, tables, present) -> np.ndarray:
-    """Layers whose temperature span leaves their conductivity data."""
+    """Layers whose temperature span leaves their conductivity data, and correlations that
+    ran outside their published ranges (:data:`audit.engine.surface.VALIDITY_FLAGS`)."""
     out = np.full(n, "", dtype=object)
     temps = sol.interface_temps
     outside = np.zeros(present.shape, bool)
@@ -379,37 +379,26 @@ def _warnings(n, e, sol, tables, present) -> np.ndarray:
             idx = np.flatnonzero(col)
             outside[idx, j] = tables.outside(e.layer_table[idx, j], temps[idx, j], temps[idx, j + 1])
     rows, cols = np.nonzero(outside)
-    if rows.size == 0:
+    ranged = np.flatnonzero(sol.validity)
+    if rows.size == 0 and ranged.size == 0:
         return out
     text = np.array([f"conductivity of {name} extrapolated beyond its data "
                      f"({lo - 273.15:g} to {hi - 273.15:g} degC)"
-                     for name, lo, hi in zip(tables.names, tables.t_min, tables.t_max)], dtype=object)
-    # One note per (item, material), in table order: each item's set of materials as a row
-    # of flags, and each distinct set joined into text once.
-    flags = np.zeros((n, len(tables)), bool)
+                     for name, lo, hi in zip(tables.names, tables.t_min, tables.t_max)]
+                    + [surface.validity_warning(*flag) for flag in surface.VALIDITY_FLAGS],
+                    dtype=object)
+    # One note per (item, material) and per (item, range left), materials first: each item's
+    # set of notes as a row of flags, and each distinct set joined into text once.
+    flags = np.zeros((n, text.size), bool)
     flags[e.item[rows], e.layer_table[rows, cols]] = True
+    bits = (sol.validity[ranged, None] >> np.arange(len(surface.VALIDITY_FLAGS))) & 1
+    at, which_range = np.nonzero(bits)
+    flags[e.item[ranged[at]], len(tables) + which_range] = True
     warned = np.flatnonzero(flags.any(axis=1))
     first, which = distinct_rows(_packed_words(flags[warned]))
     joined = np.array(["; ".join(text[flags[warned[i]]]) for i in first], dtype=object)
     out[warned] = joined[which]
     return out
-
-
-def _add_validity_warnings(warnings, e, validity) -> None:
-    """Add to ``warnings`` (per item) the correlations that ran outside their published
-    ranges on any of the item's elements (:data:`audit.engine.surface.VALIDITY_FLAGS`)."""
-    flagged = np.flatnonzero(validity)
-    if flagged.size == 0:
-        return
-    bits = np.zeros(len(warnings), np.int64)
-    np.bitwise_or.at(bits, e.item[flagged], validity[flagged])
-    items = np.flatnonzero(bits)
-    for value in np.unique(bits[items]):
-        text = "; ".join(surface.validity_warning(c, v)
-                         for i, (c, v) in enumerate(surface.VALIDITY_FLAGS) if value >> i & 1)
-        rows = items[bits[items] == value]
-        old = warnings[rows]
-        warnings[rows] = np.where(old == "", text, old + ("; " + text))
 
 
 def _packed_words(flags: np.ndarray) -> np.ndarray:

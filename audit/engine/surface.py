@@ -259,7 +259,8 @@ VALIDITY_FLAGS: tuple[tuple[cv.Correlation, cv.Validity], ...] = tuple(
     (c, v) for c in cv.available_correlations() for v in c.validity)
 """Bit ``i`` of :meth:`flux.outside_validity` stands for ``VALIDITY_FLAGS[i]``: a registered
 correlation and one of its published ranges."""
-_FLAGS = tuple((c.function, v, 1 << i) for i, (c, v) in enumerate(VALIDITY_FLAGS))
+_FLAGS = {c.function: [(v, 1 << VALIDITY_FLAGS.index((c, v))) for v in c.validity]
+          for c in cv.available_correlations()}
 
 
 def validity_warning(correlation: cv.Correlation, validity: cv.Validity) -> str:
@@ -462,16 +463,18 @@ class _CorrelationsFlux:
         p_nu, p_pr, p_k = slopes
         return h_f, -s_re * p_nu + s_pr * p_pr + p_k, groups
 
-    def _flag(self, bits, rows, where, function, groups):
+    @staticmethod
+    def _flag(bits, rows, where, function, groups):
         """Set in ``bits`` (at ``rows`` where ``where``) the flag of each published range of
         ``function`` that ``groups`` (quantity -> values) leave."""
-        for f, validity, bit in _FLAGS:
-            if f is function:
-                outside = where & validity.outside(groups[validity.quantity])
-                if outside.any():
-                    at = np.zeros(self.n, bool)
-                    at[rows] = outside
-                    bits[at] |= bit
+        found = None
+        for validity, bit in _FLAGS[function]:
+            outside = where & validity.outside(groups[validity.quantity])
+            if outside.any():
+                found = np.where(outside, bit, 0) if found is None else found | np.where(
+                    outside, bit, 0)
+        if found is not None:
+            bits[rows] |= found
 
 
 # ----------------------------------------------------------------------------------------
