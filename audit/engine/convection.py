@@ -32,13 +32,20 @@ _RA_JOIN_PLATE_UP = (0.54 / 0.15) ** 12
 """Rayleigh number where 0.54 Ra^(1/4) and 0.15 Ra^(1/3) are equal, about 4.7e6."""
 
 
+def _pow(base, exponent):
+    """``base ** exponent`` for bases >= 0 (0 gives 0), as exp(exponent ln base): within a few
+    ulps of numpy's power at a quarter of its time, which the solver's sweeps feel."""
+    with np.errstate(divide="ignore"):
+        return np.exp(exponent * np.log(base))
+
+
 def _churchill_chu_all_ra(rayleigh, prandtl, lead, pr_ref, with_slopes):
     """[lead + 0.387 Ra^(1/6) / (1 + (pr_ref / Pr)^(9/16))^(8/27)]^2: the form Churchill & Chu
     (1975) share between the horizontal cylinder and the vertical plate."""
     ra = np.asarray(rayleigh, dtype=float)
     pr = np.asarray(prandtl, dtype=float)
-    a = (pr_ref / pr) ** (9.0 / 16.0)
-    rising = 0.387 * np.sqrt(np.cbrt(ra)) / (1.0 + a) ** (8.0 / 27.0)
+    a = _pow(pr_ref / pr, 9.0 / 16.0)
+    rising = 0.387 * np.sqrt(np.cbrt(ra)) / _pow(1.0 + a, 8.0 / 27.0)
     term = lead + rising
     nu = term * term
     if not with_slopes:
@@ -172,10 +179,11 @@ def nusselt_natural_sphere_churchill(rayleigh, prandtl, *, with_slopes=False):
     """
     ra = np.asarray(rayleigh, dtype=float)
     pr = np.asarray(prandtl, dtype=float)
-    a = (0.469 / pr) ** (9.0 / 16.0)
+    a = _pow(0.469 / pr, 9.0 / 16.0)
     f = 1.0 + a
-    w = 7.44e-8 * ra / f ** (16.0 / 9.0)
-    rising = 0.589 * np.sqrt(np.sqrt(ra)) / f ** (4.0 / 9.0) * (1.0 + w) ** (1.0 / 12.0)
+    f_4_9 = _pow(f, 4.0 / 9.0)
+    w = 7.44e-8 * ra / (f_4_9 * f_4_9 * f_4_9 * f_4_9)
+    rising = 0.589 * np.sqrt(np.sqrt(ra)) / f_4_9 * _pow(1.0 + w, 1.0 / 12.0)
     nu = 2.0 + rising
     if not with_slopes:
         return nu
@@ -326,8 +334,8 @@ def nusselt_forced_cylinder_churchill_bernstein(reynolds, prandtl, *, with_slope
     x = re * (1.0 / 282000.0)
     root = np.sqrt(x)
     c = root * np.sqrt(np.sqrt(root))        # (Re/282000)^(5/8)
-    rising = (0.62 * np.sqrt(282000.0)) * root * np.cbrt(pr) / np.sqrt(np.sqrt(1.0 + a)) * (
-        1.0 + c) ** 0.8
+    rising = (0.62 * np.sqrt(282000.0)) * root * np.cbrt(pr) / np.sqrt(np.sqrt(1.0 + a)) * _pow(
+        1.0 + c, 0.8)
     nu = 0.3 + rising
     if not with_slopes:
         return nu
@@ -381,9 +389,9 @@ def nusselt_forced_sphere_whitaker(reynolds, prandtl, viscosity_ratio=1.0, *, wi
     re = np.asarray(reynolds, dtype=float)
     pr = np.asarray(prandtl, dtype=float)
     ratio = np.asarray(viscosity_ratio, dtype=float)
-    root, two_thirds = np.sqrt(re), re ** (2.0 / 3.0)
+    root, two_thirds = np.sqrt(re), np.cbrt(re) ** 2
     wake = 0.4 * root + 0.06 * two_thirds
-    rising = wake * pr ** 0.4 * ratio ** 0.25
+    rising = wake * _pow(pr, 0.4) * np.sqrt(np.sqrt(ratio))
     nu = 2.0 + rising
     if not with_slopes:
         return nu
@@ -446,7 +454,7 @@ def nusselt_forced_flat_plate_mixed_incropera(reynolds, prandtl, *, with_slopes=
     re = np.asarray(reynolds, dtype=float)
     cbrt_pr = np.cbrt(np.asarray(prandtl, dtype=float))
     laminar = 0.664 * np.sqrt(re)
-    turbulent = 0.037 * re ** 0.8
+    turbulent = 0.037 * _pow(re, 0.8)
     mixed = turbulent - _A_MIXED_PLATE
     # Above the crossing (just below Re = 5e5) the mixed form is the larger one.
     is_mixed = mixed > laminar
