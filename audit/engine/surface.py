@@ -240,13 +240,13 @@ _NATURAL = {
     HORIZONTAL_PLATE_UP: None,
     HORIZONTAL_PLATE_DOWN: None,
 }
-_FORCED = {  # kind: (correlation, its length: the diameter or the flow length)
-    HORIZONTAL_CYLINDER: (cv.nusselt_forced_cylinder_churchill_bernstein, "diameter"),
-    VERTICAL_CYLINDER: (cv.nusselt_forced_cylinder_churchill_bernstein, "diameter"),
-    SPHERE: (cv.nusselt_forced_sphere_whitaker, "diameter"),
-    VERTICAL_PLATE: (cv.nusselt_forced_flat_plate_mixed_incropera, "flow_length"),
-    HORIZONTAL_PLATE_UP: (cv.nusselt_forced_flat_plate_mixed_incropera, "flow_length"),
-    HORIZONTAL_PLATE_DOWN: (cv.nusselt_forced_flat_plate_mixed_incropera, "flow_length"),
+_FORCED = {  # on the diameter, plates on the flow length
+    HORIZONTAL_CYLINDER: cv.nusselt_forced_cylinder_churchill_bernstein,
+    VERTICAL_CYLINDER: cv.nusselt_forced_cylinder_churchill_bernstein,
+    SPHERE: cv.nusselt_forced_sphere_whitaker,
+    VERTICAL_PLATE: cv.nusselt_forced_flat_plate_mixed_incropera,
+    HORIZONTAL_PLATE_UP: cv.nusselt_forced_flat_plate_mixed_incropera,
+    HORIZONTAL_PLATE_DOWN: cv.nusselt_forced_flat_plate_mixed_incropera,
 }
 _WHITAKER = cv.nusselt_forced_sphere_whitaker
 
@@ -328,7 +328,7 @@ class _CorrelationsFlux:
                 else None
             self.groups.append(_Group(
                 rows, _NATURAL[k], k == HORIZONTAL_PLATE_UP, g_l3[rows], inv_l[rows],
-                _FORCED[k][0] if in_wind else None, speed_length[rows], inv_lf[rows], free))
+                _FORCED[k] if in_wind else None, speed_length[rows], inv_lf[rows], free))
 
     def take(self, rows):
         """The same model for the surfaces ``rows`` (positions) only, not validated again."""
@@ -448,7 +448,8 @@ class _CorrelationsFlux:
             nu_f = out[0] if slope else out
             h_f = nu_f * k_free * g.inv_lf
             # A surface beyond the air-property range counts as outside the ratio's range.
-            groups = {"Re": re, "Pr": pr_free, "mu_inf/mu_s": np.where(held == ts, ratio, -np.inf)}
+            groups = {"Re": re, "Pr": pr_free,
+                      "mu_inf/mu_s": np.where(held == ts, ratio, -np.inf)}
             if not slope:
                 return h_f, None, groups
             return h_f, -out[3] * d_mu_s / mu_s, groups
@@ -467,14 +468,10 @@ class _CorrelationsFlux:
     def _flag(bits, rows, where, function, groups):
         """Set in ``bits`` (at ``rows`` where ``where``) the flag of each published range of
         ``function`` that ``groups`` (quantity -> values) leave."""
-        found = None
+        found = np.zeros(where.shape, np.int64)
         for validity, bit in _FLAGS[function]:
-            outside = where & validity.outside(groups[validity.quantity])
-            if outside.any():
-                found = np.where(outside, bit, 0) if found is None else found | np.where(
-                    outside, bit, 0)
-        if found is not None:
-            bits[rows] |= found
+            found[where & validity.outside(groups[validity.quantity])] |= bit
+        bits[rows] |= found
 
 
 # ----------------------------------------------------------------------------------------
