@@ -296,11 +296,14 @@ def _rules(args) -> int:
 
 def _history(args) -> int:
     history = History.open(args.db, create=False)
-    if args.export:
-        for path in export_audits(history, args.export, args.plant):
-            print(f"wrote {path}")
-    else:
-        print(describe_audits(history, args.plant))
+    try:
+        if args.export:
+            for path in export_audits(history, args.export, args.plant):
+                print(f"wrote {path}")
+        else:
+            print(describe_audits(history, args.plant))
+    finally:
+        history.close()
     return 0
 
 

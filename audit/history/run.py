@@ -26,12 +26,16 @@ def compare_audit(history: History, audit, *, plant: str | None, fallback: str |
 
 
 def record_run(history: History, audit, registers, out_dir, *, surface_model: str) -> tuple[list[Path], str]:
-    """Write ``closed.csv`` and record the audit; the paths written and a line for the user."""
+    """Write ``closed.csv`` and record the audit, then close ``history``; the paths written and
+    a line for the user."""
     since = audit.history
     closed = write_closed(since, out_dir)
-    audit_id = record_audit(history, audit, since, surface_model=surface_model,
-                            registers=[{"file": str(p), "sha256": sha256_file(p)} for p in registers],
-                            rules_digest=rules_digest(audit.rules.files))
+    try:
+        audit_id = record_audit(history, audit, since, surface_model=surface_model,
+                                registers=[{"file": str(p), "sha256": sha256_file(p)} for p in registers],
+                                rules_digest=rules_digest(audit.rules.files))
+    finally:
+        history.close()
     c = since.counts()
     against = (f"against the audit of {since.last_run_at:%Y-%m-%d %H:%M} UTC: {c['new']} new, "
                f"{c['recurring']} recurring, {c['worsened']} worsened, {c['improved']} improved, "

@@ -52,7 +52,7 @@ class History:
         """
         target = parse_target(where)
         if target.is_sqlite and not create and not Path(target.url.database).is_file():
-            raise HistoryError(f"no history database at {target.label!r}", file=target.label,
+            raise HistoryError(f"no history database at {target.label!r}",
                                expected="a database written by lagaudit run --history")
         history = cls(target, _engine(target))
         with history._errors("open"):
@@ -141,7 +141,7 @@ class History:
             raise
         except (SQLAlchemyError, sqlite3.Error, OSError) as exc:
             raise HistoryError(f"cannot {doing} history database {self.label!r}: "
-                               f"{self.target.redact(_reason(exc))}", file=self.label,
+                               f"{self.target.redact(_reason(exc))}",
                                expected="a lagaudit history database that can be reached") from None
 
     def _ensure_schema(self, create: bool) -> None:
@@ -153,10 +153,9 @@ class History:
                 ours = sorted(names & schema.OWN_TABLES)
                 if ours:
                     raise HistoryError(f"{self.label!r} holds tables named {', '.join(ours)} but is "
-                                       "not a lagaudit history database (no lagaudit_schema table)",
-                                       file=self.label, expected="a database written by lagaudit")
+                                       "not a lagaudit history database (no lagaudit_schema table)", expected="a database written by lagaudit")
                 if not create:
-                    raise HistoryError(f"{self.label!r} holds no lagaudit history", file=self.label,
+                    raise HistoryError(f"{self.label!r} holds no lagaudit history",
                                        expected="a database written by lagaudit run --history")
                 schema.metadata.create_all(conn)
                 self._stamp(conn, schema.SCHEMA_VERSION)
@@ -166,14 +165,12 @@ class History:
                 raise HistoryError(
                     f"history database {self.label!r} has schema version {version}, written by a "
                     f"newer lagaudit; this lagaudit ({__version__}) reads up to version "
-                    f"{schema.SCHEMA_VERSION}; nothing was written",
-                    file=self.label, expected="lagaudit upgraded to the version that wrote it")
+                    f"{schema.SCHEMA_VERSION}; nothing was written", expected="lagaudit upgraded to the version that wrote it")
             while version < schema.SCHEMA_VERSION:
                 step = schema.UPGRADES.get(version)
                 if step is None:
                     raise HistoryError(f"history database {self.label!r} has schema version "
-                                       f"{version}, which this lagaudit cannot upgrade",
-                                       file=self.label, expected=f"schema version {schema.SCHEMA_VERSION}")
+                                       f"{version}, which this lagaudit cannot upgrade", expected=f"schema version {schema.SCHEMA_VERSION}")
                 step(conn)
                 version += 1
                 self._stamp(conn, version)

@@ -16,7 +16,8 @@ from audit.errors import LagauditError
 #: What a URL may start with, and the driver each is opened with.
 SCHEMES = {"postgresql": "postgresql+psycopg", "postgres": "postgresql+psycopg",
            "postgresql+psycopg": "postgresql+psycopg"}
-_USERINFO = re.compile(r"(?P<head>[A-Za-z][A-Za-z0-9+.-]*://[^:/@\s]*):[^@\s]*@")
+#: user:password@ in a URL; greedy up to the last @, so a password holding an @ is hidden whole
+_USERINFO = re.compile(r"(?P<head>[A-Za-z][A-Za-z0-9+.-]*://[^:/@\s]*):\S*@")
 
 
 class HistoryError(LagauditError):
@@ -59,6 +60,9 @@ def parse_target(text: str) -> Target:
     if scheme not in SCHEMES:
         raise HistoryError(f"history database {shown!r}: unsupported kind of URL {scheme!r}",
                            expected="a file path (SQLite) or a postgresql:// URL")
+    if text.split("://", 1)[1].split("/", 1)[0].count("@") > 1:
+        raise HistoryError(f"history database {shown!r}: the user name or password holds an '@'",
+                           expected="'@' written as %40 in a URL")
     try:
         url = make_url(text)
     except (ArgumentError, ValueError):
@@ -77,9 +81,8 @@ def redact_url_text(text: str) -> str:
 
 def _file_target(path: Path) -> Target:
     if path.is_dir():
-        raise HistoryError(f"history database {str(path)!r} is a folder", file=str(path),
+        raise HistoryError(f"history database {str(path)!r} is a folder",
                            expected="a file path, such as audits.db")
     if not path.parent.is_dir():
-        raise HistoryError(f"the folder of history database {str(path)!r} does not exist",
-                           file=str(path), expected="a path in an existing folder")
+        raise HistoryError(f"the folder of history database {str(path)!r} does not exist", expected="a path in an existing folder")
     return Target(URL.create("sqlite", database=str(path.resolve())), str(path), ())
