@@ -54,19 +54,24 @@ audits = Table(
 )
 Index("audits_by_plant", audits.c.plant, audits.c.run_at)
 
-registers = Table(
-    "audit_registers", metadata,
-    Column("audit_id", Integer, ForeignKey("audits.id", ondelete="CASCADE"), primary_key=True),
-    Column("position", Integer, primary_key=True, autoincrement=False),
+
+
+def _of_each_audit(name: str, number: str, *columns) -> Table:
+    """A table of rows that belong to one audit: keyed by the audit and the row's ``number``."""
+    return Table(name, metadata,
+                 Column("audit_id", Integer, ForeignKey("audits.id", ondelete="CASCADE"), primary_key=True),
+                 Column(number, Integer, primary_key=True, autoincrement=False), *columns)
+
+
+registers = _of_each_audit(
+    "audit_registers", "position",
     Column("file", Text, nullable=False),
     Column("sha256", String(64), nullable=False),
 )
 
 #: Per item: the recognised inputs and the results, at the item's own conditions.
-items = Table(
-    "items", metadata,
-    Column("audit_id", Integer, ForeignKey("audits.id", ondelete="CASCADE"), primary_key=True),
-    Column("row", Integer, primary_key=True, autoincrement=False),
+items = _of_each_audit(
+    "items", "row",
     Column("tag", Text, nullable=False),
     Column("tag_key", Text, nullable=False),
     Column("source", Text, nullable=False),
@@ -99,10 +104,8 @@ items = Table(
     Column("severity", String(16)),
 )
 
-findings = Table(
-    "findings", metadata,
-    Column("audit_id", Integer, ForeignKey("audits.id", ondelete="CASCADE"), primary_key=True),
-    Column("seq", Integer, primary_key=True, autoincrement=False),
+findings = _of_each_audit(
+    "findings", "seq",
     Column("row", Integer, nullable=False),
     Column("tag", Text, nullable=False),
     Column("tag_key", Text, nullable=False),

@@ -113,14 +113,8 @@ def findings_by_area(counts: pd.DataFrame, severities, top: int = MAX_BARS) -> M
     for k, (area, row) in enumerate(counts.iterrows()):
         y, x = TOP + k * ROW, float(LABEL)
         parts.append(_label(area or "(none)", y))
-        for severity in severities:
-            n = int(row.get(severity, 0))
-            if n:
-                parts.append(f'<rect x="{x:.1f}" y="{y + 2}" width="{n * scale:.1f}" height="{ROW - 4}" '
-                             f'fill="{SEVERITY_COLOURS[severity]}"><title>{escape(severity)}: {n}</title></rect>')
-                x += n * scale
-        parts.append(f'<text x="{x + 4:.1f}" y="{y + ROW - 4}" font-size="10" fill="{INK}">'
-                     f'{int(totals[k])}</text>')
+        parts += _stacked(x, y, [(s, int(row.get(s, 0)), SEVERITY_COLOURS[s]) for s in severities],
+                          scale, int(totals[k]))
     legend, lx = [], float(LABEL)
     for severity in severities:
         legend.append(f'<rect x="{lx:.1f}" y="{TOP - 16}" width="10" height="10" '
@@ -132,6 +126,19 @@ def findings_by_area(counts: pd.DataFrame, severities, top: int = MAX_BARS) -> M
             f'split by severity</text>')
     return _svg(height, head + "".join(legend) + "".join(parts),
                 f"Findings by area, {len(counts)} areas")
+
+
+def _stacked(x: float, y: float, segments, scale: float, total: int) -> list[str]:
+    """One stacked bar at row ``y`` from ``x``: ``(name, count, colour)`` segments left to
+    right (each titled with its name and count), then the total."""
+    parts = []
+    for name, n, colour in segments:
+        if n:
+            parts.append(f'<rect x="{x:.1f}" y="{y + 2}" width="{n * scale:.1f}" height="{ROW - 4}" '
+                         f'fill="{colour}"><title>{escape(name)}: {n}</title></rect>')
+            x += n * scale
+    parts.append(f'<text x="{x + 4:.1f}" y="{y + ROW - 4}" font-size="10" fill="{INK}">{total}</text>')
+    return parts
 
 
 def _svg(height: float, body: str, title: str) -> Markup:
@@ -199,14 +206,8 @@ def audit_trend(labels, heat_loss_kw, cost, by_check: pd.DataFrame, currency: st
     parts.append(f'<text x="{x0:.1f}" y="{TOP - 8}" font-size="10" font-weight="bold" '
                  f'fill="{INK}">findings by check</text>')
     for k, (_, row) in enumerate(by_check.iterrows()):
-        y, x = TOP + k * ROW, x0
-        for check, n in row.items():
-            if n:
-                parts.append(f'<rect x="{x:.1f}" y="{y + 2}" width="{n * scale:.1f}" height="{ROW - 4}" '
-                             f'fill="{colours[check]}"><title>{escape(str(check))}: {int(n)}</title></rect>')
-                x += n * scale
-        parts.append(f'<text x="{x + 4:.1f}" y="{y + ROW - 4}" font-size="10" fill="{INK}">'
-                     f'{int(totals[k])}</text>')
+        parts += _stacked(x0, TOP + k * ROW, [(str(c), int(n), colours[c]) for c, n in row.items()],
+                          scale, int(totals[k]))
     for k, label in enumerate(labels):
         parts.append(_label(label, TOP + k * ROW))
     rows_end = TOP + len(labels) * ROW + 8
