@@ -17,6 +17,7 @@ tag any more) or ``item-rejected`` (its rows were rejected this time, so nothing
 
 from __future__ import annotations
 
+import math
 import re
 import unicodedata
 
@@ -124,22 +125,20 @@ def _judge(both: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
     words = np.where(rank_now > rank_before, "worsened",
                      np.where(rank_now < rank_before, "improved",
                               np.where(further, "worsened", np.where(nearer, "improved", "recurring"))))
-    changes = [_change(r) for r in both.to_dict(orient="records")]
+    columns = [both[c].tolist() for c in ("severity_before", "severity", "value_before", "value",
+                                           "limit", "unit")]
+    changes = [_change(*row) for row in zip(*columns)]
     return words.astype(object), np.array(changes, dtype=object)
 
 
-def _change(r: dict) -> str:
-    parts = []
-    if r["severity"] != r["severity_before"]:
-        parts.append(f"severity {r['severity_before']} -> {r['severity']}")
-    unit = f" {r['unit']}" if r["unit"] else ""
-    parts.append(f"value {_num(r['value_before'])} -> {_num(r['value'])}{unit} "
-                 f"(limit {_num(r['limit'])}{unit})")
-    return "; ".join(parts)
+def _change(severity_before, severity, value_before, value, limit, unit) -> str:
+    unit = f" {unit}" if unit else ""
+    text = f"value {_num(value_before)} -> {_num(value)}{unit} (limit {_num(limit)}{unit})"
+    return text if severity == severity_before else f"severity {severity_before} -> {severity}; {text}"
 
 
 def _num(x) -> str:
-    return "-" if x is None or not np.isfinite(x) else f"{x:.4g}"
+    return "-" if x is None or not math.isfinite(x) else f"{x:.4g}"
 
 
 def _why(gone: pd.DataFrame, items: pd.DataFrame) -> np.ndarray:

@@ -74,7 +74,7 @@ class History:
             rows = conn.execute(select(f.c.tag, f.c.check, f.c.severity, f.c.value,
                                        f.c.limit_value.label("limit"), f.c.unit, f.c.message,
                                        f.c.first_reported).where(f.c.audit_id == last.id)
-                                .order_by(f.c.seq)).mappings().all()
+                                .order_by(f.c.seq)).fetchall()
         found = pd.DataFrame(rows, columns=["tag", "check", "severity", "value", "limit", "unit",
                                             "message", "first_reported"])
         found["first_reported"] = found["first_reported"].map(_iso_date)
@@ -125,10 +125,11 @@ class History:
         columns without ``audit_id``."""
         with self._errors("write"), self.engine.begin() as conn:
             audit_id = conn.execute(insert(schema.audits).values(**audit)).inserted_primary_key[0]
-            conn.execute(insert(schema.registers), [
-                {"audit_id": audit_id, "position": k, **r} for k, r in enumerate(registers)])
-            for table, frame in ((schema.items, items), (schema.findings, findings)):
-                if len(frame):
+            files = pd.DataFrame(registers, columns=["file", "sha256"])
+            files.insert(0, "position", range(len(files)))
+            for table, frame in ((schema.registers, files), (schema.items, items),
+                                 (schema.findings, findings)):
+                if len(frame):  # an empty list of rows would insert one row of defaults
                     conn.execute(insert(table), _records(frame.assign(audit_id=audit_id)))
         return int(audit_id)
 
@@ -210,10 +211,16 @@ def utc_now() -> datetime:
 
 
 def _records(frame: pd.DataFrame) -> list[dict]:
-    """Rows as plain Python values, missing numbers as None (SQL NULL)."""
-    plain = frame.astype(object).where(frame.notna(), None)
-    return [{k: (v.item() if isinstance(v, np.generic) else v) for k, v in row.items()}
-            for row in plain.to_dict(orient="records")]
+    """Rows as plain Python values, missing numbers as None (SQL NULL); built column by column."""
+    names = list(frame.columns)
+    columns = [_plain(frame[name].to_numpy()) for name in names]
+    return [dict(zip(names, values)) for values in zip(*columns)]
+
+
+def _plain(values: np.ndarray) -> list:
+    if values.dtype.kind in "iub":
+        return values.tolist()
+    return [None if v is None or (isinstance(v, float) and v != v) else v for v in values.tolist()]
 
 
 def _iso_date(value) -> str:
