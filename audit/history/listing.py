@@ -25,7 +25,7 @@ def describe_audits(history: History, plant: str | None = None) -> str:
     heads = [head for _, head in _SHOWN]
     widths = [max(len(h), *(len(row[k]) for row in cells)) for k, h in enumerate(heads)]
     lines = [f"{history.label}: {len(audits)} audit{'s' if len(audits) != 1 else ''} recorded{where}",
-             "  ".join(h.ljust(w) for h, w in zip(heads, widths))]
+             "  ".join(h.ljust(w) for h, w in zip(heads, widths)).rstrip()]
     for row, (_, audit) in zip(cells, audits.iterrows()):
         lines.append("  ".join(c.ljust(w) for c, w in zip(row, widths)).rstrip())
         lines.append(f"    registers: {audit['registers']}; rules digest {audit['rules_digest']}")

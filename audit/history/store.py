@@ -1,9 +1,9 @@
 """The history database: opening it (schema checked, created or upgraded), the last audit of a
 plant, recording an audit in one transaction, and listing what is recorded.
 
-SQLite files are opened in WAL mode with a busy timeout, and every SQLite transaction begins
-``IMMEDIATE`` (it takes the write lock at once), so two runs writing at once wait for each other
-instead of failing; PostgreSQL does the same with its own transactions.  Every error leaves as
+SQLite files are opened in WAL mode with a busy timeout, and every SQLite transaction that writes
+begins ``IMMEDIATE`` (it takes the write lock at once), so two runs writing at once wait for
+each other instead of failing; PostgreSQL does the same with its own transactions.  Every error leaves as
 a :class:`~audit.history.target.HistoryError` whose text has the password taken out.
 """
 
@@ -34,6 +34,8 @@ class History:
 
     def __init__(self, target: Target, engine):
         self.target, self.engine = target, engine
+        #: the same engine, for transactions that write (SQLite: BEGIN IMMEDIATE)
+        self.writer = engine.execution_options(lagaudit_writes=True)
 
     @property
     def label(self) -> str:
@@ -90,10 +92,8 @@ class History:
             frame = pd.DataFrame(conn.execute(query).mappings().all(), columns=list(a.c.keys()))
             files = pd.DataFrame(conn.execute(select(r).order_by(r.c.audit_id, r.c.position))
                                  .mappings().all(), columns=list(r.c.keys()))
-        listed = files.groupby("audit_id").apply(
-            lambda g: "; ".join(f"{Path(x).name} {s}" for x, s in zip(g["file"], g["sha256"])),
-            include_groups=False) if len(files) else pd.Series(dtype=object)
-        frame["registers"] = frame["id"].map(listed).fillna("")
+        files["text"] = [f"{Path(x).name} {s}" for x, s in zip(files["file"], files["sha256"])]
+        frame["registers"] = frame["id"].map(files.groupby("audit_id")["text"].agg("; ".join)).fillna("")
         return frame
 
     def findings_by_check(self, plant: str) -> pd.DataFrame:
@@ -123,7 +123,7 @@ class History:
         """Write one audit in one transaction; its id.  ``audit``: the ``audits`` row without
         ``id``; ``registers``: ``[{file, sha256}]``; ``items``/``findings``: their table's
         columns without ``audit_id``."""
-        with self._errors("write"), self.engine.begin() as conn:
+        with self._errors("write"), self.writer.begin() as conn:
             audit_id = conn.execute(insert(schema.audits).values(**audit)).inserted_primary_key[0]
             files = pd.DataFrame(registers, columns=["file", "sha256"])
             files.insert(0, "position", range(len(files)))
@@ -146,7 +146,7 @@ class History:
                                expected="a lagaudit history database that can be reached") from None
 
     def _ensure_schema(self, create: bool) -> None:
-        with self.engine.begin() as conn:
+        with (self.writer if create else self.engine).begin() as conn:
             if not self.target.is_sqlite:  # SQLite's BEGIN IMMEDIATE already serialises this
                 conn.execute(text("SELECT pg_advisory_xact_lock(:key)"), {"key": _SCHEMA_LOCK})
             names = set(inspect(conn).get_table_names())
@@ -200,7 +200,10 @@ def _engine(target: Target):
 
     @event.listens_for(engine, "begin")
     def _on_begin(connection):
-        connection.exec_driver_sql("BEGIN IMMEDIATE")
+        # A writer takes the write lock at once (and waits for another's); a reader does not,
+        # so a history on a read-only share can still be listed.
+        immediate = connection.get_execution_options().get("lagaudit_writes", False)
+        connection.exec_driver_sql("BEGIN IMMEDIATE" if immediate else "BEGIN")
 
     return engine
 
