@@ -5,23 +5,13 @@ with ``.ci/postgres`` and sets it); each test gets a database of its own, droppe
 Without the variable the PostgreSQL cases skip, except under ``CI=true``, where they fail.
 """
 
-import os
 import uuid
 
 import psycopg
 import pytest
 from sqlalchemy.engine import make_url
 
-PG_ENV = "LAGAUDIT_TEST_POSTGRES_URL"
-
-
-def postgres_url() -> str:
-    url = os.environ.get(PG_ENV)
-    if not url:
-        if os.environ.get("CI") == "true":
-            pytest.fail(f"CI=true but {PG_ENV} is not set: .ci/run starts a PostgreSQL cluster for these tests")
-        pytest.skip(f"{PG_ENV} is not set (start a server with: .ci/postgres start DIR)")
-    return url
+from postgres_server import postgres_url
 
 
 @pytest.fixture

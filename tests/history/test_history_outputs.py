@@ -5,10 +5,11 @@ import importlib.util
 import re
 from pathlib import Path
 
+import pandas as pd
 import pypdf
 import pytest
 
-from audit.cautions import CAUTION
+from audit.cli import main
 from audit.history import History
 from audit.history.run import compare_audit, record_run
 from audit.pipeline import audit_register
@@ -62,29 +63,33 @@ def test_no_history_no_section(tmp_path):
 
 
 @pytest.fixture(scope="module")
-def demo_surveys(tmp_path_factory):
-    """The demo plant audited twice into one history: both audits, the second compared."""
+def demo_runs(tmp_path_factory):
+    """``lagaudit demo`` twice into one history: the first survey, then the second."""
     folder = tmp_path_factory.mktemp("demo")
     db = str(folder / "demo.db")
-    first = compare_audit(History.open(db), audit_register(
-        [DATA / "demo_line_list.xlsx", DATA / "demo_equipment.xlsx"]), plant="Quarvel Point Works")
-    record_run(History.open(db), first, [DATA / "demo_line_list.xlsx"], folder, surface_model="correlations")
-    second = compare_audit(History.open(db), audit_register(
-        [DATA / "demo_line_list_resurvey.xlsx", DATA / "demo_equipment_resurvey.xlsx"]),
-        plant="Quarvel Point Works")
-    return first, second
+    for name, extra in (("first", []), ("second", ["--second-survey"])):
+        assert main(["demo", "--history", db, "--out", str(folder / name), "--format", "csv,html",
+                     "-q", *extra]) == 0
+    return folder, db
 
 
-def test_demo_second_survey_shows_every_word(demo_surveys):
-    first, second = demo_surveys
-    counts = second.history.counts()
-    for word in ("new", "recurring", "worsened", "improved", "cleared", "item-not-in-register"):
-        assert counts[word] > 0, word
-    removed = set(first.results["tag"]) - set(second.results["tag"])
-    assert len(removed) == 1  # one line taken out of the register
-    gone = second.history.closed
-    assert set(gone.loc[gone["why"] == "item-not-in-register", "tag"]) == removed
-    assert len(second.results) == len(first.results) - 1
+def test_demo_second_survey_shows_every_word_and_the_trend(demo_runs):
+    folder, db = demo_runs
+    words = pd.read_csv(folder / "second" / "findings.csv")["since_last"].value_counts()
+    why = pd.read_csv(folder / "second" / "closed.csv")["why"].value_counts()
+    for word in ("new", "recurring", "worsened", "improved"):
+        assert words.get(word, 0) > 0, word
+    for word in ("cleared", "item-not-in-register"):
+        assert why.get(word, 0) > 0, word
+    first = pd.read_csv(folder / "first" / "results.csv")
+    second = pd.read_csv(folder / "second" / "results.csv")
+    removed = set(first["tag"]) - set(second["tag"])
+    assert len(removed) == 1 and len(second) == len(first) - 1  # one line taken out of the register
+    closed = pd.read_csv(folder / "second" / "closed.csv")
+    assert set(closed.loc[closed["why"] == "item-not-in-register", "tag"]) == removed
+    html = (folder / "second" / "report.html").read_text(encoding="utf-8")
+    assert "Since the last audit" in html and "Trend across 2 audits" in html
+    assert list(History.open(db, create=False).audits()["plant"]) == ["Quarvel Point Works"] * 2
 
 
 def test_resurvey_generator_reproduces_the_files(tmp_path):

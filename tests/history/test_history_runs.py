@@ -323,3 +323,16 @@ def test_a_path_in_a_missing_folder_or_a_folder(tmp_path):
         History.open(str(tmp_path / "missing" / "h.db"))
     with pytest.raises(HistoryError, match="is a folder"):
         History.open(str(tmp_path))
+
+
+# --- the PostgreSQL fixture itself -------------------------------------------------------------
+
+def test_without_a_server_postgres_cases_skip_outside_ci_and_fail_in_ci(monkeypatch):
+    from postgres_server import PG_ENV, postgres_url
+    monkeypatch.delenv(PG_ENV, raising=False)
+    monkeypatch.delenv("CI", raising=False)
+    with pytest.raises(pytest.skip.Exception, match=PG_ENV):
+        postgres_url()
+    monkeypatch.setenv("CI", "true")
+    with pytest.raises(pytest.fail.Exception, match="CI=true"):
+        postgres_url()
