@@ -63,6 +63,11 @@ def _of_each_audit(name: str, number: str, *columns) -> Table:
                  Column(number, Integer, primary_key=True, autoincrement=False), *columns)
 
 
+def _tag() -> tuple[Column, Column]:
+    """The item's tag as read, and as compared between audits (``audit.history.compare.tag_key``)."""
+    return Column("tag", Text, nullable=False), Column("tag_key", Text, nullable=False)
+
+
 registers = _of_each_audit(
     "audit_registers", "position",
     Column("file", Text, nullable=False),
@@ -71,9 +76,7 @@ registers = _of_each_audit(
 
 #: Per item: the recognised inputs and the results, at the item's own conditions.
 items = _of_each_audit(
-    "items", "row",
-    Column("tag", Text, nullable=False),
-    Column("tag_key", Text, nullable=False),
+    "items", "row", *_tag(),
     Column("source", Text, nullable=False),
     Column("status", String(16), nullable=False),
     Column("reason", Text),
@@ -106,9 +109,7 @@ items = _of_each_audit(
 
 findings = _of_each_audit(
     "findings", "seq",
-    Column("row", Integer, nullable=False),
-    Column("tag", Text, nullable=False),
-    Column("tag_key", Text, nullable=False),
+    Column("row", Integer, nullable=False), *_tag(),
     Column("check", String(100), nullable=False),
     Column("kind", String(100), nullable=False),
     Column("severity", String(16), nullable=False),
