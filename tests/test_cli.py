@@ -153,3 +153,19 @@ def test_run_reads_the_surroundings_column(tmp_path):
     results = pd.read_csv(out / "results.csv", keep_default_na=False)
     assert list(results["surroundings_temp [degC]"]) == pytest.approx([20.0, -20.0])
     assert results["heat_loss [W]"][1] > results["heat_loss [W]"][0]
+
+
+def test_findings_say_which_surroundings_the_check_judged_under(tmp_path):
+    # The touch check's scenario (hot-still-day) has no surroundings of its own: its air
+    # temperature; a row's own surroundings win over it, as every row value.
+    path = tmp_path / "sur.csv"
+    path.write_text("tag,nps,length,temp,insulation,material,accessible,surroundings\n"
+                    "OWN,4,10,150,none,carbon-steel,yes,-5\n"
+                    "SITE,4,10,150,none,carbon-steel,yes,\n", encoding="utf-8")
+    out = tmp_path / "out"
+    assert main(["run", str(path), "--out", str(out), "--format", "csv"]) == 0
+    findings = pd.read_csv(out / "findings.csv", keep_default_na=False)
+    touch = findings[findings["check"] == "touch-temperature"].set_index("tag")
+    assert touch.loc["OWN", "surroundings_temp [degC]"] == pytest.approx(-5.0)
+    assert touch.loc["SITE", "surroundings_temp [degC]"] == pytest.approx(
+        touch.loc["SITE", "air_temp [degC]"])
