@@ -10,7 +10,6 @@ on a pipe) is not a rejection: it is ignored with a warning.
 from __future__ import annotations
 
 import math
-import re
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -57,7 +56,20 @@ UNIT_TARGETS = {**{c: (q[0], q[1]) for c, q in QUANTITIES.items()},
                 "temp": ("degC", "kelvin"), "thickness": ("mm", "m"), "layers": ("mm", "m")}
 NUMERIC = frozenset({*QUANTITIES, "nps", "temp", "thickness", "layers", "jacket", "valves",
                      "flanges"})
-_PER_YEAR = re.compile(r"\s*/\s*(?:yr|year|a|annum)\s*$", re.IGNORECASE)
+_PER_YEAR = ("yr", "year", "a", "annum")
+
+
+def _per_year_stripped(text: str) -> str:
+    """``"8000 h/yr"`` -> ``"8000 h"``: a trailing ``/yr``, ``/year``, ``/a`` or ``/annum``
+    taken off (found by its end, not by a pattern searched from every position)."""
+    trimmed = text.rstrip()
+    lower = trimmed.lower()
+    for word in _PER_YEAR:
+        if lower.endswith(word):
+            head = trimmed[:-len(word)].rstrip()
+            if head.endswith("/"):
+                return head[:-1].rstrip()
+    return text
 
 ITEM_COLUMNS = (
     "tag", "source", "status", "reason", "warnings", "shape", "od_m", "nps", "length_m",
@@ -100,7 +112,7 @@ def _check_header_units(raw: RawSheet, header_map: HeaderMap) -> None:
         if column not in UNIT_TARGETS:
             continue
         if column == "hours":
-            unit = _PER_YEAR.sub("", unit) or "h"
+            unit = _per_year_stripped(unit) or "h"
         try:
             parse_quantity(f"1 {unit}", unit, UNIT_TARGETS[column][1])
         except UnitParseError as exc:
@@ -198,8 +210,8 @@ def _quantity(column: Column, notes: RowNotes, applies, info: SheetInfo,
     default, target, what, low, high, low_open = QUANTITIES[column.name]
     unit = column.unit or default
     if column.name == "hours":
-        unit = _PER_YEAR.sub("", unit) or "h"
-        answers = column.parse(lambda t: cells.quantity(_PER_YEAR.sub("", t), unit, target,
+        unit = _per_year_stripped(unit) or "h"
+        answers = column.parse(lambda t: cells.quantity(_per_year_stripped(t), unit, target,
                                                         what, low, high, low_open),
                                empty=(math.nan, None))
     else:
