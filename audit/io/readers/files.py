@@ -174,7 +174,7 @@ def _refuse_unclosed_quotes(path: Path, data: pd.DataFrame, header: list[str], l
     separators = max(1, len(header) - 1)
     for position in range(data.shape[1]):
         cells = data[position].astype(str)
-        broken = cells.str.contains("\n", regex=False).to_numpy()
+        broken = cells.str.contains("\n", regex=False).to_numpy().copy()
         if not broken.any():
             continue
         if position not in recognised:

@@ -199,13 +199,21 @@ def sheet_extent(archive: zipfile.ZipFile, name: str, lengths: array,
     before = expanded[0]
     try:
         extent = _fast_extent(archive, name, np.frombuffer(lengths, dtype=np.int64), expanded)
-        _check_area(extent)
-        return extent
+        if extent.area <= _area_limit(extent):
+            return extent
     except _NotSimple:
-        expanded[0] = before
-        extent = _exact_extent(archive, name, lengths, expanded)
-        _check_area(extent)
-        return extent
+        pass
+    expanded[0] = before
+    extent = _exact_extent(archive, name, lengths, expanded)
+    if extent.area > _area_limit(extent):
+        first = cell_name(extent.first_row, extent.first_column)
+        last = cell_name(extent.last_row, extent.last_column)
+        raise WorkbookProblem(
+            f"its cells with a value span {first}:{last} ({extent.area:,} cells) for "
+            f"{extent.cells:,} values, above the limit of {_area_limit(extent):,} cells",
+            "a sheet whose values sit together: delete the stray cells far from the register "
+            "and save it again")
+    return extent
 
 
 def _fast_extent(archive, name, lengths: np.ndarray, expanded: list[int]) -> SheetExtent:
@@ -269,16 +277,8 @@ def _count_shared_many(indices: list[bytes], lengths: np.ndarray, expanded: list
                               "a smaller register (or fewer repeated long texts)")
 
 
-def _check_area(extent: SheetExtent) -> None:
-    limit = max(MIN_AREA, AREA_PER_CELL * extent.cells)
-    if extent.area > limit:
-        first = cell_name(extent.first_row, extent.first_column)
-        last = cell_name(extent.last_row, extent.last_column)
-        raise WorkbookProblem(
-            f"its cells with a value span {first}:{last} ({extent.area:,} cells) for "
-            f"{extent.cells:,} values, above the limit of {limit:,} cells",
-            "a sheet whose values sit together: delete the stray cells far from the register "
-            "and save it again")
+def _area_limit(extent: SheetExtent) -> int:
+    return max(MIN_AREA, AREA_PER_CELL * extent.cells)
 
 
 def _exact_extent(archive, name, lengths: array, expanded: list[int]) -> SheetExtent:
