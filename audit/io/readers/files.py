@@ -43,6 +43,9 @@ XLSX_SUFFIXES = frozenset({".xlsx", ".xlsm"})
 _DELIMITERS = (",", ";", "\t", "|")
 _DECIMAL_COMMA = re.compile(r"[-+]?\d+,\d+\s*[a-z°\"]*", re.IGNORECASE)  # fullmatch, stripped
 _DECIMAL_COMMA_SAMPLE = 1000  # distinct texts per column looked at
+# encoding name -> (codec, bytes of byte-order mark); the body of such a file is handed to the
+# CSV parser as bytes (its text would take up to four bytes a character in a text buffer)
+_CODECS = {"UTF-8": ("utf-8", 0), "UTF-8 with BOM": ("utf-8", 3), "Windows-1252": ("cp1252", 0)}
 
 
 def read_raw(path, sheets, lookup: Lookup) -> tuple[list[RawSheet], list[str]]:
@@ -86,6 +89,7 @@ def read_raw(path, sheets, lookup: Lookup) -> tuple[list[RawSheet], list[str]]:
 
 
 def _decode(path: Path, raw: bytes) -> tuple[str, str]:
+    """``(text, encoding name)``; the name is a key of ``_CODECS``."""
     if raw.startswith(ZIP_MAGIC):
         raise refuse(path, "this is a zip container (a workbook?), not a CSV text file",
                      "a .csv text file, or the workbook renamed to .xlsx")
@@ -114,7 +118,8 @@ def _decode(path: Path, raw: bytes) -> tuple[str, str]:
 
 
 def _read_csv(path: Path, lookup: Lookup) -> RawSheet:
-    text, encoding = _decode(path, path.read_bytes())
+    raw = path.read_bytes()
+    text, encoding = _decode(path, raw)
     if not text.strip():
         raise refuse(path, "the file is empty", "a header row and at least one data row")
     # For finding the header only: a lone carriage return inside a quoted cell (valid CSV)
@@ -140,11 +145,15 @@ def _read_csv(path: Path, lookup: Lookup) -> RawSheet:
     while text.startswith("\n", body_start) or text.startswith("\r\n", body_start):
         body_start = text.index("\n", body_start) + 1
         blank_lines += 1
-    body = text[body_start:]
-    del text
+    if encoding in _CODECS:
+        codec, mark = _CODECS[encoding]
+        body = raw[mark + len(text[:body_start].encode(codec, errors="replace")):]
+    else:
+        codec, body = None, text[body_start:]
+    del text, raw
     first_line = header_index + 2 + blank_lines  # 1-based line number of the body's first line
-    data = _csv_body(path, body, delimiter, header, first_line)
-    if '"' in body:  # without a quote no cell can hold a line break
+    data = _csv_body(path, body, codec, delimiter, header, first_line)
+    if ('"' if codec is None else b'"') in body:  # without a quote no cell can hold a line break
         _refuse_unclosed_quotes(path, data, header, lookup, delimiter, first_line)
     del body
     if blank_lines and data.shape[1]:
@@ -228,16 +237,21 @@ def _head_end(text: str) -> int:
     return _line_start(text, HEADER_SEARCH_ROWS)
 
 
-def _csv_body(path: Path, body: str, delimiter: str, header: list[str],
+def _csv_body(path: Path, body, codec: str | None, delimiter: str, header: list[str],
               first_line: int) -> pd.DataFrame:
+    """The data rows: ``body`` is bytes in ``codec``, or text when ``codec`` is None."""
     if not body.strip():
         return pd.DataFrame(dtype=object)
     options = dict(sep=delimiter, header=None, dtype=object, keep_default_na=False,
                    na_filter=False, skip_blank_lines=False, quotechar='"')
+    source = io.StringIO(body) if codec is None else io.BytesIO(body)
+    if codec is not None:
+        options.update(encoding=codec, encoding_errors="replace")
     try:
-        return pd.read_csv(io.StringIO(body), engine="c", **options)
+        return pd.read_csv(source, engine="c", **options)
     except pd.errors.ParserError as exc:
-        rows = list(csv.reader(io.StringIO(body), delimiter=delimiter))
+        text = body if codec is None else body.decode(codec, errors="replace")
+        rows = list(csv.reader(io.StringIO(text), delimiter=delimiter))
         width = max((len(r) for r in rows), default=0)
         data = pd.DataFrame([r + [""] * (width - len(r)) for r in rows], dtype=object)
         if "EOF inside string" in str(exc):  # the last record holds the rest of the file

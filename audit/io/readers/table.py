@@ -159,7 +159,7 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     _geometry(col, shape, sized, lengthy, flat, notes, out, info)
     _orientation(col, shape, vessel, flat, notes, out)
     heads = _choice(col["heads"], HEADS, _HEADS_SYNONYMS, "", notes, vessel)
-    out["heads"] = np.where(heads != "", heads, np.where(vessel, "ellipsoidal", "none"))
+    out["heads"] = np.where(heads != "", heads, _words(vessel, "ellipsoidal", "none"))
     _temperature(col["temp"], notes, out, info)
     condition = _choice(col["condition"], CONDITIONS, _CONDITION_SYNONYMS, "intact", notes,
                         everyone)
@@ -187,7 +187,7 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     notes.warning[blank] = ""
     out["source"] = np.char.add(f"{raw.file}:{raw.sheet}:",
                                 raw.row_numbers.astype(str)).astype(object)
-    out["status"] = np.where(notes.reason == "", "ok", "rejected")
+    out["status"] = _words(notes.reason == "", "ok", "rejected")
     out["reason"], out["warnings"] = notes.reason, notes.warning
     table = pd.DataFrame({c: out[c] for c in ITEM_COLUMNS})
     for c in STRING_COLUMNS:
@@ -196,6 +196,12 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
         table[f"raw:{c}"] = data[position].astype("str").to_numpy()
     table = _extras(table, data, header_map, info)
     return table, info
+
+
+def _words(mask: np.ndarray, yes: str, no: str) -> np.ndarray:
+    """``yes`` where ``mask``, else ``no``, as an object array sharing the two strings (a
+    fixed-width text array would become one new string per row of a million-row register)."""
+    return np.array([no, yes], dtype=object)[mask.astype(np.intp)]
 
 
 def _choice(column: Column, allowed, synonyms, default, notes: RowNotes, applies) -> np.ndarray:
@@ -275,7 +281,7 @@ def _orientation(col, shape, vessel, flat, notes: RowNotes, out) -> None:
                            empty=("", None))
     given = column.spread(answers, 0)
     notes.reject(np.ones(len(shape), dtype=bool), column.messages([a[1] for a in answers]))
-    by_shape = np.where(shape == "vertical-vessel", "vertical", "horizontal")
+    by_shape = _words(shape == "vertical-vessel", "vertical", "horizontal")
     contradicts = vessel & (given != "") & (given != by_shape)
     messages = np.full(len(shape), "", dtype=object)
     messages[contradicts] = [f'orientation: "{g}" contradicts shape {s}; expected {b} or empty'
@@ -288,7 +294,7 @@ def _orientation(col, shape, vessel, flat, notes: RowNotes, out) -> None:
                  "orientation: \"horizontal\" is ambiguous for a flat item; expected vertical, "
                  "up (hot face below, heat rising) or down")
     notes.warn(flat & (given == ""), "orientation: empty for a flat item; vertical assumed")
-    default = np.where(flat, "vertical", by_shape)
+    default = np.where(flat, _words(flat, "vertical", ""), by_shape)
     out["orientation"] = np.where(given != "", given, default)
 
 
