@@ -84,15 +84,14 @@ def _check_zip(path: Path) -> None:
 
 def _scan_sheets(path: Path, archive: zipfile.ZipFile, names: list[str]) -> None:
     """Refuse the workbook when a worksheet passes a limit of :mod:`xlsx_scan`."""
-    shared = [n for n in names if n.lower().startswith("xl/") and
-              n.lower().rsplit("/", 1)[-1].startswith("sharedstrings") and n.lower().endswith(".xml")]
+    shared = [n for n in names if xlsx_scan.scanned(n) and not n.startswith("xl/worksheets/")]
     part = shared[0] if shared else None
     try:
         lengths = xlsx_scan.shared_string_lengths(archive, part) if part else \
             xlsx_scan.array("q")
         expanded = [0]
         for part in names:
-            if part.startswith("xl/worksheets/") and part.endswith(".xml"):
+            if xlsx_scan.scanned(part) and part.startswith("xl/worksheets/"):
                 xlsx_scan.sheet_extent(archive, part, lengths, expanded)
     except xlsx_scan.WorkbookProblem as exc:
         raise refuse(path, f"part {part}: {exc.problem}", exc.expected) from exc
@@ -108,8 +107,9 @@ def _check_part(path: Path, archive: zipfile.ZipFile, info: zipfile.ZipInfo) -> 
                 raise refuse(path, f"worksheet part {info.filename} declares "
                              f"{int(match.group(1))} rows, above the limit of {MAX_ROWS}",
                              "a register split into files of at most that many rows")
-        while part.read(_CHUNK):
-            pass
+        if not xlsx_scan.scanned(info.filename):  # the scan reads those to their end
+            while part.read(_CHUNK):
+                pass
 
 
 def _cell_text(value) -> str:

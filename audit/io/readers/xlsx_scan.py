@@ -25,6 +25,7 @@ from __future__ import annotations
 
 import re
 import zipfile
+from operator import itemgetter
 from array import array
 from dataclasses import dataclass
 from xml.parsers import expat
@@ -80,6 +81,15 @@ class SheetExtent:
         if not self.cells:
             return 0
         return (self.last_row - self.first_row + 1) * (self.last_column - self.first_column + 1)
+
+
+def scanned(part: str) -> bool:
+    """Whether the part is one this module reads to its end: a worksheet or the shared
+    strings (which the zip's CRC check then covers too)."""
+    lower = part.lower()
+    return lower.endswith(".xml") and (
+        part.startswith("xl/worksheets/") and "/_rels/" not in part
+        or lower.startswith("xl/") and lower.rsplit("/", 1)[-1].startswith("sharedstrings"))
 
 
 def _local(name: str) -> str:
@@ -227,7 +237,7 @@ def _fast_extent(archive, name, lengths: np.ndarray, expanded: list[int]) -> She
             cells = _CELL.findall(piece)
             if _prefixed(piece, b"c"):
                 raise _NotSimple
-            indices = [index for _, _, index in cells if index]
+            indices = list(filter(None, map(itemgetter(2), cells)))
             # every attribute valued s, however written, must be the t="s" of a cell read here
             if len(indices) != piece.count(b'"s"') + piece.count(b"'s'"):
                 raise _NotSimple
@@ -236,10 +246,10 @@ def _fast_extent(archive, name, lengths: np.ndarray, expanded: list[int]) -> She
                 raise WorkbookProblem(f"more than {MAX_MERGED_RANGES} merged ranges",
                                       "a sheet with fewer merged cells; unmerge them")
             if cells:
-                letters = {column for column, _, _ in cells}
+                letters = set(map(itemgetter(0), cells))
                 if b"" in letters:  # a cell start tag in another form
                     raise _NotSimple
-                rows = np.array([row for _, row, _ in cells], dtype="S7").astype(np.int64) - 1
+                rows = np.array(list(map(itemgetter(1), cells)), dtype="S7").astype(np.int64) - 1
                 numbers = [_column_number(x.decode()) for x in letters]
                 _extend_many(extent, np.array([rows.min(), rows.max()]),
                              np.array([min(numbers), max(numbers)]), len(cells))
