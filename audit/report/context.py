@@ -94,6 +94,7 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "rejected": _rejected(results, max_rows),
         "assumptions": _assumptions(audit, meta, economics),
         "economics": _economics(audit, area, economics, max_rows),
+        "since_last": _since_last(audit, max_rows),
     }
     context["charts"] = {
         "pareto": charts.cost_pareto(results["tag"].to_numpy(object),
@@ -103,6 +104,15 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "areas": charts.findings_by_area(_area_severity_counts(findings), severities),
     }
     return context
+
+
+def _since_last(audit, max_rows: int) -> dict | None:
+    """The "Since the last audit" section, when the audit was compared with its history."""
+    if getattr(audit, "history", None) is None:
+        return None
+    from audit.history.section import since_last_section
+
+    return since_last_section(audit.history, audit, max_rows=max_rows)
 
 
 def _meta(audit, meta: dict) -> dict:

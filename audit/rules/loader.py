@@ -105,6 +105,8 @@ _TOP_LEVEL = set(SCHEMA) | {"alias", "defaults", "check", "thicknesses", "econom
 _CHECK_KEYS = {"kind", "enabled", "site", "applies_to", "severity", "source", "description"}
 #: [defaults] key -> the section its value names
 _DEFAULT_KEYS = {"site": "site", "jacket": "jacket", "metal": "metal"}
+#: [defaults] keys whose value is free text: the plant's name, under which --history records
+_DEFAULT_TEXT_KEYS = {"plant"}
 
 
 def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> Rules:
@@ -175,11 +177,12 @@ def _read_file(path: Path, collected, aliases, defaults) -> None:
                 aliases[column].extend(n for n in names if n not in aliases[column])
         elif section == "defaults":
             for key, value in body.items():
-                if key not in _DEFAULT_KEYS or not isinstance(value, str):
+                if key not in _DEFAULT_KEYS.keys() | _DEFAULT_TEXT_KEYS or not isinstance(value, str):
                     problems.append(Problem(f"unknown or invalid key defaults.{key}", file=str(path),
                                             column=f"defaults.{key}", value=value,
-                                            expected=", ".join(f'{k} = "<name of a [{v}.NAME]>"'
-                                                               for k, v in _DEFAULT_KEYS.items())))
+                                            expected=", ".join([f'{k} = "<name of a [{v}.NAME]>"'
+                                                                for k, v in _DEFAULT_KEYS.items()]
+                                                               + ['plant = "<plant name>"'])))
                 else:
                     defaults[key] = value
         elif section == "thicknesses":

@@ -304,3 +304,29 @@ def test_items_are_shared_only_when_every_input_they_use_agrees(field, value, sa
     np.testing.assert_array_equal(states.heat_loss[:20], alone[0].heat_loss[0])
     np.testing.assert_array_equal(states.heat_loss[20:], alone[1].heat_loss[0])
     assert (alone[0].heat_loss[0] == alone[1].heat_loss[0]) == same
+
+
+def test_solving_at_several_thicknesses_is_solving_at_each():
+    # solve_items_at_thicknesses groups the items once for every thickness (they all get the
+    # same one); each answer must be, bit for bit, solve_items of the batch at that thickness.
+    batch = random_batch(29, 400)
+    pick = np.random.default_rng(6).integers(0, 400, 2000)  # repeats, so that items share
+    one = ItemBatch(**{name: (None if value is None else np.asarray(value)[pick])
+                       for name, value in vars(batch).items()})
+    one.layer_table = np.asarray(batch.layer_table)[pick, :1].clip(0)
+    one.layer_thickness = np.zeros((2000, 1))
+    one.layer_factor = np.ones((2000, 1))
+    thicknesses = [0.02, 0.05, 0.1]
+    got = list(items.solve_items_at_thicknesses(one, TABLES, thicknesses))
+    assert len(got) == 3
+    assert items.shared_items(one) is not None  # the grouping is really used
+    for thickness, states in zip(thicknesses, got):
+        at = ItemBatch(**vars(one))
+        at.layer_thickness = np.full((2000, 1), thickness)
+        alone = solve_items(at, TABLES)
+        for name, value in vars(alone).items():
+            np.testing.assert_array_equal(getattr(states, name), value, err_msg=name)
+    # Thicker is cooler, for the hot items (a check that the thickness really changed).
+    hot = got[0].converged & (one.t_process > one.t_air + 50) & (one.bare_fraction == 0) \
+        & (one.fitting_length == 0)
+    assert (np.abs(got[2].heat_loss[hot]) < np.abs(got[0].heat_loss[hot])).all()
