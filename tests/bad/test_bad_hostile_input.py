@@ -471,3 +471,21 @@ def test_a_sheet_or_a_file_named_twice_is_read_once(tmp_path):
     path = workbook(tmp_path / "twice.xlsx", register_rows())
     table = read_register([path, path], sheets=["Lines", "Lines"])
     assert list(table["source"]) == ["twice.xlsx:Lines:2"]
+
+
+def test_a_worksheet_stored_outside_the_worksheets_folder_is_scanned_too(tmp_path):
+    # The reader follows the workbook's relationships: a sheet part may be stored anywhere.
+    stray = '<row r="1048576"><c r="XFD1048576"><v>1</v></c></row>'
+    moved = tmp_path / "moved.xlsx"
+    with zipfile.ZipFile(workbook(tmp_path / "plain.xlsx", register_rows(extra=stray))) as old, \
+            zipfile.ZipFile(moved, "w", zipfile.ZIP_DEFLATED) as new:
+        for info in old.infolist():
+            data = old.read(info)
+            if info.filename == "xl/_rels/workbook.xml.rels":
+                data = data.replace(b"worksheets/sheet1.xml", b"elsewhere/data.xml")
+            name = "xl/elsewhere/data.xml" if info.filename == "xl/worksheets/sheet1.xml" \
+                else info.filename
+            new.writestr(name, data)
+    done = run_isolated("run", moved, "--out", tmp_path / "out")
+    assert done.returncode == 2, done.stderr
+    assert "part xl/elsewhere/data.xml: its cells with a value span A1:XFD1048576" in done.stderr

@@ -84,15 +84,14 @@ def _check_zip(path: Path) -> None:
 
 def _scan_sheets(path: Path, archive: zipfile.ZipFile, names: list[str]) -> None:
     """Refuse the workbook when a worksheet passes a limit of :mod:`xlsx_scan`."""
-    shared = [n for n in names if xlsx_scan.scanned(n) and not n.startswith("xl/worksheets/")]
-    part = shared[0] if shared else None
+    part = "xl/_rels/workbook.xml.rels"
     try:
+        part, sheets = xlsx_scan.parts_to_scan(archive, names)
         lengths = xlsx_scan.shared_string_lengths(archive, part) if part else \
             xlsx_scan.array("q")
         expanded = [0]
-        for part in names:
-            if xlsx_scan.scanned(part) and part.startswith("xl/worksheets/"):
-                xlsx_scan.sheet_extent(archive, part, lengths, expanded)
+        for part in sheets:
+            xlsx_scan.sheet_extent(archive, part, lengths, expanded)
     except xlsx_scan.WorkbookProblem as exc:
         raise refuse(path, f"part {part}: {exc.problem}", exc.expected) from exc
 

@@ -23,6 +23,7 @@ cells holding a value.
 
 from __future__ import annotations
 
+import posixpath
 import re
 import zipfile
 from operator import itemgetter
@@ -90,6 +91,34 @@ def scanned(part: str) -> bool:
     return lower.endswith(".xml") and (
         part.startswith("xl/worksheets/") and "/_rels/" not in part
         or lower.startswith("xl/") and lower.rsplit("/", 1)[-1].startswith("sharedstrings"))
+
+
+_RELATIONSHIPS = "xl/_rels/workbook.xml.rels"
+
+
+def parts_to_scan(archive: zipfile.ZipFile, names: list[str]) -> tuple[str | None, list[str]]:
+    """``(shared strings part or None, worksheet parts)``: the parts under ``xl/worksheets/``
+    and those the workbook's relationships name as worksheets or shared strings, wherever they
+    are (the reader follows the relationships)."""
+    sheets = [n for n in names if scanned(n) and n.startswith("xl/worksheets/")]
+    shared = [n for n in names if scanned(n) and not n.startswith("xl/worksheets/")]
+    if _RELATIONSHIPS in names:
+        found = []
+
+        def start(tag, attributes):
+            if _local(tag) == "Relationship":
+                found.append((attributes.get("Type", ""), attributes.get("Target", "")))
+        with archive.open(_RELATIONSHIPS) as part:
+            _feed(_parser(start), part)
+        for kind, target in found:
+            target = target[1:] if target.startswith("/") else posixpath.normpath("xl/" + target)
+            if target not in names:
+                continue
+            if kind.endswith("/worksheet") and target not in sheets:
+                sheets.append(target)
+            elif kind.endswith("/sharedStrings"):
+                shared.insert(0, target)
+    return (shared[0] if shared else None), sheets
 
 
 def _local(name: str) -> str:
