@@ -489,3 +489,10 @@ def test_a_worksheet_stored_outside_the_worksheets_folder_is_scanned_too(tmp_pat
     done = run_isolated("run", moved, "--out", tmp_path / "out")
     assert done.returncode == 2, done.stderr
     assert "part xl/elsewhere/data.xml: its cells with a value span A1:XFD1048576" in done.stderr
+
+
+def test_a_shared_string_cell_with_a_second_value(refused, tmp_path):
+    # The reader takes a cell's last value: a bad index hidden behind a good one is refused too.
+    bad = '<row r="3"><c r="A3" t="s"><v>0</v><v>-1</v></c><c r="D3"><v>1</v></c></row>'
+    err = refused(workbook(tmp_path / "two.xlsx", register_rows(extra=bad), strings=["HW-3"]))
+    assert "cell A3: shared-string index '-1' is not one of the workbook's 1 shared strings" in err

@@ -42,9 +42,10 @@ _FAST_CHUNK = 16 << 20     # bytes of a part read at a time by the fast path
 _FAST_CARRY = 64 << 20     # a row longer than this sends the part to the exact path
 _REFERENCE = re.compile(r"([A-Z]{1,3})([0-9]{1,7})")
 # A cell start tag: in the canonical form (reference first, then for a shared-string cell its
-# style, type and index), or any other form, which sends the part to the exact path.
+# style, type and index, the cell's one value), or any other form, which sends the part to the
+# exact path (so does a shared-string cell with a second value: the reader takes the last).
 _CELL = re.compile(rb'<c(?: r="([A-Z]{1,3})([0-9]{1,7})"(?:(?: s="[0-9]{1,6}")? t="s"'
-                   rb'(?: s="[0-9]{1,6}")?><v>([0-9]{1,10})</v>)?|[\s/>])')
+                   rb'(?: s="[0-9]{1,6}")?><v>([0-9]{1,10})</v></c>)?|[\s/>])')
 _SIMPLE_SI = re.compile(rb'<si><t(?: xml:space="preserve")?>([^<]*)</t></si>')
 _ENDS = (b" ", b"\t", b"\n", b"\r", b">", b"/")
 
