@@ -156,7 +156,7 @@ def _tokenise(text: str) -> list[tuple[str, str]]:
     while pos < end:
         match = _TOKEN.match(text, pos)
         if not match or match.end() == pos:
-            raise SelectorError(f"cannot read {text[pos:]!r} at character {pos + 1}")
+            raise SelectorError(f"cannot read {_shown(text[pos:])!r} at character {pos + 1}")
         kind = match.lastgroup
         value = match.group(kind)
         tokens.append(("str" if kind in ("sq", "dq") else kind, value))
@@ -180,8 +180,8 @@ class _Parser:
     def fail(self, expected):
         kind, value = self.peek()
         found = "the end" if kind is None else repr(value)
-        raise SelectorError(f"in selector {_shown(self.text)!r}: found {found} at token {self.pos + 1}; "
-                            f"expected {expected}")
+        raise SelectorError(f"in selector {_shown(self.text)!r}: found {found} at token "
+                            f"{self.pos + 1}; expected {expected}")
 
     def keyword(self, word):
         kind, value = self.peek()
