@@ -5,8 +5,12 @@ index arrays.  Names are looked up exactly as written (after the reader's normal
 lower case with hyphens): an unknown name rejects the row with a reason, never a guess.
 
 Conditions for each item: a value on the item's own row (``ambient``, ``wind``, ``rh``,
-``emissivity``) wins; else the site condition being evaluated (a check's scenario), else
-the item's ``location``, else the rules' default site.
+``surroundings``, ``emissivity``) wins; else the site condition being evaluated (a check's
+scenario), else the item's ``location``, else the rules' default site.  The surroundings an
+item radiates to: the row's ``surroundings``; else, where the row gives its own ``ambient``,
+that air temperature (the row describes a place of its own, and a site's surroundings go with
+the site's air; ``warnings`` says so where the site's differ); else the site's
+``surroundings``; else the air temperature.
 """
 
 from __future__ import annotations
@@ -110,6 +114,9 @@ def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
     if "site" in rules.defaults:
         notes.append((table["location"].fillna("") == "",
                       f'location: empty, site "{rules.defaults["site"]}" assumed (rules default)'))
+    notes.append((_own_air_hides_site_surroundings(table, rules),
+                  "surroundings: empty; the row's own ambient is used for radiation too, not "
+                  "its site's surroundings (give surroundings to say otherwise)"))
     counts = {c: pd.to_numeric(table[c], errors="coerce").fillna(0) for c in ("valves", "flanges")}
     for column, fitting in (("valves", "valve"), ("flanges", "flange")):
         has = counts[column] > 0
@@ -128,6 +135,17 @@ def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
         mask = mask.to_numpy(bool)
         old = table.loc[mask, "warnings"].fillna("")
         table.loc[mask, "warnings"] = np.where(old == "", text, old + "; " + text)
+
+
+def _own_air_hides_site_surroundings(table: pd.DataFrame, rules: Rules) -> pd.Series:
+    """Rows that give their own ``ambient`` but no ``surroundings`` while their own site gives
+    surroundings other than its air."""
+    site = table["location"].fillna("").replace("", rules.defaults.get("site", ""))
+    differs = {name: np.isfinite(s.surroundings) and s.surroundings != s.ambient
+               for name, s in rules.sites.items()}
+    return (pd.Series(np.isfinite(_given(table, "ambient_K")), index=table.index)
+            & ~np.isfinite(_given(table, "surroundings_K"))
+            & site.map(lambda name: differs.get(name, False)).astype(bool))
 
 
 def has_layers(table: pd.DataFrame) -> np.ndarray:
@@ -186,6 +204,7 @@ class PreparedItems:
     row_air: np.ndarray         #: ambient given on the row [K] (NaN: the site's)
     row_wind: np.ndarray        #: wind given on the row [m/s]
     row_rh: np.ndarray          #: relative humidity given on the row [%]
+    row_surroundings: np.ndarray  #: surroundings temperature given on the row [K]
     temp: np.ndarray            #: process temperature [K]
     at_ambient: np.ndarray      #: process temperature given as ambient
     listed_layers: np.ndarray   #: conductivity-table index per layer slot as the row lists
@@ -199,8 +218,8 @@ class PreparedItems:
     one_layer: dict = field(default_factory=dict)
     _table: pd.DataFrame | None = field(default=None, repr=False)
 
-    _ROW_ARRAYS = ("own_site", "row_air", "row_wind", "row_rh", "temp", "at_ambient",
-                   "listed_layers")
+    _ROW_ARRAYS = ("own_site", "row_air", "row_wind", "row_rh", "row_surroundings", "temp",
+                   "at_ambient", "listed_layers")
 
     def table(self) -> pd.DataFrame:
         """The item table of these rows as the trial has them (index 0, 1, ... for a subset).
@@ -478,6 +497,7 @@ def prepare_items(table: pd.DataFrame, rules: Rules, index: dict[str, int] | Non
     return PreparedItems(accepted=accepted, index=index, fixed=fixed, own_site=own_site,
                          site_names=tuple(site_names), row_air=rows["ambient_K"].to_numpy(float),
                          row_wind=rows["wind_m_s"].to_numpy(float), row_rh=rows["rh_pct"].to_numpy(float),
+                         row_surroundings=_given(rows, "surroundings_K"),
                          temp=rows["temp_K"].to_numpy(float),
                          at_ambient=rows["temp_is_ambient"].to_numpy(bool), listed_layers=listed,
                          source=table)
@@ -485,7 +505,8 @@ def prepare_items(table: pd.DataFrame, rules: Rules, index: dict[str, int] | Non
 
 def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple[ItemBatch, dict]:
     """The engine batch of the prepared rows under ``site`` (None: each row's own site), and
-    the conditions used (air, surroundings, wind, RH, process temperature, emissivity)."""
+    the conditions used (air, surroundings, wind, RH, process temperature, emissivity); the
+    surroundings as the module docstring says."""
     names, codes = ((site,), np.zeros(prepared.own_site.size, int)) if site else \
         (prepared.site_names, prepared.own_site)
     site_air, site_wind, site_rh, site_sur = (
@@ -494,7 +515,10 @@ def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple
         for a in ("ambient", "wind", "rh", "surroundings"))
     row_air = prepared.row_air
     t_air = np.where(np.isfinite(row_air), row_air, site_air)
-    t_sur = np.where(np.isfinite(row_air) | ~np.isfinite(site_sur), t_air, site_sur)
+    # The row's surroundings; else its own air where it gives one, else the site's
+    # surroundings, else the air (module docstring).
+    t_sur = np.where(np.isfinite(prepared.row_surroundings), prepared.row_surroundings,
+                     np.where(np.isfinite(row_air) | ~np.isfinite(site_sur), t_air, site_sur))
     wind = np.where(np.isfinite(prepared.row_wind), prepared.row_wind, site_wind)
     rh = np.where(np.isfinite(prepared.row_rh), prepared.row_rh, site_rh)
     t_process = np.where(prepared.at_ambient, t_air, prepared.temp)
@@ -503,6 +527,13 @@ def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple
     return batch, {"air_temp_K": t_air, "surroundings_temp_K": t_sur, "wind_m_s": wind,
                    "rh_pct": rh, "process_temp_K": t_process,
                    "emissivity_used": prepared.fixed["emissivity"]}
+
+
+def _given(rows: pd.DataFrame, column: str) -> np.ndarray:
+    """A numeric item-table column as floats; NaN (not given) for a table made without it."""
+    if column not in rows:
+        return np.full(len(rows), np.nan)
+    return rows[column].to_numpy(float)
 
 
 def _attributes(names, named: dict, attributes: tuple[str, ...]) -> dict[str, np.ndarray]:

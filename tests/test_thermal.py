@@ -6,6 +6,7 @@ import pytest
 from support import item_table
 
 from audit.engine import solve_item
+from audit.rules import load_rules
 from audit.thermal import site_batch, thermal_states
 
 C = 273.15
@@ -196,6 +197,47 @@ def test_repaired_trials_equal_a_fresh_look_up_of_the_repaired_copy(tmp_path, ru
     assert a["computed"].tolist() == [True, False, False, True, True, True]
     with pytest.raises(ValueError, match="only accepted rows"):
         prepare_items(t, rules, tables[1]).take(np.array([2]))
+
+
+def test_surroundings_column_sets_what_the_item_radiates_to(tmp_path, rules):
+    # A bare NPS 4 line at 150 C, indoors (air 20 C): its surroundings given on the row, colder
+    # and warmer than the air, change the radiation by eps sigma (Ts^4 - Tsur^4) and nothing
+    # else (the engine called directly, with the same surroundings, is the reference).
+    t = table_from(tmp_path, "tag,nps,length,temp,insulation,material,location,surroundings\n"
+                             "COLD,4,10,150,none,carbon-steel,indoor,-10\n"
+                             "WARM,4,10,150,none,carbon-steel,indoor,50 degC\n"
+                             "SITE,4,10,150,none,carbon-steel,indoor,\n", rules)
+    states = thermal_states(t, rules)
+    site = rules.sites["indoor"]
+    eps = rules.metals["carbon-steel"].emissivity
+    for row, sur in enumerate([C - 10, C + 50, site.surroundings]):
+        assert states["surroundings_temp_K"][row] == pytest.approx(sur)
+        direct = solve_item(temp=C + 150, ambient=site.ambient, od=0.1143, length=10.0,
+                            layers=[], wind=site.wind, surroundings=sur, bare_emissivity=eps)
+        assert states["heat_loss_W"][row] == pytest.approx(direct.heat_loss, rel=1e-9)
+    assert states["heat_loss_W"][0] > states["heat_loss_W"][2] > states["heat_loss_W"][1]
+
+
+def test_surroundings_follow_the_rows_own_air_unless_given(tmp_path, rules):
+    # A site with surroundings apart from its air (a room with a cold wall, invented for the
+    # test); a row that gives its own ambient radiates to that air unless it gives
+    # surroundings too, and says so in its warnings.
+    (tmp_path / "rules").mkdir()
+    (tmp_path / "rules" / "room.toml").write_text(
+        '[site.cold-wall-room]\nambient = 20\nwind = 0\nrh = 50\nsurroundings = 5\n'
+        'source = "invented for this test"\n', encoding="utf-8")
+    with_room = load_rules([tmp_path / "rules"])
+    t = table_from(tmp_path, "tag,nps,length,temp,insulation,material,location,ambient,surroundings\n"
+                             "SITE,4,10,150,none,carbon-steel,cold-wall-room,,\n"
+                             "OWN-AIR,4,10,150,none,carbon-steel,cold-wall-room,30,\n"
+                             "BOTH,4,10,150,none,carbon-steel,cold-wall-room,30,0\n", with_room)
+    states = thermal_states(t, with_room)
+    assert list(states["surroundings_temp_K"]) == pytest.approx([C + 5, C + 30, C + 0])
+    assert "surroundings: empty; the row's own ambient" in t["warnings"][1]
+    assert "surroundings" not in t["warnings"][0] and "surroundings" not in t["warnings"][2]
+    # A check's scenario keeps the row's own surroundings, as every row value.
+    hot = thermal_states(t, with_room, site="hot-still-day")
+    assert hot["surroundings_temp_K"][2] == pytest.approx(C + 0)
 
 
 def test_table_and_engine_agree_on_covers_and_bare_metal(tmp_path, rules):

@@ -27,7 +27,8 @@ from audit.thermal import (ZERO_CELSIUS, PreparedItems, conductivity_tables, has
 
 #: Columns of a findings table, in order (``row`` indexes the item table).
 FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value", "limit", "unit",
-                   "site", "air_temp [degC]", "wind [m/s]", "rh [%]", "limit_source", "message",
+                   "site", "air_temp [degC]", "wind [m/s]", "rh [%]", "surroundings_temp [degC]",
+                   "limit_source", "message",
                    "remedy", "fixable_by_insulation", "remedy_thickness [mm]", "remedy_material"]
 
 
@@ -160,6 +161,8 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
         "air_temp [degC]": states["air_temp_K"].to_numpy(float)[rows] - ZERO_CELSIUS,
         "wind [m/s]": states["wind_m_s"].to_numpy(float)[rows],
         "rh [%]": states["rh_pct"].to_numpy(float)[rows],
+        "surroundings_temp [degC]": states["surroundings_temp_K"].to_numpy(float)[rows]
+        - ZERO_CELSIUS,
         "limit_source": check.source,
         "message": spread(message),
         "remedy": spread(remedy),

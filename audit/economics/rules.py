@@ -3,7 +3,8 @@
 Where the files are read from, in order (a later value wins): for the shipped rules folder,
 then each ``--rules DIR`` (the folders of ``audit.rules.loader.rule_folders``), every ``*.toml``
 at the top of the folder that has an ``[economics]`` table, then every ``*.toml`` in its
-``economics/`` subfolder, in name order.  Files are read by the main loader's reader.
+``economics/`` subfolder, in name order.  Files are read by the one reader of rule files
+(``audit.rules.files.read_toml``).
 
 Layering is the one rule of every section (:mod:`audit.rules.schema`): a key of
 ``[economics]`` (``currency``, ``hours``, ...) replaces the earlier value; a sub-table
@@ -25,8 +26,9 @@ from pathlib import Path
 from audit.errors import Problem, RuleError
 from audit.pipe_sizes import NPS_BY_VALUE
 from audit.rules import shipped_rules_dir
+from audit.rules.files import read_toml
 from audit.rules.converters import list_of, quantity, text
-from audit.rules.loader import read_rule_file, rule_folders
+from audit.rules.loader import rule_folders
 from audit.rules.schema import convert_keys
 from audit.units import parse_quantity
 
@@ -198,7 +200,7 @@ def economic_rule_files(rule_dirs: Iterable[str | Path] = (), *, shipped: bool =
     """The files read, in order (see the module docstring)."""
     files = []
     for folder in rule_folders(rule_dirs, shipped=shipped):
-        files += [p for p in sorted(folder.glob("*.toml")) if SECTION in read_rule_file(p)]
+        files += [p for p in sorted(folder.glob("*.toml")) if SECTION in _read(p)]
         files += sorted((folder / SUBFOLDER).glob("*.toml"))
     return files
 
@@ -208,7 +210,7 @@ def load_economic_rules(rule_dirs: Iterable[str | Path] = (), *, shipped: bool =
     files = economic_rule_files(rule_dirs, shipped=shipped)
     merged: dict[str, tuple[object, str]] = {}    # key or sub-table -> (raw value, file)
     for path in files:
-        body = read_rule_file(path).get(SECTION)
+        body = _read(path).get(SECTION)
         if body is None:
             continue
         if not isinstance(body, dict):
@@ -224,6 +226,10 @@ def load_economic_rules(rule_dirs: Iterable[str | Path] = (), *, shipped: bool =
                         expected=f"an [{SECTION}] table in {SUBFOLDER}/economics.toml")
     values = _validate(merged, files)
     return _build(values, merged, tuple(str(f) for f in files))
+
+
+def _read(path: Path) -> dict:
+    return read_toml(path, "TOML as described at the top of the shipped economics.toml")
 
 
 def _validate(merged, files) -> dict:

@@ -256,9 +256,11 @@ def _solve(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model, 
         iso_ca=e.iso_ca, iso_cb=e.iso_cb, flow_length=e.flow_length)
     t_low = np.minimum(np.minimum(t_process, t_air), t_sur)
     t_high = np.maximum(np.maximum(t_process, t_air), t_sur)
-    return solve_walls(t_process, t_air, t_low, t_high, w.conductance,
-                       np.where(w.present, e.layer_table, 0), w.present, tables,
-                       r_inner, w.outer_area, model.take)
+    sol = solve_walls(t_process, t_air, t_low, t_high, w.conductance,
+                      np.where(w.present, e.layer_table, 0), w.present, tables,
+                      r_inner, w.outer_area, model.take)
+    sol.validity = model.outside_validity(sol.surface_temp)
+    return sol
 
 
 def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
@@ -366,7 +368,8 @@ def _failure_reasons(items, e, sol, tables) -> list[str]:
 
 
 def _warnings(n, e, sol, tables, present) -> np.ndarray:
-    """Layers whose temperature span leaves their conductivity data."""
+    """Layers whose temperature span leaves their conductivity data, and correlations that
+    ran outside their published ranges (:data:`audit.engine.surface.VALIDITY_FLAGS`)."""
     out = np.full(n, "", dtype=object)
     temps = sol.interface_temps
     outside = np.zeros(present.shape, bool)
@@ -376,15 +379,21 @@ def _warnings(n, e, sol, tables, present) -> np.ndarray:
             idx = np.flatnonzero(col)
             outside[idx, j] = tables.outside(e.layer_table[idx, j], temps[idx, j], temps[idx, j + 1])
     rows, cols = np.nonzero(outside)
-    if rows.size == 0:
+    ranged = np.flatnonzero(sol.validity)
+    if rows.size == 0 and ranged.size == 0:
         return out
     text = np.array([f"conductivity of {name} extrapolated beyond its data "
                      f"({lo - 273.15:g} to {hi - 273.15:g} degC)"
-                     for name, lo, hi in zip(tables.names, tables.t_min, tables.t_max)], dtype=object)
-    # One note per (item, material), in table order: each item's set of materials as a row
-    # of flags, and each distinct set joined into text once.
-    flags = np.zeros((n, len(tables)), bool)
+                     for name, lo, hi in zip(tables.names, tables.t_min, tables.t_max)]
+                    + [surface.validity_warning(*flag) for flag in surface.VALIDITY_FLAGS],
+                    dtype=object)
+    # One note per (item, material) and per (item, range left), materials first: each item's
+    # set of notes as a row of flags, and each distinct set joined into text once.
+    flags = np.zeros((n, text.size), bool)
     flags[e.item[rows], e.layer_table[rows, cols]] = True
+    bits = (sol.validity[ranged, None] >> np.arange(len(surface.VALIDITY_FLAGS))) & 1
+    at, which_range = np.nonzero(bits)
+    flags[e.item[ranged[at]], len(tables) + which_range] = True
     warned = np.flatnonzero(flags.any(axis=1))
     first, which = distinct_rows(_packed_words(flags[warned]))
     joined = np.array(["; ".join(text[flags[warned[i]]]) for i in first], dtype=object)
