@@ -1,10 +1,11 @@
 """``lagaudit calc``: the what-if for one item, from command-line flags, printed as a table.
 
 The flags are the register's columns (same names, same cell notation, units in the text:
-``--temp "350 F"``, ``--layers "calcium-silicate 50mm + mineral-wool 2in"``).  They are written
-as a one-row register and read by :func:`audit.io.readers.read_register`, so a value means
-exactly what it means in a register file; then :func:`audit.pipeline.audit_table` audits the
-row with every enabled check, as ``lagaudit run`` would.
+``--temp "350 F"``, ``--layers "calcium-silicate 50mm + mineral-wool 2in"``).  They are read as
+a one-row register, in memory, by :func:`audit.io.readers.read_rows` (the register reader's
+header matching and cell parsing), so a value means exactly what it means in a register file;
+then :func:`audit.pipeline.audit_table` audits the row with every enabled check, as
+``lagaudit run`` would, and the printed state is the audit's own (one solve).
 
 Hook-up for the command line::
 
@@ -16,10 +17,7 @@ Hook-up for the command line::
 from __future__ import annotations
 
 import argparse
-import csv
 import math
-import os
-import tempfile
 import textwrap
 from dataclasses import dataclass
 
@@ -28,13 +26,13 @@ import pandas as pd
 
 from audit import methods
 from audit.errors import LagauditError
-from audit.io.readers import read_register
+from audit.io.readers import read_rows
 from audit.pipeline import audit_table
 from audit.rules import Rules, load_rules
-from audit.thermal import ZERO_CELSIUS, resolve_names, thermal_states
+from audit.thermal import ZERO_CELSIUS, resolve_names
 from audit.units import ureg
 
-#: Flag -> register column, in the order they are written to the one-row register.
+#: Flag -> register column, in the order of the one-row register.
 FLAG_COLUMNS = ("shape", "nps", "od", "length", "area", "heads", "orientation", "temp", "layers",
                 "jacket", "emissivity", "location", "ambient", "wind", "rh", "surroundings",
                 "accessible",
@@ -185,7 +183,7 @@ def calc_item(*, rules: Rules | None = None, rules_dirs=(), surface_model: str =
     if row["status"] != "ok":
         raise LagauditError(f"the item cannot be computed: {_as_flags(row['reason'])}")
     audit = audit_table(table, rules, surface_model=surface_model)
-    state = thermal_states(table, rules, surface_model=surface_model).iloc[0]
+    state = audit.states.iloc[0]
     if not bool(state["computed"]):
         raise LagauditError(f"the engine could not compute the item: {state['engine_reason']}")
     site = row["location"] or rules.defaults.get("site", "")
@@ -202,15 +200,8 @@ def _cell(value) -> str:
 
 def _read_one(cells: dict[str, str], rules: Rules) -> pd.DataFrame:
     """The cells as a one-row register, read by the register reader (one code path)."""
-    handle, path = tempfile.mkstemp(prefix="lagaudit-calc-", suffix=".csv")
-    try:
-        with os.fdopen(handle, "w", newline="", encoding="utf-8") as out:
-            writer = csv.writer(out)
-            writer.writerow(["tag", *cells])
-            writer.writerow(["calc", *cells.values()])
-        return read_register([path], aliases=rules.aliases or None)
-    finally:
-        os.unlink(path)
+    return read_rows(["tag", *cells], [["calc", *cells.values()]], name="calc",
+                     aliases=rules.aliases or None)
 
 
 def _as_flags(reason: str) -> str:

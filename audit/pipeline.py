@@ -29,6 +29,7 @@ class Audit:
     results: pd.DataFrame    #: one row per input row (contract columns first)
     findings: pd.DataFrame   #: one row per finding
     economics: Economics     #: energy, money, CO2, repairs, economic thickness, totals
+    states: pd.DataFrame     #: thermal states at each item's own conditions (index of table)
     history: object = None   #: with --history: this audit beside the last (audit.history.SinceLast)
 
 
@@ -63,6 +64,7 @@ def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlation
     economics = compute_economics(context, findings, rules, economic_rules=economic_rules,
                                   fuel_price=fuel_price, hours=hours)
     names, worst = summarise_per_row(findings, len(table))
-    results = build_results(table, context.states(""), findings=names, severity=worst,
+    states = context.states("")
+    results = build_results(table, states, findings=names, severity=worst,
                             extra=economics.per_row)
-    return Audit(rules, table, results, findings, economics)
+    return Audit(rules, table, results, findings, economics, states)

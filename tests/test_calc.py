@@ -3,12 +3,16 @@ published conversion factors, failed checks reported, bad flags refused."""
 
 import argparse
 import re
+import tempfile
 
 import pytest
 
-from audit.calc import FLAG_COLUMNS, add_calc_arguments, calc_item, convert, format_calc, run_calc
+from audit import thermal
+from audit.calc import (FLAG_COLUMNS, _cell, _read_one, add_calc_arguments, calc_item, convert,
+                        format_calc, run_calc)
 from audit.engine import solve_item
 from audit.errors import LagauditError
+from audit.pipeline import audit_table
 from audit.rules import load_rules
 
 ZERO_C = 273.15  # K, definition of the Celsius scale
@@ -212,3 +216,36 @@ def test_surroundings_flag_sets_what_the_item_radiates_to(rules):
     warmer = calc_item(rules=rules, nps="4", temp="150", layers="none", material="carbon-steel",
                        ambient="10", wind="0", surroundings="40")
     assert warmer.state["heat_loss_W"] < r.state["heat_loss_W"]
+
+
+def test_calc_writes_no_file(rules, tmp_path, monkeypatch):
+    # Anything made through tempfile would land in tmp_path (or fail loudly).
+
+    def refused(*args, **kwargs):
+        raise AssertionError("calc made a temporary file")
+
+    monkeypatch.setattr(tempfile, "tempdir", str(tmp_path))
+    for name in ("mkstemp", "mkdtemp", "NamedTemporaryFile", "TemporaryFile"):
+        monkeypatch.setattr(tempfile, name, refused)
+    r = calc_item(rules=rules, nps="4", temp="250", layers="mineral-wool 50")
+    assert r.item["tag"] == "calc"
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_calc_solves_no_more_than_the_audit(rules, monkeypatch):
+    # The printed state is the audit's own-conditions state, not a second solve: calc makes as
+    # many solves as auditing its one-row table does, and its state is that audit's.
+    calls = []
+    solve = thermal.prepared_states
+    monkeypatch.setattr(thermal, "prepared_states",
+                        lambda *a, **k: calls.append(k.get("site")) or solve(*a, **k))
+    flags = dict(nps="4", length="1", temp="250", layers="calcium-silicate 25mm",
+                 accessible=True)
+    r = calc_item(rules=rules, **flags)
+    in_calc = list(calls)
+    calls.clear()
+    table = thermal.resolve_names(
+        _read_one({c: _cell(flags.get(c)) for c in FLAG_COLUMNS}, rules), rules)
+    audit = audit_table(table, rules)
+    assert in_calc == calls and None in calls
+    assert r.state.equals(audit.states.iloc[0])

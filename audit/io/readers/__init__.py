@@ -4,6 +4,7 @@
 a tag column, or the sheets named), finds the header row, matches headers against the column
 names and the alias table (``rules/aliases.toml``), parses every cell once per distinct text and
 returns one row per input row, in input order, with ``status`` ``ok`` or ``rejected``.
+``read_rows(header, rows)`` does the same for rows held in memory (``lagaudit calc``).
 
 ``source`` is ``file:sheet:row``; ``file`` is the file's name, or, when two registers share a
 name in different folders, its path relative to the folder that holds them all, so that every
@@ -18,7 +19,7 @@ the summary of :mod:`audit.io.readers.validate`, and in ``table.attrs["register"
 
 from __future__ import annotations
 
-from collections.abc import Iterable, Mapping
+from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import asdict
 import os
 from pathlib import Path
@@ -29,9 +30,10 @@ import pandas as pd
 from audit.errors import RegisterError
 from audit.io.readers.files import read_raw
 from audit.io.readers.headers import Lookup, load_aliases, merge_aliases
+from audit.io.readers.sheet import RawSheet, finish
 from audit.io.readers.table import ITEM_COLUMNS, build_sheet
 
-__all__ = ["read_register", "load_aliases", "merge_aliases"]
+__all__ = ["read_register", "read_rows", "load_aliases", "merge_aliases"]
 
 
 def read_register(paths, *, sheets: Iterable[str] | None = None,
@@ -69,26 +71,75 @@ def read_register(paths, *, sheets: Iterable[str] | None = None,
     aliases = dict(load_aliases() if aliases is None else aliases)
     lookup = Lookup.from_aliases(aliases)
     sheet_list = list(dict.fromkeys(sheets)) if sheets else None
-    tables, infos, skipped = [], [], []
+    built, skipped = [], []
     for path, label in zip(paths, source_labels(paths)):
         raws, notes = read_raw(path, sheet_list, lookup)
         for raw in raws:
             raw.file = label
         skipped.extend(notes)
-        built = [build_sheet(raw, lookup, aliases.get("tag", [])) for raw in raws]
-        if sum(len(t) for t, _ in built) == 0:
-            raise RegisterError("a header row but no data rows", file=str(path),
-                                expected="at least one item row below the header")
-        tables.extend(t for t, _ in built)
-        infos.extend(i for _, i in built)
+        built.extend(_built(raws, lookup, aliases, path))
+    return _item_table(built, skipped)
+
+
+def read_rows(header: Sequence[str], rows: Iterable[Sequence[str]], *, name: str = "rows",
+              aliases: Mapping[str, list[str]] | None = None) -> pd.DataFrame:
+    """Read register rows held in memory into the item table, as a register file is read.
+
+    The header is matched against the column names and aliases, and the cells parsed, by the
+    same code as a file's (:func:`audit.io.readers.table.build_sheet`), so a cell means
+    exactly what it means in a register file; nothing is written to disk.
+
+    Parameters
+    ----------
+    header : sequence of str
+        The header row (column names or aliases, a unit may follow: ``temp [F]``).
+    rows : iterable of sequence of str
+        The data rows, cells as text ("" for an empty cell).
+    name : str
+        Stands for the file name in ``source`` (``name:row``) and in error messages.
+    aliases : mapping of column -> list of str, optional
+        As for :func:`read_register`.
+
+    Returns
+    -------
+    pandas.DataFrame
+        The item table, as :func:`read_register` returns it.
+
+    Raises
+    ------
+    RegisterError
+        When the header has no tag column or there is no data row.
+    """
+    aliases = dict(load_aliases() if aliases is None else aliases)
+    lookup = Lookup.from_aliases(aliases)
+    header = [str(h).strip() for h in header]
+    data = pd.DataFrame([[str(cell) for cell in row] for row in rows], dtype=object)
+    path = Path(name)
+    raw = finish(path, "", header, None, data, 1, False)
+    return _item_table(_built([raw], lookup, aliases, path), [])
+
+
+def _built(raws: list[RawSheet], lookup: Lookup, aliases: Mapping[str, list[str]],
+           path: Path) -> list:
+    """``build_sheet`` of each sheet of one register; a register without data rows refused."""
+    built = [build_sheet(raw, lookup, aliases.get("tag", [])) for raw in raws]
+    if sum(len(t) for t, _ in built) == 0:
+        raise RegisterError("a header row but no data rows", file=str(path),
+                            expected="at least one item row below the header")
+    return built
+
+
+def _item_table(built: list, skipped: list[str]) -> pd.DataFrame:
+    """The sheets' tables as one item table: extra columns filled, duplicate tags flagged,
+    what was read in ``attrs["register"]``."""
+    tables = [t for t, _ in built]
     table = pd.concat(tables, ignore_index=True) if len(tables) > 1 else tables[0]
     for column in table.columns[len(ITEM_COLUMNS):]:
         if table[column].isna().any():
             table[column] = table[column].fillna("")
     _flag_duplicates(table)
-    table.attrs["register"] = {"sheets": [asdict(i) for i in infos], "skipped": skipped}
+    table.attrs["register"] = {"sheets": [asdict(i) for _, i in built], "skipped": skipped}
     return table
-
 
 def source_labels(paths: list[Path]) -> list[str]:
     """The ``file`` part of ``source`` for each register: its name, or, for names that two
