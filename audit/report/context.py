@@ -69,8 +69,12 @@ def worst_first(findings: pd.DataFrame) -> pd.DataFrame:
 
 
 def build_context(audit, *, meta: dict, caution: str, economics=None,
-                  max_rows: int = MAX_TABLE_ROWS) -> dict:
-    """Everything the report template shows, as plain values and text."""
+                  max_rows: int = MAX_TABLE_ROWS, packs: dict | None = None) -> dict:
+    """Everything the report template shows, as plain values and text.
+
+    ``packs``: the work-order packs' cap (``PackPlan.summary()``) when they are written with
+    the report, for the cover to say how many orders the packs leave off, by area.
+    """
     results, findings, table = audit.results, audit.findings, audit.table
     area = table["area_code"].fillna("").astype(str).to_numpy(object)
     audited = (results["status"] == "audited").to_numpy()
@@ -94,6 +98,7 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "rejected": _rejected(results, max_rows),
         "assumptions": _assumptions(audit, meta, economics),
         "economics": _economics(audit, area, economics, max_rows),
+        "packs": packs,
     }
     context["charts"] = {
         "pareto": charts.cost_pareto(results["tag"].to_numpy(object),
