@@ -9,6 +9,7 @@ report), which also writes the work-order packs with the PDF.
 
 from __future__ import annotations
 
+import sys
 from concurrent.futures import ThreadPoolExecutor
 from pathlib import Path
 
@@ -16,6 +17,7 @@ import pandas as pd
 
 from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
 from audit.io.writers.place import OutputFolder
+from audit.progress import printable
 
 
 def _csv(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
@@ -39,7 +41,12 @@ def _xlsx(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
               "by area": economics.by_area, "by check": economics.by_check,
               "best paybacks": economics.top_repairs,
               "assumptions": pd.DataFrame(economics.assumptions)}
-    return [_placed(folder, "results.xlsx", write_xlsx, sheets)]
+    notes = []
+    written = [_placed(folder, "results.xlsx", write_xlsx, sheets, notes=notes)]
+    for note in notes:  # a split is news: said even with --quiet
+        print(printable(f"lagaudit: note: results.xlsx: {note}; every column and row is also in "
+                        "the CSV outputs"), file=sys.stderr)
+    return written
 
 
 def _reports(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
