@@ -26,6 +26,7 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
+from audit import methods
 from audit.errors import LagauditError
 from audit.io.readers import read_register
 from audit.pipeline import audit_table
@@ -35,7 +36,8 @@ from audit.units import ureg
 
 #: Flag -> register column, in the order they are written to the one-row register.
 FLAG_COLUMNS = ("shape", "nps", "od", "length", "area", "heads", "orientation", "temp", "layers",
-                "jacket", "emissivity", "location", "ambient", "wind", "rh", "accessible",
+                "jacket", "emissivity", "location", "ambient", "wind", "rh", "surroundings",
+                "accessible",
                 "condition", "damaged", "service", "material", "valves", "flanges")
 
 #: Display unit of each quantity kind: (SI, US customary), as pint units.
@@ -136,12 +138,17 @@ def add_calc_arguments(parser: argparse.ArgumentParser) -> None:
     air.add_argument("--ambient", help="air temperature (degC if no unit)")
     air.add_argument("--wind", help="wind speed (m/s if no unit)")
     air.add_argument("--rh", help="relative humidity (%%)")
+    air.add_argument("--surroundings",
+                     help="temperature of the surfaces the item radiates to (degC if no unit; "
+                          "default: the site's, else the air temperature)")
     parser.add_argument("--rules", action="append", default=[], metavar="DIR",
                         help="layer this folder's *.toml over the shipped rules (repeatable)")
     parser.add_argument("--units", choices=("si", "us"), default="si",
                         help="print in SI (default) or US customary units")
     parser.add_argument("--surface-model", default="correlations", metavar="NAME",
                         help="outer-surface model: correlations (default) or iso12241-simplified")
+    parser.add_argument("--explain", action="store_true",
+                        help="also print the methods and references the figures come from")
 
 
 def calc_item(*, rules: Rules | None = None, rules_dirs=(), surface_model: str = "correlations",
@@ -223,13 +230,15 @@ def format_calc(result: CalcResult, units: str = "si") -> str:
 
     air, air_unit = convert(c(state["air_temp_K"]), "temperature", units)
     wind, wind_unit = convert(state["wind_m_s"], "speed", units)
+    surroundings, _ = convert(c(state["surroundings_temp_K"]), "temperature", units)
     own = [name for name, column in (("ambient", "ambient_K"), ("wind", "wind_m_s"),
-                                     ("rh", "rh_pct")) if math.isfinite(item[column])]
+                                     ("rh", "rh_pct"), ("surroundings", "surroundings_K"))
+           if math.isfinite(item[column])]
     lines.append("Conditions")
     lines.append(f"  site             {result.site or '(none)'}"
                  + (f" (overridden: {', '.join(own)})" if own else ""))
     lines.append(f"  air              {air:.1f} {air_unit}, wind {wind:.3g} {wind_unit}, "
-                 f"RH {state['rh_pct']:.0f} %")
+                 f"RH {state['rh_pct']:.0f} %, surroundings {surroundings:.1f} {air_unit}")
     lines.append(f"  emissivity       {state['emissivity_used']:.2f} (outer surface)")
     lines.append("")
 
@@ -335,4 +344,7 @@ def run_calc(args: argparse.Namespace) -> int:
     flags = {column: getattr(args, column, None) for column in FLAG_COLUMNS}
     result = calc_item(rules_dirs=args.rules, surface_model=args.surface_model, **flags)
     print(format_calc(result, args.units))
+    if getattr(args, "explain", False):
+        print()
+        print(methods.text())
     return 0

@@ -14,6 +14,8 @@ from audit.calc import add_calc_arguments, run_calc
 from audit.cautions import CAUTION
 from audit.digests import sha256_file
 from audit.errors import LagauditError
+from audit.history import History, describe_audits, export_audits
+from audit.history.run import compare_audit, open_history, record_run
 from audit.io.readers import read_register
 from audit.io.readers.validate import summarise
 from audit.io.writers.place import OutputFolder
@@ -25,6 +27,9 @@ from audit.rules.describe import describe_rules
 from audit.shipped import shipped_dir
 from audit.thermal import resolve_names
 
+
+#: The invented demo plant's name, under which `demo --history` records
+DEMO_PLANT = "Quarvel Point Works"
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -87,6 +92,9 @@ def _parser() -> argparse.ArgumentParser:
         epilog="example:\n  lagaudit demo --out demo-report/\n\n" + CAUTION,
         formatter_class=argparse.RawDescriptionHelpFormatter)
     _audit_options(demo)
+    demo.add_argument("--second-survey", action="store_true",
+                      help="audit the demo plant's invented second survey (some repairs done, "
+                           "new damage, one line removed); with --history, after a first demo run")
     demo.set_defaults(run=_demo, sheet=None)
 
     calc = sub.add_parser(
@@ -119,6 +127,19 @@ def _parser() -> argparse.ArgumentParser:
     _rules_option(validate)
     validate.add_argument("--sheet", action="append", metavar="NAME")
     validate.set_defaults(run=_validate)
+
+    history = sub.add_parser(
+        "history", help="list the audits recorded in a history database",
+        description="List the audits recorded by 'run --history DB': date, plant, register "
+                    "digests and totals; or export them as CSV.",
+        epilog="examples:\n  lagaudit history audits.db\n"
+               "  lagaudit history audits.db --plant \"North works\" --export history-csv/",
+        formatter_class=argparse.RawDescriptionHelpFormatter)
+    history.add_argument("db", metavar="DB", help="SQLite file or postgresql:// URL")
+    history.add_argument("--plant", metavar="NAME", help="only this plant's audits")
+    history.add_argument("--export", metavar="DIR",
+                         help="write audits.csv, items.csv and findings.csv into DIR")
+    history.set_defaults(run=_history)
     return parser
 
 
@@ -137,6 +158,12 @@ def _audit_options(parser):
                              "the economic rules (shipped: per MWh)")
     parser.add_argument("--hours", type=_positive, metavar="H",
                         help="this run's operating hours per year for rows that give none")
+    parser.add_argument("--history", metavar="DB",
+                        help="record this audit in DB (SQLite file, or postgresql:// URL) and "
+                             "compare it with the plant's last audit there (writes closed.csv)")
+    parser.add_argument("--plant", metavar="NAME",
+                        help="the plant's name in the history (default: the rules' "
+                             "[defaults] plant)")
     talk = parser.add_mutually_exclusive_group()
     talk.add_argument("-q", "--quiet", action="store_true",
                       help="print nothing but errors (the exit code still tells)")
@@ -174,12 +201,16 @@ def _run(args) -> int:
 
 def _demo(args) -> int:
     folder = shipped_dir("sample_data")
+    if args.second_survey:
+        return _audit_and_write([folder / "demo_line_list_resurvey.xlsx",
+                                 folder / "demo_equipment_resurvey.xlsx"], args)
     return _audit_and_write([folder / "demo_line_list.xlsx", folder / "demo_equipment.xlsx"], args)
 
 
 def _audit_and_write(registers, args) -> int:
     formats = _formats(args.format)
     say = (lambda *_: None) if args.quiet else (lambda text: print(printable(text)))
+    history = open_history(args.history)  # a database that cannot be used stops the run here
     # A stream that is not a terminal draws no bar.
     with OutputFolder(args.out) as folder, \
             progress("Auditing", total=1 + len(formats), stream=io.StringIO() if args.quiet else None) as bar:
@@ -187,14 +218,23 @@ def _audit_and_write(registers, args) -> int:
         audit = audit_register(registers, rules_dirs=args.rules, sheets=args.sheet,
                                surface_model=args.surface_model, fuel_price=args.fuel_price,
                                hours=args.hours)
+        if history is not None:
+            audit = compare_audit(history, audit, plant=args.plant,
+                                  fallback=DEMO_PLANT if args.run is _demo else None)
         bar.advance()
         written = write_outputs(audit, folder, formats, _meta(audit, registers, args), bar.advance)
+        if history is not None:
+            closed, recorded = record_run(history, audit, registers, args.out,
+                                          surface_model=args.surface_model)
+            written += closed
     results, findings = audit.results, audit.findings
     audited = int((results["status"] == "audited").sum())
     say(f"{len(results)} rows read: {audited} audited, {len(results) - audited} rejected; "
         f"{len(findings)} findings on {findings['row'].nunique()} items.")
     for path in written:
         say(f"wrote {path}")
+    if history is not None:
+        say(recorded)
     if audited < len(results):
         say("See the 'reason' column for each rejected row, or run 'lagaudit validate'.")
     if args.verbose:
@@ -235,6 +275,19 @@ def _meta(audit, registers, args) -> dict:
 
 def _rules(args) -> int:
     print(describe_rules(load_rules(args.rules)))
+    return 0
+
+
+def _history(args) -> int:
+    history = History.open(args.db, create=False)
+    try:
+        if args.export:
+            for path in export_audits(history, args.export, args.plant):
+                print(f"wrote {path}")
+        else:
+            print(describe_audits(history, args.plant))
+    finally:
+        history.close()
     return 0
 
 

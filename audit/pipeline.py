@@ -29,6 +29,7 @@ class Audit:
     results: pd.DataFrame    #: one row per input row (contract columns first)
     findings: pd.DataFrame   #: one row per finding
     economics: Economics     #: energy, money, CO2, repairs, economic thickness, totals
+    history: object = None   #: with --history: this audit beside the last (audit.history.SinceLast)
 
 
 def audit_register(registers, *, rules_dirs=(), sheets=None, surface_model="correlations",

@@ -69,6 +69,7 @@ def build_results(table: pd.DataFrame, states: pd.DataFrame, *, findings=None,
     out["radiative_share [-]"] = states["radiative_share"].to_numpy(float)
     out["process_temp [degC]"] = celsius("process_temp_K")
     out["air_temp [degC]"] = celsius("air_temp_K")
+    out["surroundings_temp [degC]"] = celsius("surroundings_temp_K")
     out["wind [m/s]"] = states["wind_m_s"].to_numpy(float)
     out["emissivity [-]"] = states["emissivity_used"].to_numpy(float)
     out["warnings"] = ["; ".join(w for w in (a, b) if w) for a, b in zip(warnings, engine_warnings)]

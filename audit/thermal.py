@@ -5,21 +5,26 @@ index arrays.  Names are looked up exactly as written (after the reader's normal
 lower case with hyphens): an unknown name rejects the row with a reason, never a guess.
 
 Conditions for each item: a value on the item's own row (``ambient``, ``wind``, ``rh``,
-``emissivity``) wins; else the site condition being evaluated (a check's scenario), else
-the item's ``location``, else the rules' default site.
+``surroundings``, ``emissivity``) wins; else the site condition being evaluated (a check's
+scenario), else the item's ``location``, else the rules' default site.  The surroundings an
+item radiates to: the row's ``surroundings``; else, where the row gives its own ``ambient``,
+that air temperature (the row describes a place of its own, and a site's surroundings go with
+the site's air; ``warnings`` says so where the site's differ); else the site's
+``surroundings``; else the air temperature.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
 
 from audit.engine import ConductivityTables, ItemBatch, solve_items
+from audit.engine.batch import surfaces
 from audit.engine.items import HEAD_CODES, ORIENTATION_CODES, SHAPE_CODES
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
-from audit.repeats import map_values, per_distinct
+from audit.repeats import map_values, per_distinct, tuples_of
 from audit.rules import Rules
 
 ZERO_CELSIUS = 273.15
@@ -47,7 +52,7 @@ def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> p
         out["jacket"].fillna("").to_numpy(object), np.isfinite(out["emissivity"].to_numpy(float)),
         out["location"].fillna("").to_numpy(object), out["material"].fillna("").to_numpy(object),
         count["valves"], count["flanges"],
-        np.isfinite(out["damaged_pct"].to_numpy(float)) | damaged_given)
+        np.isfinite(out["damaged_pct"].to_numpy(float)) | damaged_given, table_surfaces(out)[1])
     if notes:
         _note_defaults(out, rules)
     has = added != ""
@@ -59,7 +64,7 @@ def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> p
 
 def _name_problems(key, rules: Rules) -> list[str]:
     """What is wrong with one combination of a row's names and condition."""
-    layers, condition, jacket, has_eps, location, metal, valves, flanges, has_damage = key
+    layers, condition, jacket, has_eps, location, metal, valves, flanges, has_damage, bare_part = key
     materials, jackets, sites, metals = rules.materials, rules.jackets, rules.sites, rules.metals
     problems = []
     names = layers if isinstance(layers, tuple) else ()
@@ -82,7 +87,6 @@ def _name_problems(key, rules: Rules) -> list[str]:
     if metal and metal not in metals:
         problems.append(f'material: metal "{metal}" is not in the rules; expected one of '
                         f"{_listing(metals)}")
-    bare_part = (not names) or condition in ("damaged", "missing") or valves or flanges
     if bare_part and not has_eps and not metal and "metal" not in rules.defaults:
         problems.append("material: needed for the bare-metal emissivity; expected a metal "
                         "name, an emissivity on the row, or [defaults] metal in the rules")
@@ -98,11 +102,8 @@ def _name_problems(key, rules: Rules) -> list[str]:
 
 def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
     """Say in ``warnings`` where a row falls back on a default of the rules."""
-    insulated = table["layer_materials"].map(lambda x: bool(x)) & (table["condition"] != "missing")
+    insulated, bare_part = table_surfaces(table)
     no_eps = ~np.isfinite(table["emissivity"].to_numpy(float))
-    bare_part = ~insulated | table["condition"].isin(["damaged", "missing"]) \
-        | (pd.to_numeric(table["valves"], errors="coerce").fillna(0) > 0) \
-        | (pd.to_numeric(table["flanges"], errors="coerce").fillna(0) > 0)
     notes = []
     if "jacket" in rules.defaults:
         notes.append((insulated & (table["jacket"].fillna("") == "") & no_eps,
@@ -113,6 +114,9 @@ def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
     if "site" in rules.defaults:
         notes.append((table["location"].fillna("") == "",
                       f'location: empty, site "{rules.defaults["site"]}" assumed (rules default)'))
+    notes.append((_own_air_hides_site_surroundings(table, rules),
+                  "surroundings: empty; the row's own ambient is used for radiation too, not "
+                  "its site's surroundings (give surroundings to say otherwise)"))
     counts = {c: pd.to_numeric(table[c], errors="coerce").fillna(0) for c in ("valves", "flanges")}
     for column, fitting in (("valves", "valve"), ("flanges", "flange")):
         has = counts[column] > 0
@@ -133,6 +137,40 @@ def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
         table.loc[mask, "warnings"] = np.where(old == "", text, old + "; " + text)
 
 
+def _own_air_hides_site_surroundings(table: pd.DataFrame, rules: Rules) -> pd.Series:
+    """Rows that give their own ``ambient`` but no ``surroundings`` while their own site gives
+    surroundings other than its air."""
+    site = table["location"].fillna("").replace("", rules.defaults.get("site", ""))
+    differs = {name: np.isfinite(s.surroundings) and s.surroundings != s.ambient
+               for name, s in rules.sites.items()}
+    return (pd.Series(np.isfinite(_given(table, "ambient_K")), index=table.index)
+            & ~np.isfinite(_given(table, "surroundings_K"))
+            & site.map(lambda name: differs.get(name, False)).astype(bool))
+
+
+def has_layers(table: pd.DataFrame) -> np.ndarray:
+    """Per row of the item table: whether it lists at least one insulation layer."""
+    return per_distinct(lambda m: isinstance(m, tuple) and len(m) > 0,
+                        table["layer_materials"].to_numpy(object)).astype(bool)
+
+
+def table_surfaces(table: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
+    """Per row of the item table, whether it has an insulated outer surface and whether it has
+    bare metal: the engine's rule (:func:`audit.engine.batch.surfaces`) read from the table.
+
+    Fittings count on pipes only, as the engine counts them; a damaged share not known counts
+    as bare (the row is rejected for it anyway, and needs what bare metal needs).
+    """
+    condition = table["condition"].fillna("").to_numpy(object)
+    damaged = table["damaged_pct"].to_numpy(float) / 100.0
+    bare_fraction = np.select([condition == "missing", condition == "damaged"],
+                              [1.0, np.where(np.isnan(damaged), 1.0, damaged)], 0.0)
+    fittings = (table["shape"] == "pipe").to_numpy() & np.add(*(
+        pd.to_numeric(table[c], errors="coerce").fillna(0).to_numpy(float) > 0
+        for c in ("valves", "flanges"))).astype(bool)
+    return surfaces(has_layers(table), bare_fraction, fittings)
+
+
 def _listing(named: dict) -> str:
     return ", ".join(sorted(named)) or "(none defined)"
 
@@ -146,11 +184,15 @@ def conductivity_tables(rules: Rules) -> tuple[ConductivityTables, dict[str, int
 
 @dataclass
 class PreparedItems:
-    """The engine inputs of a table's accepted rows that no site condition changes.
+    """The engine inputs of a table's accepted rows that no site condition changes: the one
+    trial object of the audit.
 
     Looked up once per table: the checks solve one table under several sites, and the
-    remedy and economic-thickness searches re-insulate subsets of it many times over
-    (:meth:`take`, :meth:`reinsulated`) without going back to names and text.
+    remedy search, the specification reference, the repairs and the economic-thickness
+    search derive trial items from it (:meth:`take`, :meth:`reinsulated`, :meth:`repaired`)
+    without going back to names and text.  A trial also knows its item table
+    (:meth:`table`, built on first use from the table prepared and the trial's edits), so a
+    check evaluated on it reads the same items the engine solves.
     """
 
     accepted: np.ndarray        #: bool per table row: status "ok"
@@ -162,15 +204,54 @@ class PreparedItems:
     row_air: np.ndarray         #: ambient given on the row [K] (NaN: the site's)
     row_wind: np.ndarray        #: wind given on the row [m/s]
     row_rh: np.ndarray          #: relative humidity given on the row [%]
+    row_surroundings: np.ndarray  #: surroundings temperature given on the row [K]
     temp: np.ndarray            #: process temperature [K]
     at_ambient: np.ndarray      #: process temperature given as ambient
+    listed_layers: np.ndarray   #: conductivity-table index per layer slot as the row lists
+                                #: them, also where the insulation is missing, (n, L)
+    source: pd.DataFrame | None = None   #: the item table prepared (read, never written)
+    source_rows: np.ndarray | None = None  #: each row's position in ``source`` (None: all)
+    edits: dict = field(default_factory=dict)  #: column -> values per row, over ``source``'s
+    _table: pd.DataFrame | None = field(default=None, repr=False)
 
-    _ROW_ARRAYS = ("own_site", "row_air", "row_wind", "row_rh", "temp", "at_ambient")
+    _ROW_ARRAYS = ("own_site", "row_air", "row_wind", "row_rh", "row_surroundings", "temp",
+                   "at_ambient", "listed_layers")
 
-    def _with(self, accepted, fixed, at=slice(None)) -> PreparedItems:
-        rows = {name: getattr(self, name)[at] for name in self._ROW_ARRAYS}
+    def table(self) -> pd.DataFrame:
+        """The item table of these rows as the trial has them (index 0, 1, ... for a subset).
+
+        The register's raw cells (``raw:`` columns) stay out of a trial's table: no check
+        reads them, and no rule selector can name them.
+        """
+        if self._table is None:
+            if self.source is None:
+                raise ValueError("PreparedItems.table: prepared without its table")
+            if self.source_rows is None and not self.edits:
+                self._table = self.source
+            else:
+                keep = [c for c in self.source.columns if not str(c).startswith("raw:")]
+                rows = slice(None) if self.source_rows is None else self.source_rows
+                table = self.source.loc[:, keep].iloc[rows].reset_index(drop=True)  # a copy
+                for column, values in self.edits.items():
+                    table[column] = values
+                self._table = table
+        return self._table
+
+    def _with(self, accepted, fixed, at=slice(None), *, rows=None, edits=None,
+              **changed) -> PreparedItems:
+        """A trial of the rows ``at`` of the accepted rows; ``rows`` (positions in this
+        table) and ``edits`` (new table cells of those rows) keep its table in step."""
+        arrays = {name: getattr(self, name)[at] for name in self._ROW_ARRAYS}
+        arrays.update(changed)
+        if rows is None:
+            source_rows = self.source_rows
+            kept = dict(self.edits)
+        else:
+            source_rows = rows if self.source_rows is None else self.source_rows[rows]
+            kept = {column: np.asarray(values)[rows] for column, values in self.edits.items()}
         return PreparedItems(accepted=accepted, index=self.index, fixed=fixed,
-                             site_names=self.site_names, **rows)
+                             site_names=self.site_names, source=self.source,
+                             source_rows=source_rows, edits={**kept, **(edits or {})}, **arrays)
 
     def take(self, rows: np.ndarray) -> PreparedItems:
         """The rows ``rows`` (positions in the table, all accepted) as a table of their own."""
@@ -179,24 +260,83 @@ class PreparedItems:
             raise ValueError("PreparedItems.take: only accepted rows can be taken")
         at = (np.cumsum(self.accepted) - 1)[rows]
         return self._with(np.ones(rows.size, bool),
-                          {name: value[at] for name, value in self.fixed.items()}, at)
+                          {name: value[at] for name, value in self.fixed.items()}, at, rows=rows)
 
     def reinsulated(self, materials, thickness_m, *, cover_fittings: bool = True) -> PreparedItems:
         """Every row insulated with one intact layer of ``materials`` [name, or its index in
         ``self.index``] and ``thickness_m`` [m] instead of what it has (not wet, not damaged);
         its uninsulated fittings covered too, unless ``cover_fittings`` is False."""
-        n = int(self.accepted.sum())
+        if not self.accepted.all():
+            raise ValueError("PreparedItems.reinsulated: take the accepted rows first")
+        n = self.accepted.size
         fixed = dict(self.fixed)
         materials = np.asarray(materials)
         table = materials if materials.dtype.kind in "iu" else \
             map_values(materials, self.index, -1, dtype=int)
-        fixed["layer_table"] = np.broadcast_to(table, n).reshape(n, 1)
-        fixed["layer_thickness"] = np.broadcast_to(np.asarray(thickness_m, float), n).reshape(n, 1)
+        table = np.broadcast_to(table, n).reshape(n, 1)
+        thickness = np.broadcast_to(np.asarray(thickness_m, float), n)
+        fixed["layer_table"] = table
+        fixed["layer_thickness"] = thickness.reshape(n, 1)
         fixed["layer_factor"] = np.ones((n, 1))
         fixed["bare_fraction"] = np.zeros(n)
+        names = np.array([*sorted(self.index, key=self.index.get), ""], dtype=object)
+        edits = {"layer_materials": per_distinct(lambda m: (m,), names[table[:, 0]]),
+                 "layer_thicknesses_m": per_distinct(lambda t: (float(t),), thickness),
+                 "condition": np.full(n, "intact", dtype=object),
+                 "damaged_pct": np.full(n, np.nan)}
         if cover_fittings:
             fixed["fitting_length"] = np.zeros(n)
-        return self._with(self.accepted, fixed)
+            edits.update(valves=np.zeros(n, int), flanges=np.zeros(n, int))
+        return self._with(self.accepted, fixed, edits=edits, listed_layers=table)
+
+    def repaired(self, insulate, to_spec, spec_material, thickness_m, covers) -> PreparedItems:
+        """Every row repaired; the rows with nothing to repair drop out (not accepted).
+
+        Parameters (arrays aligned with the rows):
+        ``insulate`` (bool) the insulation is made good: intact and dry, what the row lists
+        (also where it is missing); ``to_spec`` (bool) instead one layer of ``spec_material``
+        [name] of ``thickness_m`` [m]; ``covers`` (bool) its uninsulated fittings covered.
+        """
+        insulate, to_spec, covers = (np.asarray(x, bool) for x in (insulate, to_spec, covers))
+        accepted = self.accepted & (insulate | covers)
+        at = (np.cumsum(self.accepted) - 1)[accepted]
+        fixed = {name: value[at] for name, value in self.fixed.items()}
+        ins, spec, cover = insulate[accepted], to_spec[accepted], covers[accepted]
+        listed = self.listed_layers[at]
+        spec_table = map_values(np.asarray(spec_material, dtype=object)[accepted], self.index, -1,
+                                dtype=int)
+        one_layer = np.where(np.arange(listed.shape[1]) == 0, spec_table[:, None], -1)
+        layers = np.where(spec[:, None], one_layer, np.where(ins[:, None], listed,
+                                                             fixed["layer_table"]))
+        thick = np.where(spec[:, None] & (np.arange(listed.shape[1]) == 0),
+                         np.asarray(thickness_m, float)[accepted][:, None],
+                         np.where(spec[:, None], 0.0, fixed["layer_thickness"]))
+        # As few layer slots as the rows listing the most layers need, as a fresh look-up has.
+        width = max(1, int(((layers >= 0) | (np.where(spec[:, None], -1, listed) >= 0))
+                           .any(axis=0).nonzero()[0].max(initial=-1)) + 1)
+        fixed["layer_table"] = layers[:, :width]
+        fixed["layer_thickness"] = thick[:, :width]
+        fixed["layer_factor"] = np.where(ins[:, None], 1.0, fixed["layer_factor"])[:, :width]
+        fixed["bare_fraction"] = np.where(ins, 0.0, fixed["bare_fraction"])
+        fixed["fitting_length"] = np.where(cover, 0.0, fixed["fitting_length"])
+        edits = {"status": np.where(accepted, "ok", "rejected").astype(object)}
+        if self.source is not None:
+            base = self.table()
+            materials = base["layer_materials"].to_numpy(object).copy()
+            thicknesses = base["layer_thicknesses_m"].to_numpy(object).copy()
+            every_spec = to_spec & accepted
+            materials[every_spec] = tuples_of(np.asarray(spec_material, dtype=object)[every_spec])
+            thicknesses[every_spec] = tuples_of(np.asarray(thickness_m, float)[every_spec])
+            fix = insulate & accepted
+            gone = covers & accepted
+            edits.update(
+                layer_materials=materials, layer_thicknesses_m=thicknesses,
+                condition=np.where(fix, "intact", base["condition"].to_numpy(object)),
+                damaged_pct=np.where(fix, np.nan, base["damaged_pct"].to_numpy(float)),
+                valves=np.where(gone, 0, base["valves"].to_numpy(object)),
+                flanges=np.where(gone, 0, base["flanges"].to_numpy(object)))
+        listed = np.where(spec[:, None], one_layer, listed)[:, :width]
+        return self._with(accepted, fixed, at, edits=edits, listed_layers=listed)
 
 
 def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None,
@@ -317,6 +457,7 @@ def prepare_items(table: pd.DataFrame, rules: Rules, index: dict[str, int] | Non
     condition = rows["condition"].to_numpy(object)
     damaged = rows["damaged_pct"].to_numpy(float) / 100.0
     bare_fraction = np.select([condition == "missing", condition == "damaged"], [1.0, damaged], 0.0)
+    listed = table_idx.copy()
     table_idx[condition == "missing"] = -1
 
     fixed = dict(
@@ -336,13 +477,16 @@ def prepare_items(table: pd.DataFrame, rules: Rules, index: dict[str, int] | Non
     return PreparedItems(accepted=accepted, index=index, fixed=fixed, own_site=own_site,
                          site_names=tuple(site_names), row_air=rows["ambient_K"].to_numpy(float),
                          row_wind=rows["wind_m_s"].to_numpy(float), row_rh=rows["rh_pct"].to_numpy(float),
+                         row_surroundings=_given(rows, "surroundings_K"),
                          temp=rows["temp_K"].to_numpy(float),
-                         at_ambient=rows["temp_is_ambient"].to_numpy(bool))
+                         at_ambient=rows["temp_is_ambient"].to_numpy(bool), listed_layers=listed,
+                         source=table)
 
 
 def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple[ItemBatch, dict]:
     """The engine batch of the prepared rows under ``site`` (None: each row's own site), and
-    the conditions used (air, surroundings, wind, RH, process temperature, emissivity)."""
+    the conditions used (air, surroundings, wind, RH, process temperature, emissivity); the
+    surroundings as the module docstring says."""
     names, codes = ((site,), np.zeros(prepared.own_site.size, int)) if site else \
         (prepared.site_names, prepared.own_site)
     site_air, site_wind, site_rh, site_sur = (
@@ -351,7 +495,10 @@ def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple
         for a in ("ambient", "wind", "rh", "surroundings"))
     row_air = prepared.row_air
     t_air = np.where(np.isfinite(row_air), row_air, site_air)
-    t_sur = np.where(np.isfinite(row_air) | ~np.isfinite(site_sur), t_air, site_sur)
+    # The row's surroundings; else its own air where it gives one, else the site's
+    # surroundings, else the air (module docstring).
+    t_sur = np.where(np.isfinite(prepared.row_surroundings), prepared.row_surroundings,
+                     np.where(np.isfinite(row_air) | ~np.isfinite(site_sur), t_air, site_sur))
     wind = np.where(np.isfinite(prepared.row_wind), prepared.row_wind, site_wind)
     rh = np.where(np.isfinite(prepared.row_rh), prepared.row_rh, site_rh)
     t_process = np.where(prepared.at_ambient, t_air, prepared.temp)
@@ -360,6 +507,13 @@ def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple
     return batch, {"air_temp_K": t_air, "surroundings_temp_K": t_sur, "wind_m_s": wind,
                    "rh_pct": rh, "process_temp_K": t_process,
                    "emissivity_used": prepared.fixed["emissivity"]}
+
+
+def _given(rows: pd.DataFrame, column: str) -> np.ndarray:
+    """A numeric item-table column as floats; NaN (not given) for a table made without it."""
+    if column not in rows:
+        return np.full(len(rows), np.nan)
+    return rows[column].to_numpy(float)
 
 
 def _attributes(names, named: dict, attributes: tuple[str, ...]) -> dict[str, np.ndarray]:

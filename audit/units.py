@@ -9,6 +9,12 @@ The engine never sees pint.  Two kinds of quantity need care:
 
 Every distinct text is parsed once (``functools.lru_cache``): a register repeats a few
 hundred strings across 100,000 rows.
+
+Nothing a register or rule file says reaches pint's expression evaluator: :func:`parse_quantity`
+reads the number itself and hands pint only a unit that :func:`vetted_unit` has checked (names
+joined by ``*``, ``/``, spaces and parentheses, a small whole power after a name, never a power
+of a power: ``Btu*in/(h*ft**2*degF)``).  Every pattern here is anchored and unambiguous, and
+runs of spaces are squeezed first, so parsing is linear in the length of the text.
 """
 
 from __future__ import annotations
@@ -45,7 +51,15 @@ _SYMBOLS = (
 _TEMPERATURE_WORDS = {"c": "degC", "f": "degF", "k": "K", "r": "degR", "degc": "degC",
                       "degf": "degF", "celsius": "degC", "fahrenheit": "degF", "kelvin": "K",
                       "degk": "K", "degr": "degR", "rankine": "degR"}
-_NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
+# A number at the start of a text: digits with an optional fraction and exponent, unambiguous
+# (one way to match any run of digits), so a long run cannot make the matcher backtrack.
+NUMBER = re.compile(r"[-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?")
+MAX_UNIT_CHARS = 64     # a unit expression longer than this is not a unit
+MAX_UNIT_DEPTH = 3      # parentheses inside a unit expression
+MAX_UNIT_POWER = 99     # |exponent| after a unit name
+_UNIT_TOKEN = re.compile(r"\s*(?:(?P<name>[^\W\d]\w*|%)|(?P<one>1(?![\d.]))"
+                         r"|(?P<power>(?:\*\*|\^)\s*[-+]?\d{1,2}(?![\d.]))|(?P<op>[*/])"
+                         r"|(?P<open>\()|(?P<close>\)))")
 
 
 class UnitParseError(LagauditError):
@@ -56,31 +70,76 @@ class UnitParseError(LagauditError):
 _BARE_EXPONENT = re.compile(r"(?<![A-Za-z])(mm|cm|m|km|in|ft|yd)([23])(?![0-9A-Za-z])")
 
 
+def squeeze(text: str) -> str:
+    """``text`` stripped, every run of white space made one space (linear in its length)."""
+    return " ".join(text.split())
+
+
 def _normalise(text: str) -> str:
     for symbol, word in _SYMBOLS:
         text = text.replace(symbol, word)
-    return _BARE_EXPONENT.sub(r"\1**\2", text).strip()
+    return _BARE_EXPONENT.sub(r"\1**\2", squeeze(text))
+
+
+def vetted_unit(text: str) -> str:
+    """``text`` if it is a unit expression pint may be given, else ``ValueError``.
+
+    A unit expression is unit names (or ``1``, as in ``1/h``) joined by ``*``, ``/`` or a space,
+    with parentheses at most ``MAX_UNIT_DEPTH`` deep, and a whole power of at most
+    ``MAX_UNIT_POWER`` written straight after a name (``ft**2``, ``s^-1``): never after a
+    parenthesis or another power, so no power of a power.  At most ``MAX_UNIT_CHARS``
+    characters.  Whether the names are units is pint's to say.
+    """
+    if len(text) > MAX_UNIT_CHARS:
+        raise ValueError(f"a unit of {len(text)} characters, above the limit of {MAX_UNIT_CHARS}")
+    pos, depth, want_atom, after_name = 0, 0, True, False
+    end = len(text.rstrip())
+    while pos < end:
+        match = _UNIT_TOKEN.match(text, pos)
+        if not match:
+            raise ValueError(f"{text!r} is not a unit expression")
+        kind, pos = match.lastgroup, match.end()
+        if kind in ("name", "one"):
+            want_atom, after_name = False, kind == "name"
+            continue
+        if kind == "power":
+            if not after_name:
+                raise ValueError(f"{text!r}: a power only follows a unit name")
+            after_name = False
+        elif kind == "op":
+            if want_atom:
+                raise ValueError(f"{text!r} is not a unit expression")
+            want_atom, after_name = True, False
+        elif kind == "open":
+            depth += 1
+            if depth > MAX_UNIT_DEPTH:
+                raise ValueError(f"{text!r}: parentheses nested more than {MAX_UNIT_DEPTH} deep")
+            want_atom, after_name = True, False
+        else:  # close
+            depth -= 1
+            if depth < 0 or want_atom:
+                raise ValueError(f"{text!r}: unbalanced parentheses")
+            after_name = False
+    if want_atom or depth:
+        raise ValueError(f"{text!r} is not a complete unit expression")
+    return text
 
 
 @lru_cache(maxsize=8192)
 def _unit(unit_text: str) -> pint.Unit:
-    return ureg.parse_units(unit_text)
+    return ureg.parse_units(vetted_unit(unit_text))
 
 
 @lru_cache(maxsize=65536)
 def _parse_cached(text: str, default_unit: str, target_unit: str, temperature: bool) -> float:
     norm = _normalise(text)
-    match = _NUMBER_UNIT.match(norm)
-    if match:
-        number, unit_text = float(match.group(1)), match.group(2)
-        if temperature and unit_text.lower().replace(" ", "") in _TEMPERATURE_WORDS:
-            unit_text = _TEMPERATURE_WORDS[unit_text.lower().replace(" ", "")]
-        unit = _unit(unit_text or default_unit)
-        quantity = ureg.Quantity(number, unit)
-    else:
-        quantity = ureg.Quantity(norm)
-        if not isinstance(quantity, pint.Quantity):  # a bare number written as an expression
-            quantity = ureg.Quantity(float(quantity), _unit(default_unit))
+    match = NUMBER.match(norm)
+    if not match:
+        raise ValueError(f"{text!r} does not start with a number")
+    number, unit_text = float(match.group()), norm[match.end():].strip()
+    if temperature and unit_text.lower().replace(" ", "") in _TEMPERATURE_WORDS:
+        unit_text = _TEMPERATURE_WORDS[unit_text.lower().replace(" ", "")]
+    quantity = ureg.Quantity(number, _unit(unit_text or default_unit))
     return float(quantity.to(target_unit).magnitude)
 
 
@@ -116,16 +175,17 @@ def parse_quantity(value, default_unit: str, target_unit: str, *, what: str = "v
         text = repr(float(value))
     else:
         text = str(value)
+    shown = text if len(text) <= 60 else text[:60] + "…"
     try:
         result = _parse_cached(text, default_unit, target_unit, temperature)
     except (pint.errors.PintError, ValueError, TypeError, AttributeError, AssertionError,
             KeyError, SyntaxError, ZeroDivisionError, OverflowError, RecursionError,
             IndexError, tokenize.TokenError) as exc:
-        raise UnitParseError(f"{text!r} is not {what}", value=value,
+        raise UnitParseError(f"{shown!r} is not {what}", value=shown,
                              expected=f"a number with an optional unit of "
                                       f"{_describe(target_unit)} ({default_unit} if none)") from exc
     if not math.isfinite(result):
-        raise UnitParseError(f"{text!r} is not {what}", value=value, expected="a finite number")
+        raise UnitParseError(f"{shown!r} is not {what}", value=shown, expected="a finite number")
     return result
 
 

@@ -5,12 +5,20 @@ insulation drawn from a few hundred distinct strings, as a real line list repeat
 prints the seconds taken by ``read_register`` for each.  Targets (issue 3): CSV under 1 s,
 XLSX under 5 s on a 2-core machine.  Not a test: run ``python benchmarks/bench_import.py`` from
 the repository root with the package installed (or ``PYTHONPATH=.``).
+
+``--memory --rows 1000000`` instead writes a CSV of that many rows and reads it once in a fresh
+process, printing the reader's peak resident memory (the process's peak after importing the
+package, and the rise that reading caused), with the file's size for scale.
 """
 
 from __future__ import annotations
 
+import argparse
 import gc
 import importlib.util
+import json
+import os
+import subprocess
 import statistics
 import sys
 import tempfile
@@ -56,10 +64,52 @@ def _clear_caches() -> None:
         parser.cache_clear()
 
 
+_CHILD = """
+import json, resource, sys, time
+from audit.io.readers import read_register
+before = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
+start = time.perf_counter()
+table = read_register(sys.argv[1])
+seconds = time.perf_counter() - start
+peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
+print(json.dumps({"rows": len(table), "ok": int((table["status"] == "ok").sum()),
+                  "seconds": seconds, "before_kib": before, "peak_kib": peak}))
+"""
+
+
+def memory(rows: int) -> None:
+    """Peak resident memory of one ``read_register`` of a ``rows``-row CSV, in a fresh process."""
+    with tempfile.TemporaryDirectory() as folder:
+        path = Path(folder) / "bench.csv"
+        frame = make_register(rows)
+        frame.to_csv(path, index=False)
+        del frame
+        size = path.stat().st_size
+        done = subprocess.run([sys.executable, "-c", _CHILD, str(path)], capture_output=True,
+                              text=True, check=True, env={**os.environ})
+        result = json.loads(done.stdout)
+        print(f"csv : {result['rows']} rows ({result['ok']} ok), {size / 2**20:.0f} MiB on disk, "
+              f"read in {result['seconds']:.1f} s; peak RSS {result['peak_kib'] / 2**10:.0f} MiB "
+              f"({result['before_kib'] / 2**10:.0f} MiB after imports, so reading added "
+              f"{(result['peak_kib'] - result['before_kib']) / 2**10:.0f} MiB)", flush=True)
+
+
 def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--rows", type=int, default=ROWS)
+    parser.add_argument("--memory", action="store_true",
+                        help="peak memory of one CSV read in a fresh process")
+    args = parser.parse_args()
+    if args.memory:
+        memory(args.rows)
+        return
+    speed(args.rows)
+
+
+def speed(rows: int) -> None:
     with tempfile.TemporaryDirectory() as folder:
         csv_path, xlsx_path = Path(folder) / "bench.csv", Path(folder) / "bench.xlsx"
-        frame = make_register(ROWS)
+        frame = make_register(rows)
         frame.to_csv(csv_path, index=False)
         # xlsxwriter writes 100,000 rows several times faster than openpyxl; either will do
         engine = "xlsxwriter" if importlib.util.find_spec("xlsxwriter") else "openpyxl"
@@ -76,7 +126,7 @@ def main() -> None:
                 ok = int((table["status"] == "ok").sum())
                 del table
             runs = ", ".join(f"{s:.2f}" for s in seconds)
-            print(f"{path.suffix[1:]:4s}: {ROWS} rows ({ok} ok) read and parsed in "
+            print(f"{path.suffix[1:]:4s}: {rows} rows ({ok} ok) read and parsed in "
                   f"{statistics.median(seconds):.2f} s (median of {RUNS}: {runs}; "
                   f"parse caches cleared before each run)", flush=True)
     sys.stdout.flush()

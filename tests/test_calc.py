@@ -194,3 +194,21 @@ def test_run_calc_raises_for_the_cli_to_exit_2():
     args = _parser().parse_args(["--nps", "4", "--temp", "hot", "--layers", "none"])
     with pytest.raises(LagauditError, match="--temp"):
         run_calc(args)
+
+
+def test_surroundings_flag_sets_what_the_item_radiates_to(rules):
+    # calc --surroundings: the bare line radiates to -10 C surroundings in 10 C air; the
+    # engine called directly with the same surroundings is the reference, and the printed
+    # conditions say which surroundings were used.
+    r = calc_item(rules=rules, nps="4", temp="150", layers="none", material="carbon-steel",
+                  ambient="10", wind="0", surroundings="-10")
+    ref = solve_item(temp=150 + ZERO_C, ambient=10 + ZERO_C, od=0.1143, length=1.0, layers=[],
+                     surroundings=-10 + ZERO_C, wind=0.0,
+                     bare_emissivity=rules.metals["carbon-steel"].emissivity)
+    assert r.state["heat_loss_W"] == pytest.approx(ref.heat_loss, rel=RTOL)
+    assert r.state["surroundings_temp_K"] == pytest.approx(-10 + ZERO_C)
+    text = format_calc(r)
+    assert "surroundings -10.0 degC" in text and "overridden: ambient, wind, surroundings" in text
+    warmer = calc_item(rules=rules, nps="4", temp="150", layers="none", material="carbon-steel",
+                       ambient="10", wind="0", surroundings="40")
+    assert warmer.state["heat_loss_W"] < r.state["heat_loss_W"]

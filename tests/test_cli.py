@@ -138,3 +138,25 @@ def test_verbose_lists_rule_files_and_findings_by_check(register, tmp_path, caps
     out = capsys.readouterr().out
     assert "Rule files read:" in out and "materials.toml" in out
     assert "Findings by check:" in out and "Rows with warnings:" in out
+
+
+def test_run_reads_the_surroundings_column(tmp_path):
+    # The register's surroundings column reaches the engine in `run`: a bare line radiating
+    # to colder surroundings loses more than the same line radiating to the air, and the
+    # results say which surroundings were used.  The findings say which surroundings each
+    # check judged under: the touch check's scenario (hot-still-day) has none of its own, so
+    # its air temperature, unless the row gives its own (a row value wins).
+    path = tmp_path / "sur.csv"
+    path.write_text("tag,nps,length,temp,insulation,material,ambient,wind,accessible,surroundings\n"
+                    "AIR,4,10,150,none,carbon-steel,20,0,yes,\n"
+                    "COLD,4,10,150,none,carbon-steel,20,0,yes,-20\n", encoding="utf-8")
+    out = tmp_path / "out"
+    assert main(["run", str(path), "--out", str(out), "--format", "csv"]) == 0
+    results = pd.read_csv(out / "results.csv", keep_default_na=False)
+    assert list(results["surroundings_temp [degC]"]) == pytest.approx([20.0, -20.0])
+    assert results["heat_loss [W]"][1] > results["heat_loss [W]"][0]
+    findings = pd.read_csv(out / "findings.csv", keep_default_na=False)
+    touch = findings[findings["check"] == "touch-temperature"].set_index("tag")
+    assert touch.loc["COLD", "surroundings_temp [degC]"] == pytest.approx(-20.0)
+    assert touch.loc["AIR", "surroundings_temp [degC]"] == pytest.approx(
+        touch.loc["AIR", "air_temp [degC]"])

@@ -1,7 +1,8 @@
-"""The installed command works from any folder: the wheel carries the rules and demo data.
+"""The installed command works from any folder: the wheel carries the rules and demo data;
+CI runs the README's own test command.
 
-Runs only where ``lagaudit`` is installed (as .ci/run installs it, with ``pip install .``, not
-editable); in a development tree without an install there is nothing to test.
+The command tests run only where ``lagaudit`` is installed (as .ci/run installs it, with
+``pip install ".[test]"``, not editable); in a development tree without an install they skip.
 """
 
 import shutil
@@ -41,3 +42,17 @@ def test_installed_package_finds_its_shipped_rules(tmp_path):
     done = subprocess.run([sys.executable, "-c", code], cwd=tmp_path, capture_output=True,
                           text=True, timeout=120)
     assert done.returncode == 0, done.stderr
+
+
+def readme_test_command():
+    """The command under the README's "Run the tests" paragraph (its first indented line)."""
+    lines = (REPO / "README.md").read_text(encoding="utf-8").splitlines()
+    start = next(i for i, line in enumerate(lines) if line.startswith("Run the tests"))
+    return next(line.strip() for line in lines[start:] if line.startswith("    "))
+
+
+def test_ci_runs_exactly_the_readme_test_command():
+    command = readme_test_command()
+    assert command.startswith('pip install ".[test]"')  # a fresh machine has no pytest yet
+    ci = (REPO / ".ci" / "run").read_text(encoding="utf-8").splitlines()
+    assert command in (line.strip() for line in ci)

@@ -16,12 +16,14 @@ import pandas as pd
 from audit.errors import Problem, RuleError
 from audit.repeats import per_distinct
 from audit.rules import Check, Rules
-from audit.thermal import ZERO_CELSIUS, PreparedItems, conductivity_tables, prepare_items, thermal_states
+from audit.thermal import (ZERO_CELSIUS, PreparedItems, conductivity_tables, has_layers,
+                           prepare_items, table_surfaces, thermal_states)
 from audit.units import UnitParseError
 
 #: Columns of a findings table, in order (``row`` indexes the item table).
 FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value", "limit", "unit",
-                   "site", "air_temp [degC]", "wind [m/s]", "rh [%]", "limit_source", "message",
+                   "site", "air_temp [degC]", "wind [m/s]", "rh [%]", "surroundings_temp [degC]",
+                   "limit_source", "message",
                    "remedy", "fixable_by_insulation", "remedy_thickness [mm]", "remedy_material"]
 
 
@@ -60,6 +62,12 @@ class CheckContext:
         if key not in self._once:
             self._once[key] = (args, function(self.table, *args))  # args kept: ids stay theirs
         return self._once[key][1]
+
+    def trial(self, items: PreparedItems, *, rows_only: bool = False) -> CheckContext:
+        """A context of the trial ``items`` (derived from :meth:`prepared`): its table, the
+        same rules, surface model and conductivity tables."""
+        return CheckContext(items.table(), self.rules, surface_model=self.surface_model,
+                            rows_only=rows_only, _tables=self.tables(), _prepared=items)
 
     def tables(self) -> tuple:
         """:func:`audit.thermal.conductivity_tables` of the rules, built once."""
@@ -120,6 +128,8 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
         "air_temp [degC]": states["air_temp_K"].to_numpy(float)[rows] - ZERO_CELSIUS,
         "wind [m/s]": states["wind_m_s"].to_numpy(float)[rows],
         "rh [%]": states["rh_pct"].to_numpy(float)[rows],
+        "surroundings_temp [degC]": states["surroundings_temp_K"].to_numpy(float)[rows]
+        - ZERO_CELSIUS,
         "limit_source": check.source,
         "message": spread(message),
         "remedy": spread(remedy),
@@ -169,23 +179,16 @@ def validated_params(check: Check, kind: CheckKind) -> dict:
     return values
 
 
-def has_layers(table: pd.DataFrame) -> np.ndarray:
-    """Per row of the item table: whether it lists at least one insulation layer."""
-    return per_distinct(lambda m: isinstance(m, tuple) and len(m) > 0,
-                        table["layer_materials"].to_numpy(object)).astype(bool)
-
-
 def bare_parts(table: pd.DataFrame):
-    """Per row of the item table: has it a bare metal part, and which, in words.
-
-    Fittings count on pipes only, as the engine counts them (see ``audit.thermal``).
-    """
+    """Per row of the item table: has it a bare metal part (:func:`audit.thermal.table_surfaces`),
+    and which, in words."""
+    has_bare = table_surfaces(table)[1]
     words = per_distinct(
         _bare_words, has_layers(table), table["condition"].fillna("").to_numpy(object),
         np.nan_to_num(table["damaged_pct"].to_numpy(float), nan=-1.0),
         (table["shape"] == "pipe").to_numpy(), np.nan_to_num(table["valves"].to_numpy(float)),
         np.nan_to_num(table["flanges"].to_numpy(float)))
-    return words != "", words
+    return has_bare, np.where(has_bare, words, "").astype(object)
 
 
 def _bare_words(insulated, condition, damaged, pipe, valves, flanges) -> str:

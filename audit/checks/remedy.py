@@ -1,8 +1,8 @@
 """Remedy thickness: the smallest standard thickness that passes all of an item's checks.
 
-For every item with a finding that insulation can fix, the insulation is replaced, in a copy
-of the item table, by one layer of the remedy material (intact, fittings covered), and the
-checks are evaluated again on the copies, for the whole register at once.  Thicker insulation
+For every item with a finding that insulation can fix, the insulation is replaced, in a trial
+(``PreparedItems.reinsulated``), by one layer of the remedy material (intact, fittings covered),
+and the checks are evaluated again on the trials, for the whole register at once.  Thicker insulation
 only helps the fixable checks (a cooler hot surface, a warmer cold one, less heat, more
 thickness against the specification), so the smallest passing standard thickness is found by
 bisection over the standard list: about log2(n) rounds instead of n, then one more round for
@@ -32,7 +32,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     completed for the findings that insulation can fix."""
     if not len(findings) or not findings["fixable_by_insulation"].any() or not context.rules.thicknesses:
         return findings
-    rules, table = context.rules, context.table
+    rules = context.rules
     fixable_findings = findings[findings["fixable_by_insulation"].astype(bool)]
     rows = np.unique(fixable_findings["row"].astype(int))
     material = _remedy_material(context, rows)
@@ -44,9 +44,6 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     failed = {c.name: np.isin(rows, fixable_findings.loc[fixable_findings["check"] == c.name, "row"])
               if c.kind != "layer-overheat" else np.ones(rows.size, bool) for c in recheck}
     standard = np.asarray(rules.thicknesses, float)
-    # The register's raw cells (``raw:`` columns) stay out of the trials: no check that the
-    # search re-evaluates reads them, and no rule selector can name them.
-    cooked = table.drop(columns=[c for c in table.columns if str(c).startswith("raw:")])
 
     def passes(at: np.ndarray, index: np.ndarray) -> np.ndarray:
         """Whether rows[at] pass every re-checked check at standard[index]."""
@@ -55,12 +52,9 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
             sub = np.flatnonzero(failed[check.name][at])
             if sub.size == 0:
                 continue
-            picked, mats, thick = rows[at[sub]], material[at[sub]], standard[index[sub]]
-            trial_context = CheckContext(
-                _insulated_copy(cooked, picked, mats, thick), rules,
-                surface_model=context.surface_model, rows_only=True, _tables=context.tables(),
-                _prepared=context.prepared().take(picked).reinsulated(
-                    material_index[at[sub]], thick))
+            trial = context.prepared().take(rows[at[sub]]).reinsulated(
+                material_index[at[sub]], standard[index[sub]])
+            trial_context = context.trial(trial, rows_only=True)
             found = kinds[check.kind].evaluate(trial_context, check, params[check.name])
             ok[sub[found["row"].to_numpy(int)]] = False
             ok[sub[~trial_context.states(check.site)["computed"].to_numpy(bool)]] = False
@@ -123,16 +117,3 @@ def _remedy_material(context: CheckContext, rows: np.ndarray) -> np.ndarray:
         if not out[i] and isinstance(installed, tuple) and installed:
             out[i] = installed[-1]
     return out
-
-
-def _insulated_copy(table: pd.DataFrame, rows: np.ndarray, material: np.ndarray, thickness):
-    """Rows ``rows`` of ``table`` re-insulated with one intact layer each, fittings covered."""
-    trial = table.iloc[rows].reset_index(drop=True)  # iloc has copied already
-    trial["layer_materials"] = per_distinct(lambda m: (m,), material)
-    trial["layer_thicknesses_m"] = per_distinct(
-        lambda t: (float(t),), np.broadcast_to(np.asarray(thickness, float), len(trial)))
-    trial["condition"] = "intact"
-    trial["damaged_pct"] = np.nan
-    trial["valves"] = 0
-    trial["flanges"] = 0
-    return trial

@@ -20,12 +20,12 @@ import pandas as pd
 
 from audit.economics import totals
 from audit.economics.energy import yearly
-from audit.economics.repair import payback_years, plan_repairs, repair_cost, repaired_copy
+from audit.economics.repair import payback_years, plan_repairs, repair_cost
 from audit.economics.rules import EconomicRules, load_economic_rules
 from audit.economics.thickness import annuity_factor, economic_thickness
 from audit.errors import RuleError
 from audit.repeats import per_distinct
-from audit.thermal import thermal_states
+from audit.thermal import prepared_states
 
 __all__ = ["Economics", "EconomicRules", "compute_economics", "energy_site", "load_economic_rules"]
 
@@ -103,8 +103,11 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
 
     spec_check = rules.checks.get("below-spec")
     plan = plan_repairs(table, rules, context.states(spec_check.site if spec_check else ""))
-    repaired = thermal_states(repaired_copy(table, plan), rules, site=site or None,
-                              surface_model=context.surface_model, tables=context.tables())
+    repaired = prepared_states(
+        context.prepared().repaired(plan.insulate, plan.to_spec, plan.spec_material,
+                                    plan.thickness_m, plan.covers > 0),
+        rules, site=site or None, surface_model=context.surface_model, tables=context.tables(),
+        index=table.index)
     after = yearly(repaired["heat_loss_W"].to_numpy(float), hours_h, econ)
     fixed = repaired["computed"].to_numpy(bool)
     saving_mwh = np.where(plan.needed, np.where(fixed, now["bought [MWh]"] - after["bought [MWh]"], np.nan),

@@ -29,7 +29,7 @@ import pandas as pd
 from audit.checks.base import has_layers
 from audit.checks.below_spec import installed_thickness, requirement
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
-from audit.repeats import per_distinct, tuples_of
+from audit.repeats import per_distinct
 
 _OD_OF_NPS = {value: mm / 1000.0 for _, value, _, mm in NOMINAL_PIPE_SIZES}
 #: Thickness [m] and size comparisons carry this slack so that the same number written in the
@@ -154,24 +154,6 @@ def plan_repairs(table: pd.DataFrame, rules, spec_states: pd.DataFrame) -> Repai
     return RepairPlan(insulate=insulate & ok, share=np.where(ok, share, 0.0), to_spec=below & ok,
                       thickness_m=thickness, covers=np.where(pipe & ok, fittings, 0.0),
                       spec_material=need.material, installed_m=have)
-
-
-def repaired_copy(table: pd.DataFrame, plan: RepairPlan) -> pd.DataFrame:
-    """The item table with every row repaired per ``plan``; rows with nothing to repair are
-    marked rejected so that the engine skips them."""
-    out = table.copy()
-    layers = out["layer_materials"].to_numpy(object).copy()
-    thick = out["layer_thicknesses_m"].to_numpy(object).copy()
-    spec = plan.to_spec
-    layers[spec] = tuples_of(plan.spec_material[spec])
-    thick[spec] = tuples_of(plan.thickness_m[spec])
-    out["layer_materials"] = layers
-    out["layer_thicknesses_m"] = thick
-    out.loc[plan.insulate, "condition"] = "intact"
-    out.loc[plan.insulate, "damaged_pct"] = np.nan
-    out.loc[plan.covers > 0, ["valves", "flanges"]] = 0
-    out.loc[~plan.needed, "status"] = "rejected"
-    return out
 
 
 def repair_cost(repair, table: pd.DataFrame, plan: RepairPlan, repaired_states: pd.DataFrame) -> np.ndarray:

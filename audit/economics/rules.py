@@ -17,7 +17,6 @@ Every problem raises :class:`~audit.errors.RuleError` naming the file and the ke
 
 from __future__ import annotations
 
-import tomllib
 from collections.abc import Iterable
 from dataclasses import dataclass, replace
 from pathlib import Path
@@ -25,6 +24,7 @@ from pathlib import Path
 from audit.errors import Problem, RuleError
 from audit.pipe_sizes import NPS_BY_VALUE
 from audit.rules import shipped_rules_dir
+from audit.rules.files import read_toml
 from audit.rules.converters import list_of, quantity, text
 from audit.units import UnitParseError, parse_quantity
 
@@ -232,14 +232,7 @@ def load_economic_rules(rule_dirs: Iterable[str | Path] = (), *, shipped: bool =
 
 
 def _read(path: Path) -> dict:
-    try:
-        return tomllib.loads(path.read_text(encoding="utf-8"))
-    except tomllib.TOMLDecodeError as exc:
-        raise RuleError(f"not valid TOML: {exc}", file=str(path),
-                        expected="TOML as described at the top of the shipped economics.toml") from exc
-    except (OSError, UnicodeDecodeError) as exc:
-        raise RuleError(f"cannot read the rule file: {exc}", file=str(path),
-                        expected="a readable UTF-8 text file") from exc
+    return read_toml(path, "TOML as described at the top of the shipped economics.toml")
 
 
 def _validate(merged, files) -> dict:

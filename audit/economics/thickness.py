@@ -6,8 +6,9 @@ interest rate, and added to the yearly cost of the heat that still flows through
 thickness with the smallest sum is the economic one.  Here the candidates are the rules'
 standard thicknesses (``[thicknesses]``), the insulation is one intact layer of the item's
 specification material (else its outermost installed material), fittings are left out (they
-are the same at every thickness), and the heat is the engine's, under the energy site.  Each
-distinct item (see ``audit.engine.items.shared_items``) is solved once per candidate thickness.
+are the same at every thickness), and the heat is the engine's, under the energy site
+(``audit.engine.items.solve_items_at_thicknesses``: each distinct item solved once per
+candidate thickness).
 """
 
 from __future__ import annotations
@@ -16,9 +17,8 @@ import numpy as np
 
 from audit.economics.energy import yearly
 from audit.economics.repair import insulation_cost
-from audit.engine.items import shared_items
-from audit.repeats import map_values
-from audit.thermal import prepared_states, site_batch
+from audit.engine.items import solve_items_at_thicknesses
+from audit.thermal import site_batch
 
 
 def annuity_factor(interest, years):
@@ -108,30 +108,21 @@ def economic_thickness(context, economic_rules, *, site, hours_h, material):
     candidates = np.asarray(rules.thicknesses, float)
     if rows.size == 0 or candidates.size == 0:
         return out
-    items = table.iloc[rows].reset_index(drop=True)
-    prepared = context.prepared().take(rows)
-    # Every item gets the same thickness at each candidate, so the items that can share one
-    # solve (the engine's shared_items: equal inputs, or pipe runs that differ in length only)
-    # are the same at every candidate: group them once, solve the representatives only.
-    probe, _ = site_batch(prepared.reinsulated(material[rows], candidates[0]), rules, site or None)
-    sharing = shared_items(probe)
-    first, group, scale = sharing if sharing is not None else \
-        (np.arange(rows.size), np.arange(rows.size), np.ones(rows.size))
-    representatives = prepared.take(first)
-    material_index = map_values(material[rows][first], context.tables()[1], -1, dtype=int)
+    items = table.iloc[rows]
+    # One intact layer of the material, fittings covered; the engine solves it at every
+    # candidate, solving once the items that can share (it groups them once for all).
+    batch, _ = site_batch(context.prepared().take(rows).reinsulated(material[rows], candidates[0]),
+                          rules, site or None)
+    solved = solve_items_at_thicknesses(batch, context.tables()[0], candidates,
+                                        surface_model=context.surface_model)
     shape = items["shape"].to_numpy(object)
     heat_cost = np.full((rows.size, candidates.size), np.nan)
     investment = np.full((rows.size, candidates.size), np.nan)
-    for k, t in enumerate(candidates):
-        got = prepared_states(representatives.reinsulated(material_index, t), rules,
-                              site=site or None, surface_model=context.surface_model,
-                              tables=context.tables())
-        computed = got["computed"].to_numpy(bool)[group]
-        heat = np.where(computed, got["heat_loss_W"].to_numpy(float)[group] * scale, np.nan)
+    for k, (t, got) in enumerate(zip(candidates, solved)):
+        heat = np.where(got.converged, got.heat_loss, np.nan)
         heat_cost[:, k] = yearly(heat, hours_h[rows], economic_rules)["cost"]
         investment[:, k] = insulation_cost(economic_rules.repair, shape, items["od_m"].to_numpy(float),
-                                           items["length_m"].to_numpy(float),
-                                           got["outer_area_m2"].to_numpy(float)[group] * scale, t)
+                                           items["length_m"].to_numpy(float), got.outer_area, t)
     annuity = float(annuity_factor(economic_rules.interest, economic_rules.life))
     out[rows] = cheapest(candidates, heat_cost, investment, annuity)[0]
     return out

@@ -305,6 +305,20 @@ _GRID = T_MIN + _STEP * np.arange(int(round((T_MAX - T_MIN) / _STEP)) + 2)
 _TABLE = _properties(_GRID)
 _VALUES = np.stack([_TABLE.conductivity, _TABLE.kinematic_viscosity, _TABLE.prandtl])
 _SLOPES = np.diff(_VALUES, axis=1)
+_MU = _TABLE.dynamic_viscosity[None]
+_MU_SLOPES = np.diff(_MU, axis=1)
+
+
+def _interpolated(rows, slopes, temperature):
+    """The table ``rows`` at ``temperature`` [K], linearly interpolated: the values, and the
+    rise of each row over the table step the temperature falls in (per step, not per K)."""
+    t = np.asarray(temperature, dtype=float)
+    _check_range(t)
+    x = (t - T_MIN) * (1.0 / _STEP)
+    i = x.astype(np.intp)  # floor, as x >= 0
+    f = x - i
+    steps = [d[i] for d in slopes]
+    return [v[i] + f * d for v, d in zip(rows, steps)], steps
 
 
 def air_transport_tabulated(temperature, *, with_derivatives=False):
@@ -340,14 +354,43 @@ def air_transport_tabulated(temperature, *, with_derivatives=False):
     -----
     Validity 100 K to 2000 K; within 2e-6 (relative) of :func:`air_properties`.
     """
-    t = np.asarray(temperature, dtype=float)
-    _check_range(t)
-    x = (t - T_MIN) * (1.0 / _STEP)
-    i = x.astype(np.intp)  # floor, as x >= 0
-    f = x - i
-    steps = [d[i] for d in _SLOPES]
-    k, nu, pr = (v[i] + f * d for v, d in zip(_VALUES, steps))
+    (k, nu, pr), steps = _interpolated(_VALUES, _SLOPES, temperature)
     values = AirTransport(conductivity=k, kinematic_viscosity=nu, prandtl=pr)
     if not with_derivatives:
         return values
     return values, AirTransport(*(d * (1.0 / _STEP) for d in steps))
+
+
+def dynamic_viscosity_tabulated(temperature, *, with_derivative=False):
+    """Dynamic viscosity of dry air at 101.325 kPa, fast.
+
+    The viscosity of :func:`air_properties`, linearly interpolated in the same 0.25 K
+    table as :func:`air_transport_tabulated`.
+
+    Parameters
+    ----------
+    temperature : float or array_like
+        Air temperature [K].
+    with_derivative : bool, optional
+        Also return the derivative in temperature [Pa s/K], that of the interpolation.
+
+    Returns
+    -------
+    numpy.ndarray
+        Dynamic viscosity [Pa s], of the shape of ``temperature``.
+    numpy.ndarray
+        Only ``with_derivative``: its derivative in temperature [Pa s/K].
+
+    Raises
+    ------
+    EngineInputError
+        For a temperature that :func:`air_transport_tabulated` refuses.
+
+    Notes
+    -----
+    The range and accuracy of :func:`air_transport_tabulated`, whose table this is.
+    """
+    (mu,), (step,) = _interpolated(_MU, _MU_SLOPES, temperature)
+    if not with_derivative:
+        return mu
+    return mu, step * (1.0 / _STEP)

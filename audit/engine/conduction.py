@@ -50,6 +50,17 @@ class ConductivityTables:
     All tables are merged into one sorted breakpoint array with each table offset by a
     fixed temperature span, so one ``numpy.searchsorted`` locates the segment of every
     (layer, temperature) pair of a whole register at once.
+
+    Examples
+    --------
+    One material whose conductivity rises linearly from 0.040 W/(m K) at 50 degC to
+    0.055 W/(m K) at 200 degC; its integral mean over that span is the mid value:
+
+    >>> tables = ConductivityTables([[(323.15, 0.040), (473.15, 0.055)]], names=["wool"])
+    >>> round(float(tables.conductivity(0, 398.15)), 4)
+    0.0475
+    >>> round(float(tables.mean_conductivity(0, 323.15, 473.15)), 4)
+    0.0475
     """
 
     def __init__(self, tables: Sequence, names: Sequence[str] | None = None):

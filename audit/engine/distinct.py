@@ -19,6 +19,10 @@ import pandas as pd
 _MULTIPLIER = np.uint64(0x9E3779B97F4A7C15)  # 2**64 / golden ratio, a common hash multiplier
 _SHIFT = np.uint64(31)
 
+#: Equal items or elements are solved once when they leave at most this share distinct;
+#: above it, gathering the distinct ones costs more than solving the repeats.
+WORTH_SHARING = 0.8
+
 
 def distinct_rows(columns) -> tuple[np.ndarray, np.ndarray]:
     """Representatives and group of each row of a key table.
@@ -92,3 +96,10 @@ def _hash(bits: list[np.ndarray], m: int) -> np.ndarray:
             h *= _MULTIPLIER
             h ^= h >> _SHIFT
     return h
+
+
+def may_repeat(columns) -> bool:
+    """Whether rows keyed on ``columns`` among others can leave few enough distinct to share:
+    a whole key has at least as many distinct rows as a few of its columns, and counting
+    those is cheap next to hashing them all (a register of random values stops here)."""
+    return distinct_count(columns) <= WORTH_SHARING * len(columns[0])

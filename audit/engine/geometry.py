@@ -51,6 +51,15 @@ def conductance_factor(geometry, r1, r2):
     numpy.ndarray
         G [1/m for a plane, - for a cylinder per metre, m for a sphere]; ``inf`` for a layer
         of zero thickness, which then carries heat with no temperature drop.
+
+    Examples
+    --------
+    A 50 mm layer on a 100 mm-diameter pipe carries 2 pi / ln 2 per metre:
+
+    >>> round(float(conductance_factor(CYLINDER, 0.05, 0.10)), 4)
+    9.0647
+    >>> conductance_factor([PLANE, SPHERE], [0.0, 0.5], [0.05, 0.55]).round(2)
+    array([20.  , 69.12])
     """
     with np.errstate(divide="ignore", invalid="ignore"):
         if np.ndim(geometry) == 0:
@@ -95,6 +104,11 @@ def outer_area_factor(geometry, r_out):
     -------
     numpy.ndarray
         1 for a plane [m2/m2], 2 pi r for a cylinder [m2/m], 4 pi r^2 for a sphere [m2].
+
+    Examples
+    --------
+    >>> outer_area_factor([PLANE, CYLINDER, SPHERE], 0.1).round(4)
+    array([1.    , 0.6283, 0.1257])
     """
     geometry = np.asarray(geometry)
     r_out = np.asarray(r_out, float)
@@ -116,6 +130,16 @@ def equivalent_hemisphere_radius_ellipsoidal_head(radius):
     ----------
     radius : array_like of float
         Outside radius of the vessel's metal [m].
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Radius of the equal-area hemisphere [m].
+
+    Examples
+    --------
+    >>> round(float(equivalent_hemisphere_radius_ellipsoidal_head(1.0)), 4)
+    0.8307
     """
     area = ELLIPSOIDAL_HEAD_AREA_PER_D2 * (2.0 * np.asarray(radius, float)) ** 2
     return np.sqrt(area / (2.0 * np.pi))

@@ -1,119 +1,34 @@
-"""Whole items (pipes, vessels, spheres, flat surfaces) from wall elements, for a register at once.
+"""Solve a register of items: the one batching wrapper around the element solve.
 
-An item is split into wall elements that the solver handles alike:
+:func:`solve_items` validates nothing and builds no element itself (see
+:mod:`audit.engine.validation` and :mod:`audit.engine.elements`); it owns what makes a large
+register cheap: items that can share one solve are solved once and their answers scaled to
+each (:func:`shared_items`), and a large batch is cut into parts solved side by side in
+threads (:func:`solve_threads`).  :func:`solve_items_at_thicknesses` solves one batch at
+several insulation thicknesses, grouping its items once for all of them.
 
-* a pipe: its run, a cylinder per metre (horizontal, or vertical with its run as height);
-* a vessel: its shell, a cylinder per metre of tangent-to-tangent length, plus its two heads:
-  hemispherical heads are the two halves of one sphere of the vessel's radius; 2:1
-  ellipsoidal heads are solved as hemispheres of equal area
-  (:func:`~audit.engine.geometry.equivalent_hemisphere_radius_ellipsoidal_head`); flat heads
-  are plane walls (facing up and down on a vertical vessel, vertical on a horizontal one);
-* a sphere: one spherical wall;
-* a flat surface: a plane wall per square metre, vertical or facing up or down.
-
-Damaged insulation splits each element into its intact share and a bare share; missing
-insulation leaves only the bare share.  Uninsulated valves and flanges add bare pipe of the
-same size, as an equivalent length that the caller takes from a sourced table.  Heat rates
-add up over an item's elements; the item's surface temperature is that of its worst element
-(the farthest from the air temperature, on the side of the process).
+The batch's types and codes live in :mod:`audit.engine.batch` and are re-exported here.
 """
 
 from __future__ import annotations
 
 import os
+from collections.abc import Iterator
 from concurrent.futures import ThreadPoolExecutor
-from dataclasses import dataclass, field
 
 import numpy as np
 
-from audit.engine import geometry, surface
-from audit.engine.air import T_MAX as AIR_T_MAX
-from audit.engine.air import T_MIN as AIR_T_MIN
+from audit.engine.batch import (  # noqa: F401 (re-exported: the engine's item interface)
+    ELLIPSOIDAL, FACING_DOWN, FACING_UP, FLAT, FLAT_HEADS, HEAD_CODES, HEMISPHERICAL, HORIZONTAL,
+    HORIZONTAL_VESSEL, NO_HEADS, ORIENTATION_CODES, PIPE, SHAPE_CODES, SPHERE_ITEM, VERTICAL,
+    VERTICAL_VESSEL, ItemBatch, ItemStates, complete, item_surfaces, rows_of, take_items)
 from audit.engine.conduction import ConductivityTables
-from audit.engine.distinct import distinct_count, distinct_rows
-from audit.engine.geometry import CYLINDER, PLANE, SPHERE
-from audit.engine.solver import solve_walls
+from audit.engine.distinct import WORTH_SHARING, distinct_rows, may_repeat
+from audit.engine.elements import solve_valid_items
+from audit.engine.validation import invalid_reasons
 
-# Item shapes.
-PIPE, VERTICAL_VESSEL, HORIZONTAL_VESSEL, SPHERE_ITEM, FLAT = range(5)
-SHAPE_CODES = {"pipe": PIPE, "vertical-vessel": VERTICAL_VESSEL,
-               "horizontal-vessel": HORIZONTAL_VESSEL, "sphere": SPHERE_ITEM, "flat": FLAT}
-# Vessel heads.
-HEMISPHERICAL, ELLIPSOIDAL, FLAT_HEADS, NO_HEADS = range(4)
-HEAD_CODES = {"hemispherical": HEMISPHERICAL, "ellipsoidal": ELLIPSOIDAL, "flat": FLAT_HEADS,
-              "none": NO_HEADS}
-# Orientation: pipes horizontal or vertical; flat surfaces vertical, facing up or down.
-HORIZONTAL, VERTICAL, FACING_UP, FACING_DOWN = range(4)
-ORIENTATION_CODES = {"horizontal": HORIZONTAL, "vertical": VERTICAL, "up": FACING_UP,
-                     "down": FACING_DOWN}
-
-# Element roles within an item.
-MAIN, HEAD, FITTING = range(3)
-
-#: Equal items or elements are solved once when they leave at most this share distinct;
-#: above it, gathering the distinct ones costs more than solving the repeats.
-_WORTH_SHARING = 0.8
 #: Fewest items a thread is given: below this a part's fixed costs outweigh the second core.
 _ITEMS_PER_THREAD = 10_000
-
-
-@dataclass
-class ItemBatch:
-    """n items as numpy arrays in SI units; L is the most layers any item has.
-
-    Layers are packed innermost first; a slot with ``layer_table < 0`` holds no layer.
-    NaN in ``wall_thickness`` or ``inner_film`` means none (the hot face then sits at the
-    process temperature: conservative, common practice).
-    """
-
-    shape: np.ndarray              #: item shape code (SHAPE_CODES)
-    od: np.ndarray                 #: outside diameter of the metal [m]
-    length: np.ndarray             #: pipe run or vessel tangent length [m]
-    area: np.ndarray               #: flat surface area [m2]
-    heads: np.ndarray              #: vessel head code (HEAD_CODES)
-    orientation: np.ndarray        #: ORIENTATION_CODES
-    t_process: np.ndarray          #: process temperature [K]
-    t_air: np.ndarray              #: ambient air temperature [K]
-    t_surroundings: np.ndarray     #: radiant surroundings temperature [K]
-    wind: np.ndarray               #: wind speed [m/s]
-    emissivity: np.ndarray         #: outer surface emissivity of the insulated part [-]
-    bare_emissivity: np.ndarray    #: emissivity of the bare metal [-]
-    layer_table: np.ndarray        #: conductivity-table index per layer, (n, L)
-    layer_thickness: np.ndarray    #: [m], (n, L)
-    layer_factor: np.ndarray       #: conductivity multiplier per layer (wet insulation) [-], (n, L)
-    bare_fraction: np.ndarray      #: share of the surface without insulation [-]
-    fitting_length: np.ndarray     #: bare pipe equivalent of uninsulated fittings [m]
-    wall_thickness: np.ndarray = None    #: metal wall [m]
-    wall_conductivity: np.ndarray = None  #: metal wall [W/(m K)]
-    inner_film: np.ndarray = None  #: inside film coefficient [W/(m2 K)]
-    iso_ca: np.ndarray = None      #: simplified surface constant, horizontal pipes [W/(m2 K)]
-    iso_cb: np.ndarray = None      #: simplified surface constant, vertical surfaces [W/(m2 K)]
-    bare_iso_ca: np.ndarray = None  #: the same for bare metal [W/(m2 K)]
-    bare_iso_cb: np.ndarray = None  #: the same for bare metal [W/(m2 K)]
-
-    def __len__(self) -> int:
-        return len(self.shape)
-
-
-@dataclass
-class ItemStates:
-    """Per-item answers of :func:`solve_items`, numpy arrays in SI units."""
-
-    surface_temp: np.ndarray            #: worst element's outer surface [K]
-    surface_temp_insulated: np.ndarray  #: the insulated main element's surface [K] (NaN if bare)
-    interface_temps: np.ndarray         #: insulated main element, hot face ... surface [K], (n, L+1)
-    heat_loss: np.ndarray               #: whole item incl. damage and fittings [W]
-    heat_loss_per_m: np.ndarray         #: heat_loss over the run length (pipes, else NaN) [W/m]
-    heat_flux: np.ndarray               #: at the main element's outer surface [W/m2]
-    q_conv: np.ndarray                  #: convective part of heat_flux [W/m2]
-    q_rad: np.ndarray                   #: radiative part of heat_flux [W/m2] (0 if lumped)
-    outer_area: np.ndarray              #: outer surface of the whole item [m2]
-    convective_share: np.ndarray        #: share of heat_loss leaving by convection [-]
-    radiative_share: np.ndarray         #: share of heat_loss leaving by radiation [-]
-    converged: np.ndarray               #: bool
-    reason: np.ndarray                  #: why an item was not computed, else ""
-    warnings: np.ndarray                #: "; "-joined warnings, else ""
-    balance_error: np.ndarray = field(default=None)  #: worst element's relative heat-balance error
 
 
 def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
@@ -148,29 +63,65 @@ def solve_items(batch: ItemBatch, tables: ConductivityTables, *,
     side in threads: numpy lets go of the interpreter lock inside its array operations, so
     the parts use every core.  An item's answer does not depend on the cut.
     """
-    b = _complete(batch)
+    b = complete(batch)
     sharing = _shared_items(b)
     if sharing is None:
         return _solve_in_parts(b, tables, surface_model, threads)
-    first, group, scale = sharing
-    states = _solve_in_parts(take_items(b, first), tables, surface_model, threads)
-    shared = _rows_of(states, group)
+    states = _solve_in_parts(take_items(b, sharing[0]), tables, surface_model, threads)
+    return _spread(states, sharing)
+
+
+def solve_items_at_thicknesses(batch: ItemBatch, tables: ConductivityTables, thicknesses, *,
+                               surface_model: str = "correlations",
+                               threads: int | None = None) -> Iterator[ItemStates]:
+    """:func:`solve_items` of ``batch`` with every item's one layer at each thickness in turn.
+
+    Parameters
+    ----------
+    batch : ItemBatch
+        The items, SI units, each with at most one layer (its thickness is replaced).
+    tables : ConductivityTables
+        Conductivity tables that ``batch.layer_table`` indexes.
+    thicknesses : array_like, shape (k,)
+        Layer thicknesses to solve at [m]
+    surface_model, threads
+        As for :func:`solve_items`.
+
+    Yields
+    ------
+    ItemStates
+        One per thickness, in order, each what :func:`solve_items` returns for the batch at
+        it (one at a time: a register's answers at every thickness at once would be large).
+
+    Notes
+    -----
+    Every item has the same thickness at each candidate, so the items that can share one
+    solve are the same at every candidate: they are grouped once, and only the
+    representatives are solved per thickness.
+    """
+    b = complete(batch)
+    if b.layer_table.shape[1] != 1:
+        raise ValueError("solve_items_at_thicknesses: the items must have one layer slot each")
+    thicknesses = np.asarray(thicknesses, float).reshape(-1)
+    if thicknesses.size == 0:
+        return
+    b.layer_thickness = np.full_like(b.layer_thickness, thicknesses[0])
+    sharing = _shared_items(b)
+    solved = b if sharing is None else take_items(b, sharing[0])
+    for thickness in thicknesses:
+        solved.layer_thickness = np.full_like(solved.layer_thickness, thickness)
+        states = _solve_in_parts(solved, tables, surface_model, threads)
+        yield states if sharing is None else _spread(states, sharing)
+
+
+def _spread(states: ItemStates, sharing) -> ItemStates:
+    """The answers of the representatives of :func:`shared_items`, given to every item of
+    their groups: heat loss and outer area scaled to each item's run."""
+    _, group, scale = sharing
+    shared = rows_of(states, group)
     shared.heat_loss = shared.heat_loss * scale
     shared.outer_area = shared.outer_area * scale
     return shared
-
-
-def take_items(batch: ItemBatch, rows: np.ndarray) -> ItemBatch:
-    """The items ``rows`` of ``batch`` (positions, repeats allowed) as a batch of their own."""
-    return _rows_of(batch, rows)
-
-
-def _rows_of(arrays, rows):
-    """A dataclass of per-row arrays (items, elements, answers) holding the rows ``rows``
-    (positions, repeats allowed: a copy; or a slice: views); fields that are not arrays are
-    kept as they are."""
-    return type(arrays)(**{name: (np.asarray(value)[rows] if isinstance(value, np.ndarray | list)
-                                  else value) for name, value in vars(arrays).items()})
 
 
 def shared_items(batch: ItemBatch):
@@ -187,19 +138,19 @@ def shared_items(batch: ItemBatch):
         factor [-] that turns its representative's heat loss and outer area into its own (the
         ratio of run lengths, else 1); None when at most a fifth of the items would be saved.
     """
-    return _shared_items(_complete(batch))
+    return _shared_items(complete(batch))
 
 
 def _shared_items(b: ItemBatch):
-    """:func:`shared_items` of a batch already completed by :func:`_complete`."""
+    """:func:`shared_items` of a batch already completed by :func:`complete`."""
     length_free = ((b.shape == PIPE) & (b.orientation == HORIZONTAL) & (b.fitting_length == 0)
                    & np.isfinite(b.length) & (b.length > 0))
     run = np.where(length_free, 1.0, b.length)  # 1 m: any run, the answer per metre
-    if not _may_repeat([b.t_process, b.od, run, b.fitting_length, b.layer_thickness[:, 0]]):
+    if not may_repeat([b.t_process, b.od, run, b.fitting_length, b.layer_thickness[:, 0]]):
         return None
     # Inputs an item neither uses nor checks are left out of its key (NaN for all): the
     # finish of a part it does not have, the area of a round item, the heads of a pipe.
-    has_cover, bare_part = _surfaces(b)
+    has_cover, bare_part = item_surfaces(b)
     vessel = np.isin(b.shape, [VERTICAL_VESSEL, HORIZONTAL_VESSEL])
     unused = {"area": b.shape != FLAT, "heads": ~vessel,
               **{name: ~has_cover for name in ("emissivity", "iso_ca", "iso_cb")},
@@ -213,26 +164,11 @@ def _shared_items(b: ItemBatch):
             value = np.where(unused[name][:, None], np.nan, value)
         key.extend(value.T)
     first, group = distinct_rows(key)
-    if first.size > _WORTH_SHARING * len(b):
+    if first.size > WORTH_SHARING * len(b):
         return None
     with np.errstate(invalid="ignore", divide="ignore"):
         scale = np.where(length_free, b.length / b.length[first][group], 1.0)
     return first, group, scale
-
-
-def _surfaces(b: ItemBatch):
-    """Per item, whether it has an insulated outer surface, and whether it has bare metal
-    (damaged or missing insulation, no layers, uninsulated fittings)."""
-    covered = (b.layer_table >= 0).any(axis=1)
-    return (covered & (b.bare_fraction < 1),
-            (b.bare_fraction > 0) | ~covered | (b.fitting_length > 0))
-
-
-def _may_repeat(columns) -> bool:
-    """Whether rows keyed on ``columns`` among others can leave few enough distinct to share:
-    a whole key has at least as many distinct rows as a few of its columns, and counting
-    those is cheap next to hashing them all (a register of random values stops here)."""
-    return distinct_count(columns) <= _WORTH_SHARING * len(columns[0])
 
 
 def _solve_in_parts(b: ItemBatch, tables: ConductivityTables, surface_model: str,
@@ -243,7 +179,7 @@ def _solve_in_parts(b: ItemBatch, tables: ConductivityTables, surface_model: str
     if parts == 1:
         return _solve_all(b, tables, surface_model)
     cuts = np.linspace(0, n, parts + 1).astype(int)
-    pieces = [_rows_of(b, slice(start, stop)) for start, stop in zip(cuts, cuts[1:])]  # views
+    pieces = [rows_of(b, slice(start, stop)) for start, stop in zip(cuts, cuts[1:])]  # views
     with ThreadPoolExecutor(parts) as pool:
         solved = list(pool.map(lambda piece: _solve_all(piece, tables, surface_model), pieces))
     return type(solved[0])(**{
@@ -266,448 +202,5 @@ def solve_threads(n_items: int, threads: int | None = None) -> int:
 
 
 def _solve_all(b: ItemBatch, tables: ConductivityTables, surface_model: str) -> ItemStates:
-    n = len(b)
-    reasons = _invalid_reasons(b, tables, surface_model)
-    ok = reasons == ""
-    elements = _build_elements(b, np.flatnonzero(ok))
-    walls = _wall_geometry(elements)
-    solution = _solve_distinct(b, elements, walls, tables, surface_model)
-    return _aggregate(b, tables, elements, walls, solution, reasons, n,
-                      surface.surface_model_separates_radiation(surface_model))
-
-
-# --------------------------------------------------------------------------------------
-# inputs
-
-def _complete(batch: ItemBatch) -> ItemBatch:
-    """Fill the optional arrays, so the rest never tests for None."""
-    n = len(batch)
-    nan = np.full(n, np.nan)
-    filled = {}
-    for name in ("wall_thickness", "wall_conductivity", "inner_film", "iso_ca", "iso_cb",
-                 "bare_iso_ca", "bare_iso_cb"):
-        value = getattr(batch, name)
-        filled[name] = nan if value is None else np.asarray(value, float)
-    arrays = {name: np.asarray(getattr(batch, name)) for name in batch.__dataclass_fields__
-              if name not in filled}
-    arrays["layer_table"] = np.atleast_2d(arrays["layer_table"]).astype(int).reshape(n, -1)
-    for name in ("layer_thickness", "layer_factor"):
-        arrays[name] = np.asarray(arrays[name], float).reshape(n, -1)
-    return ItemBatch(**arrays, **filled)
-
-
-def _invalid_reasons(b: ItemBatch, tables: ConductivityTables, surface_model: str) -> np.ndarray:
-    """Per item, every input that makes it impossible to compute, as text ("" when fine)."""
-    n = len(b)
-    problems: dict[int, list[str]] = {}
-
-    def flag(mask, text):
-        for i in np.flatnonzero(mask):
-            problems.setdefault(int(i), []).append(text)
-
-    def bad(x):
-        return ~np.isfinite(np.asarray(x, float))
-
-    shape = b.shape
-    needs_od = shape != FLAT
-    flag(~np.isin(shape, list(SHAPE_CODES.values())), "unknown shape")
-    flag(needs_od & (bad(b.od) | ~(b.od > 0)), "outside diameter must be above zero")
-    flag(np.isin(shape, [PIPE, VERTICAL_VESSEL, HORIZONTAL_VESSEL]) & (bad(b.length) | ~(b.length > 0)),
-         "length must be above zero")
-    flag((shape == FLAT) & (bad(b.area) | ~(b.area > 0)), "area must be above zero")
-    for name, label in (("t_process", "process temperature"), ("t_air", "air temperature"),
-                        ("t_surroundings", "surroundings temperature")):
-        value = getattr(b, name)
-        flag(bad(value) | ~(value > 0) | ~(value < 5000.0),
-             f"{label} must be above absolute zero and below 5000 K")
-    flag(bad(b.wind) | ~(b.wind >= 0), "wind speed must be zero or more")
-    # Film temperatures must stay inside the air-property range of audit.engine.air.
-    coldest = np.minimum(np.minimum(b.t_process, b.t_surroundings), b.t_air)
-    hottest = np.maximum(np.maximum(b.t_process, b.t_surroundings), b.t_air)
-    flag(((coldest + b.t_air) / 2 < AIR_T_MIN) | ((hottest + b.t_air) / 2 > AIR_T_MAX)
-         | (b.t_air < AIR_T_MIN) | (b.t_air > AIR_T_MAX),
-         f"temperatures leave the air-property range ({AIR_T_MIN:g} to {AIR_T_MAX:g} K at the film)")
-    has_cover, bare_part = _surfaces(b)
-    flag(has_cover & (bad(b.emissivity) | ~((b.emissivity >= 0) & (b.emissivity <= 1))),
-         "emissivity must be between 0 and 1")
-    flag(bare_part & (bad(b.bare_emissivity) | ~((b.bare_emissivity >= 0) & (b.bare_emissivity <= 1))),
-         "bare-metal emissivity must be between 0 and 1")
-    present = b.layer_table >= 0
-    flag((b.layer_table >= len(tables)).any(axis=1), "unknown conductivity table")
-    thick = np.where(present, b.layer_thickness, 0.0)
-    flag((bad(thick) | (thick < 0)).any(axis=1), "layer thickness must be zero or more")
-    factor = np.where(present, b.layer_factor, 1.0)
-    flag((bad(factor) | (factor <= 0)).any(axis=1), "conductivity multiplier must be above zero")
-    flag(bad(b.bare_fraction) | (b.bare_fraction < 0) | (b.bare_fraction > 1),
-         "bare share must be between 0 and 1")
-    flag(bad(b.fitting_length) | (b.fitting_length < 0), "fitting length must be zero or more")
-    flag((b.fitting_length > 0) & (shape != PIPE), "uninsulated fittings are counted on pipes only")
-    wall = np.isfinite(b.wall_thickness)
-    flag(wall & ~((b.wall_thickness > 0) & (b.wall_thickness < b.od / 2) & (b.wall_conductivity > 0)),
-         "metal wall needs a thickness below the radius and a conductivity above zero")
-    flag(np.isfinite(b.inner_film) & ~(b.inner_film > 0), "inner film coefficient must be above zero")
-    if surface.get_surface_model(surface_model).name == "iso12241-simplified":
-        def missing(ca, cb):
-            return ~((ca > 0) & (cb > 0))
-        flag(has_cover & missing(b.iso_ca, b.iso_cb),
-             "the simplified ISO 12241 surface model needs the jacket's constants C_A and C_B")
-        flag(bare_part & missing(b.bare_iso_ca, b.bare_iso_cb),
-             "the simplified ISO 12241 surface model needs the bare metal's constants C_A and C_B")
-    reasons = np.full(n, "", dtype=object)
-    for i, texts in problems.items():
-        reasons[i] = "; ".join(texts)
-    return reasons
-
-
-# --------------------------------------------------------------------------------------
-# elements
-
-@dataclass
-class _Elements:
-    item: np.ndarray
-    role: np.ndarray
-    insulated: np.ndarray
-    weight: np.ndarray          # basis units per element: m, m2 or spheres
-    geometry: np.ndarray
-    kind: np.ndarray            # surface kind
-    r_metal: np.ndarray
-    length: np.ndarray          # characteristic length for natural convection
-    flow_length: np.ndarray     # length along the wind, for plates
-    layer_table: np.ndarray
-    layer_thickness: np.ndarray
-    layer_factor: np.ndarray
-    emissivity: np.ndarray
-    iso_ca: np.ndarray
-    iso_cb: np.ndarray
-
-
-def _build_elements(b: ItemBatch, items: np.ndarray) -> _Elements:
-    blocks = []
-    radius = b.od / 2.0
-    shape, orient = b.shape, b.orientation
-    insulatable = (b.layer_table >= 0).any(axis=1)
-
-    def add(idx, role, weight, geometry_code, kind, r_metal, length, flow_length=None):
-        """Add an intact element and a bare one for each item in ``idx``, where they weigh > 0."""
-        if idx.size == 0:
-            return
-        flow_length = length if flow_length is None else flow_length
-        share_bare = np.where(insulatable[idx], b.bare_fraction[idx], 1.0)
-        for insulated, share in ((True, 1.0 - share_bare), (False, share_bare)):
-            w = weight * share
-            keep = w > 0
-            blocks.append((idx[keep], role, insulated, w[keep], geometry_code, kind[keep],
-                           r_metal[keep], length[keep], flow_length[keep]))
-
-    def kinds(value, idx):
-        return np.full(idx.size, value)
-
-    pipes = items[shape[items] == PIPE]
-    vertical_pipe = orient[pipes] == VERTICAL
-    add(pipes, MAIN, b.length[pipes], CYLINDER,
-        np.where(vertical_pipe, surface.VERTICAL_CYLINDER, surface.HORIZONTAL_CYLINDER),
-        radius[pipes], b.length[pipes])
-
-    vessels = items[np.isin(shape[items], [VERTICAL_VESSEL, HORIZONTAL_VESSEL])]
-    upright = shape[vessels] == VERTICAL_VESSEL
-    add(vessels, MAIN, b.length[vessels], CYLINDER,
-        np.where(upright, surface.VERTICAL_CYLINDER, surface.HORIZONTAL_CYLINDER),
-        radius[vessels], b.length[vessels])
-    heads = b.heads[vessels]
-    domed = vessels[np.isin(heads, [HEMISPHERICAL, ELLIPSOIDAL])]
-    r_head = np.where(b.heads[domed] == HEMISPHERICAL, radius[domed],
-                      geometry.equivalent_hemisphere_radius_ellipsoidal_head(radius[domed]))
-    add(domed, HEAD, np.ones(domed.size), SPHERE, kinds(surface.SPHERE, domed), r_head,
-        2.0 * r_head)
-    flat_heads = vessels[heads == FLAT_HEADS]
-    disc = np.pi * radius[flat_heads] ** 2
-    up_right = shape[flat_heads] == VERTICAL_VESSEL
-    top, side = flat_heads[up_right], flat_heads[~up_right]
-    # A disc's area over its perimeter is R/2; wind crosses its diameter.
-    add(top, HEAD, disc[up_right], PLANE, kinds(surface.HORIZONTAL_PLATE_UP, top), radius[top],
-        radius[top] / 2.0, 2.0 * radius[top])
-    add(top, HEAD, disc[up_right], PLANE, kinds(surface.HORIZONTAL_PLATE_DOWN, top), radius[top],
-        radius[top] / 2.0, 2.0 * radius[top])
-    add(side, HEAD, 2.0 * disc[~up_right], PLANE, kinds(surface.VERTICAL_PLATE, side),
-        radius[side], 2.0 * radius[side])
-
-    spheres = items[shape[items] == SPHERE_ITEM]
-    add(spheres, MAIN, np.ones(spheres.size), SPHERE, kinds(surface.SPHERE, spheres),
-        radius[spheres], b.od[spheres])
-
-    flats = items[shape[items] == FLAT]
-    side_length = np.sqrt(b.area[flats])
-    facing = orient[flats]
-    flat_kind = np.select([facing == FACING_UP, facing == FACING_DOWN],
-                          [surface.HORIZONTAL_PLATE_UP, surface.HORIZONTAL_PLATE_DOWN],
-                          surface.VERTICAL_PLATE)
-    # Height of a vertical wall and A/P of a horizontal one, taking the area as a square.
-    flat_length = np.where(flat_kind == surface.VERTICAL_PLATE, side_length, side_length / 4.0)
-    add(flats, MAIN, b.area[flats], PLANE, flat_kind, np.ones(flats.size), flat_length, side_length)
-
-    fitted = pipes[b.fitting_length[pipes] > 0]
-    if fitted.size:
-        kind = np.where(orient[fitted] == VERTICAL, surface.VERTICAL_CYLINDER,
-                        surface.HORIZONTAL_CYLINDER)
-        blocks.append((fitted, FITTING, False, b.fitting_length[fitted], CYLINDER, kind,
-                       radius[fitted], b.length[fitted], b.length[fitted]))
-
-    keys = ("item", "role", "insulated", "weight", "geometry", "kind", "r_metal", "length",
-            "flow_length")
-    parts = {k: [] for k in keys}
-    for idx, role, insulated, weight, geometry_code, kind, r_metal, length, flow in blocks:
-        m = idx.size
-        for key, value in zip(keys, (idx, np.full(m, role), np.full(m, insulated), weight,
-                                     np.full(m, geometry_code), kind, r_metal, length, flow)):
-            parts[key].append(np.asarray(value))
-    cat = {k: (np.concatenate(v) if v else np.empty(0)) for k, v in parts.items()}
-    item = cat["item"].astype(int)
-    insulated = cat["insulated"].astype(bool)
-    # Layers of each element: its item's, or none (an extra last row) for bare metal.
-    layers = np.where(insulated, item, len(b))
-    present = b.layer_table >= 0
-
-    def layer_slots(values, fill):
-        """Each element's row of ``values``; ``fill`` in slots without a layer."""
-        rows = np.full((len(b) + 1, values.shape[1]), fill, values.dtype)
-        np.copyto(rows[:-1], values, where=present)
-        return rows[layers]
-
-    return _Elements(
-        item=item, role=cat["role"].astype(int), insulated=insulated, weight=cat["weight"],
-        geometry=cat["geometry"].astype(int), kind=cat["kind"].astype(int),
-        r_metal=cat["r_metal"], length=cat["length"], flow_length=cat["flow_length"],
-        layer_table=layer_slots(b.layer_table, -1),
-        layer_thickness=layer_slots(b.layer_thickness, 0.0),
-        layer_factor=layer_slots(b.layer_factor, 1.0),
-        emissivity=np.where(insulated, b.emissivity[item], b.bare_emissivity[item]),
-        iso_ca=np.where(insulated, b.iso_ca[item], b.bare_iso_ca[item]),
-        iso_cb=np.where(insulated, b.iso_cb[item], b.bare_iso_cb[item]),
-    )
-
-
-@dataclass
-class _WallGeometry:
-    present: np.ndarray       # layer slots holding a layer, (m, L)
-    radii: np.ndarray         # metal face, then each layer's outer radius [m], (m, L + 1)
-    conductance: np.ndarray   # geometric factor times conductivity multiplier, (m, L)
-    outer_area: np.ndarray    # outer surface per basis, (m,)
-
-
-def _wall_geometry(e: _Elements) -> _WallGeometry:
-    b_item = e.item
-    present = e.layer_table >= 0
-    thickness = np.where(present, e.layer_thickness, 0.0)
-    radii = e.r_metal[:, None] + np.concatenate(
-        [np.zeros((b_item.size, 1)), np.cumsum(thickness, axis=1)], axis=1)
-    if np.any(e.geometry == PLANE):
-        # Plane walls count their "radius" from the metal face.
-        radii = np.where((e.geometry == PLANE)[:, None], radii - e.r_metal[:, None], radii)
-    g = np.empty(e.layer_factor.shape)
-    for code in (PLANE, CYLINDER, SPHERE):
-        rows = np.flatnonzero(e.geometry == code)
-        g[rows] = geometry.conductance_factor(code, radii[rows, :-1], radii[rows, 1:])
-    conductance = g * e.layer_factor
-    r_out = radii[:, -1]
-    outer_area = geometry.outer_area_factor(e.geometry, r_out)
-    return _WallGeometry(present, radii, conductance, outer_area)
-
-
-def _inner_resistance(b: ItemBatch, e: _Elements) -> np.ndarray:
-    """Inner film plus metal wall, per basis [K/W]; zero where neither is given."""
-    item = e.item
-    t_wall = b.wall_thickness[item]
-    k_wall = b.wall_conductivity[item]
-    h_in = b.inner_film[item]
-    has_wall = np.isfinite(t_wall)
-    r_out = np.where(e.geometry == PLANE, 0.0, e.r_metal)
-    r_in = np.where(has_wall, np.where(e.geometry == PLANE, 0.0, r_out - t_wall), r_out)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        g_wall = geometry.conductance_factor(e.geometry, np.where(e.geometry == PLANE, 0.0, r_in),
-                                             np.where(e.geometry == PLANE, t_wall, r_out))
-        wall = np.where(has_wall, 1.0 / (k_wall * g_wall), 0.0)
-        film_area = geometry.outer_area_factor(e.geometry, np.where(e.geometry == PLANE, 1.0, r_in))
-        film = np.where(np.isfinite(h_in), 1.0 / (h_in * film_area), 0.0)
-    return wall + film
-
-
-def _solve_distinct(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model):
-    """Solve each distinct element once (see :mod:`audit.engine.distinct`) and share the answer.
-
-    The key holds every input of the solver; lengths only where the surface models use them
-    (vertical cylinders and plates: natural-convection height; plates: the wind's run).
-    """
-    item = e.item
-    r_inner = _inner_resistance(b, e)
-    if not _may_repeat([b.t_process[item], w.radii[:, -1]]):
-        return _solve(b, e, w, tables, surface_model, r_inner)
-    uses_length = ~np.isin(e.kind, [surface.HORIZONTAL_CYLINDER, surface.SPHERE])
-    plate = np.isin(e.kind, [surface.VERTICAL_PLATE, surface.HORIZONTAL_PLATE_UP,
-                             surface.HORIZONTAL_PLATE_DOWN])
-    key = [b.t_process[item], b.t_air[item], b.t_surroundings[item], b.wind[item], e.kind,
-           e.emissivity, e.iso_ca, e.iso_cb, r_inner, w.outer_area, w.radii[:, -1],
-           np.where(uses_length, e.length, 0.0), np.where(plate, e.flow_length, 0.0),
-           *w.conductance.T, *np.where(w.present, e.layer_table, -1).T]
-    first, group = distinct_rows(key)
-    if first.size > _WORTH_SHARING * item.size:
-        return _solve(b, e, w, tables, surface_model, r_inner)
-    sol = _solve(b, _rows_of(e, first), _rows_of(w, first), tables, surface_model, r_inner[first])
-    return _rows_of(sol, group)
-
-
-def _solve(b: ItemBatch, e: _Elements, w: _WallGeometry, tables, surface_model, r_inner):
-    item = e.item
-    t_process = b.t_process[item]
-    t_air = b.t_air[item]
-    t_sur = b.t_surroundings[item]
-    diameter = 2.0 * w.radii[:, -1]
-    wind = b.wind[item]
-
-    model = surface.surface_flux_function(
-        surface_model, e.kind, diameter, e.length, wind, t_air, t_sur, e.emissivity,
-        iso_ca=e.iso_ca, iso_cb=e.iso_cb, flow_length=e.flow_length)
-    t_low = np.minimum(np.minimum(t_process, t_air), t_sur)
-    t_high = np.maximum(np.maximum(t_process, t_air), t_sur)
-    return solve_walls(t_process, t_air, t_low, t_high, w.conductance,
-                       np.where(w.present, e.layer_table, 0), w.present, tables,
-                       r_inner, w.outer_area, model.take)
-
-
-def _aggregate(b, tables, e: _Elements, w: _WallGeometry, sol, reasons, n,
-               separates_radiation: bool) -> ItemStates:
-    item = e.item
-    t_air = b.t_air[item]
-    outer_area = w.outer_area
-    n_layers = e.layer_table.shape[1]
-    weight = e.weight
-    heat = weight * sol.heat_rate
-    heat_loss = np.bincount(item, weights=heat, minlength=n)
-    area = np.bincount(item, weights=weight * outer_area, minlength=n)
-    conv = np.bincount(item, weights=weight * outer_area * sol.q_conv, minlength=n)
-    rad = np.bincount(item, weights=weight * outer_area * sol.q_rad, minlength=n)
-
-    # Worst element: farthest from the air on the process side.
-    side = np.sign(b.t_process - b.t_air)
-    excess = (sol.surface_temp - t_air) * side[item]
-    most = np.full(n, -np.inf)
-    np.maximum.at(most, item, excess)
-    worst = np.full(n, item.size)
-    at_most = np.flatnonzero(excess == most[item])
-    np.minimum.at(worst, item[at_most], at_most)
-    worst[worst == item.size] = -1
-
-    main_insulated = np.full(n, -1)
-    sel = np.flatnonzero((e.role == MAIN) & e.insulated)
-    main_insulated[item[sel]] = sel
-    main_any = main_insulated.copy()
-    sel_bare = np.flatnonzero((e.role == MAIN) & ~e.insulated)
-    fill = main_any[item[sel_bare]] < 0
-    main_any[item[sel_bare][fill]] = sel_bare[fill]
-
-    def pick(values, index, fill_value=np.nan):
-        out = np.full(n, fill_value, dtype=float)
-        has = index >= 0
-        out[has] = values[index[has]]
-        return out
-
-    interfaces = np.full((n, n_layers + 1), np.nan)
-    has = main_insulated >= 0
-    interfaces[has] = sol.interface_temps[main_insulated[has]]
-
-    element_ok = sol.converged
-    item_ok = np.bincount(item, weights=~element_ok, minlength=n) == 0
-    balance = np.full(n, np.nan)
-    np.fmax.at(balance, item, sol.balance_error)
-
-    reason = reasons.copy()
-    failed = ~item_ok & (reason == "")
-    if failed.any():
-        reason[failed] = _failure_reasons(np.flatnonzero(failed), e, sol, tables)
-    computed = (reason == "")
-    warnings = _warnings(n, e, sol, tables, w.present)
-
-    length = np.where(b.shape == PIPE, b.length, np.nan)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        per_m = heat_loss / length
-        conv_share = np.where(heat_loss != 0, conv / heat_loss, np.nan)
-        rad_share = np.where(heat_loss != 0, rad / heat_loss, np.nan)
-    if not separates_radiation:
-        conv_share = np.full(n, np.nan)
-        rad_share = np.full(n, np.nan)
-    flux_main = sol.q_conv + sol.q_rad
-
-    def mask(x):
-        return np.where(computed, x, np.nan)
-
-    return ItemStates(
-        surface_temp=mask(pick(sol.surface_temp, worst)),
-        surface_temp_insulated=mask(pick(sol.surface_temp, main_insulated)),
-        interface_temps=np.where(computed[:, None], interfaces, np.nan),
-        heat_loss=mask(heat_loss),
-        heat_loss_per_m=mask(per_m),
-        heat_flux=mask(pick(flux_main, main_any)),
-        q_conv=mask(pick(sol.q_conv, main_any)),
-        q_rad=mask(pick(sol.q_rad, main_any)),
-        outer_area=mask(area),
-        convective_share=mask(conv_share),
-        radiative_share=mask(rad_share),
-        converged=computed,
-        reason=reason,
-        warnings=warnings,
-        balance_error=mask(balance),
-    )
-
-
-def _failure_reasons(items, e, sol, tables) -> list[str]:
-    """Why each of ``items`` did not converge, from its unconverged elements."""
-    bad = np.flatnonzero(~sol.converged & np.isin(e.item, items))
-    by_item: dict[int, list[int]] = {}
-    for element in bad:
-        by_item.setdefault(int(e.item[element]), []).append(element)
-    out = []
-    for i in items:
-        elements = by_item[int(i)]
-        if np.isnan(sol.interface_temps[elements]).any():
-            names = sorted({tables.names[t] for t in e.layer_table[elements].ravel() if t >= 0})
-            out.append("conductivity of " + ", ".join(names)
-                       + " extrapolates to zero or below within the item's temperature span")
-        else:
-            worst = np.nanmax(sol.balance_error[elements])
-            out.append(f"surface heat balance did not close (relative error {worst:.1e})")
-    return out
-
-
-def _warnings(n, e, sol, tables, present) -> np.ndarray:
-    """Layers whose temperature span leaves their conductivity data."""
-    out = np.full(n, "", dtype=object)
-    temps = sol.interface_temps
-    outside = np.zeros(present.shape, bool)
-    for j in range(present.shape[1]):
-        col = present[:, j]
-        if col.any():
-            idx = np.flatnonzero(col)
-            outside[idx, j] = tables.outside(e.layer_table[idx, j], temps[idx, j], temps[idx, j + 1])
-    rows, cols = np.nonzero(outside)
-    if rows.size == 0:
-        return out
-    text = np.array([f"conductivity of {name} extrapolated beyond its data "
-                     f"({lo - 273.15:g} to {hi - 273.15:g} degC)"
-                     for name, lo, hi in zip(tables.names, tables.t_min, tables.t_max)], dtype=object)
-    # One note per (item, material), in table order: each item's set of materials as a row
-    # of flags, and each distinct set joined into text once.
-    flags = np.zeros((n, len(tables)), bool)
-    flags[e.item[rows], e.layer_table[rows, cols]] = True
-    warned = np.flatnonzero(flags.any(axis=1))
-    first, which = distinct_rows(_packed_words(flags[warned]))
-    joined = np.array(["; ".join(text[flags[warned[i]]]) for i in first], dtype=object)
-    out[warned] = joined[which]
-    return out
-
-
-def _packed_words(flags: np.ndarray) -> np.ndarray:
-    """Rows of booleans as 64-bit words, one row per word: a key for ``distinct_rows``."""
-    packed = np.packbits(flags, axis=1)
-    width = -(-packed.shape[1] // 8) * 8
-    padded = np.zeros((flags.shape[0], width), np.uint8)
-    padded[:, :packed.shape[1]] = packed
-    return padded.view(np.uint64).T
+    """Validate every item of ``b``, then solve the valid ones (one part, one thread)."""
+    return solve_valid_items(b, invalid_reasons(b, tables, surface_model), tables, surface_model)

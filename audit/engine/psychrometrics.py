@@ -130,6 +130,13 @@ def saturation_pressure_hyland_wexler(temp):
     References
     ----------
     ASHRAE Handbook - Fundamentals (2017), ch. 1, eqs. 5 and 6; Hyland & Wexler (1983).
+
+    Examples
+    --------
+    Over ice at -20 degC, over water at 20 degC:
+
+    >>> saturation_pressure_hyland_wexler([253.15, 293.15]).round(1)
+    array([ 103.3, 2338.8])
     """
     temp = np.asarray(temp, float)
     with np.errstate(invalid="ignore"):
@@ -153,6 +160,11 @@ def dew_point_valid(air_temp, rh):
     bool or numpy.ndarray of bool
         True where the air temperature is within 173.15 K to 473.15 K, the relative humidity
         is above 0 % and at most 100 %, and the dew point is not below 173.15 K.
+
+    Examples
+    --------
+    >>> dew_point_valid(293.15, [50.0, 0.0, 101.0])
+    array([ True, False, False])
     """
     air_temp, rh = np.broadcast_arrays(np.asarray(air_temp, float), np.asarray(rh, float))
     with np.errstate(invalid="ignore", divide="ignore"):
@@ -188,6 +200,13 @@ def dew_point_hyland_wexler(air_temp, rh):
     ----------
     Hyland, R. W., Wexler, A. (1983). ASHRAE Transactions 89(2A), 500-519; ASHRAE Handbook -
     Fundamentals (2017), ch. 1, eqs. 5, 6 and 24.
+
+    Examples
+    --------
+    Air at 20 degC and 50 % relative humidity:
+
+    >>> round(float(dew_point_hyland_wexler(293.15, 50.0)) - 273.15, 2)
+    9.27
     """
     air_temp, rh = np.broadcast_arrays(np.asarray(air_temp, float), np.asarray(rh, float))
     ok = np.asarray(dew_point_valid(air_temp, rh))

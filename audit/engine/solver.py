@@ -46,6 +46,7 @@ class WallSolution:
     balance_error: np.ndarray      #: |Q_layers - Q_surface| / |Q_surface| [-], (n,)
     converged: np.ndarray          #: bool, (n,)
     iterations: int                #: sweeps used
+    validity: np.ndarray = None    #: bits of the correlations' published ranges left, (n,)
 
 
 def solve_walls(t_process, t_air, t_low, t_high, conductance, table, present,

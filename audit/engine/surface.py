@@ -36,7 +36,7 @@ kind                   natural convection (length)     forced convection (length
 =====================  ==============================  ================================
 horizontal cylinder    Churchill & Chu cylinder (D)    Churchill & Bernstein (D)
 vertical cylinder      Churchill & Chu plate (height)  Churchill & Bernstein (D)
-sphere                 Churchill (D)                   Whitaker, mu/mu_s = 1 (D)
+sphere                 Churchill (D)                   Whitaker, (mu_inf/mu_s)^1/4 (D)
 vertical plate         Churchill & Chu plate (height)  flat plate laminar/mixed (flow)
 horizontal plate       McAdams on A/P: the rising-     flat plate laminar/mixed (flow)
                        flow law for hot-up and
@@ -47,25 +47,30 @@ horizontal plate       McAdams on A/P: the rising-     flat plate laminar/mixed 
 * Natural convection: air properties at the film temperature (T_s + T_a)/2,
   beta = 1/T_film, Ra from |T_s - T_a|.
 * Forced convection (wind > 0, assumed across cylinders and spheres and along
-  plates): air properties at the air temperature, the free-stream convention
-  (Whitaker's own; Churchill & Bernstein and the flat-plate average are
-  usually quoted at the film temperature).  Chosen because with film
-  properties a large surface-to-air difference makes the Reynolds number fall
-  as the surface heats; near the flat plate's transition (Re = 5e5), where Nu
-  rises as Re^2.3, the flux then fell with rising surface temperature, by up
-  to 14 % in our scans: an artifact that would give the solver several roots.
-  With free-stream properties the forced coefficient does not depend on T_s
-  and the flux rises monotonically.  Vertical cylinders use the cross-flow
-  correlation on the diameter, the wind being horizontal.
+  plates), as each correlation was published: Churchill & Bernstein and the
+  flat-plate average with air properties at the film temperature; Whitaker's
+  sphere with free-stream properties and his viscosity ratio
+  (mu_inf/mu_s)^(1/4), mu_s at the surface temperature (held at the ends of
+  the air-property range beyond them, and flagged).  Vertical cylinders use the
+  cross-flow correlation on the diameter, the wind being horizontal.
+* With film properties a plate's flux can fall as its surface heats: near the
+  flat plate's transition (Re = 5e5) Nu grows as Re^2.3 while Re falls with the
+  film's viscosity.  Cylinders and spheres stay monotonic over the engine's
+  domain; for plates, ``tests/engine/test_surface.py`` shows that over the
+  domain's process temperatures the wall's heat balance keeps one root for any
+  series resistance, and the solver keeps its bracket and bisection regardless.
 * With no wind the forced term is left out: its Re -> 0 limits (0.3 for a
   cylinder, 2 for a sphere) are conduction limits the natural correlations
   already contain.
 * Combination: h = (h_natural^3 + h_forced^3)^(1/3) on coefficients, which is
   Churchill's Nusselt-number rule when both use the same length.
-* The correlations are applied also outside their tested ranges (the ranges
-  are in each docstring), e.g. at Ra below 1e4 on horizontal plates as a
-  surface approaches the air temperature, or to vertical cylinders thinner
-  than D/L >= 35/Gr_L^(1/4), where the plate law understates the loss.
+* The correlations are applied also outside their published ranges (each
+  registered with its correlation), e.g. at Ra below 1e4 on horizontal plates
+  as a surface approaches the air temperature; ``flux.outside_validity(T_s)``
+  says, per surface, which ranges a correlation carrying at least 30 % of the
+  combined coefficient left (:data:`VALIDITY_FLAGS`), and the items carry it in
+  their warnings.  Not flagged: vertical cylinders thinner than
+  D/L >= 35/Gr_L^(1/4), where the plate law understates the loss.
 """
 
 from __future__ import annotations
@@ -75,7 +80,9 @@ from typing import Callable, NamedTuple
 import numpy as np
 
 from audit.engine import convection as cv
-from audit.engine.air import air_transport_tabulated
+from audit.engine.air import T_MAX as AIR_T_MAX
+from audit.engine.air import T_MIN as AIR_T_MIN
+from audit.engine.air import air_transport_tabulated, dynamic_viscosity_tabulated
 from audit.engine.radiation import radiative_flux_grey_body, radiative_flux_grey_body_slope
 from audit.errors import EngineInputError
 
@@ -177,6 +184,8 @@ def surface_flux_function(model, kind, diameter, length, wind, air_temp, surroun
         T_s [W/(m2 K)], exact for the model as computed (air properties and all),
         for a Newton solver.  ``flux.take(rows)`` is the same model for the
         surfaces ``rows`` (positions) only, without validating them again.
+        ``flux.outside_validity(T_s)`` gives per surface the bits of
+        :data:`VALIDITY_FLAGS` whose published range a correlation left [-].
 
     Raises
     ------
@@ -217,7 +226,10 @@ class _Group(NamedTuple):
     facing_up: bool            # horizontal plates: the exposed face looks up
     g_l3: np.ndarray           # g L^3 of the natural-convection length [m4/s2]
     inv_l: np.ndarray          # 1 / natural-convection length [1/m]
-    h_forced: np.ndarray | None  # forced-convection coefficient [W/(m2 K)]; None in calm air
+    forced: Callable | None    # forced-convection correlation; None in calm air
+    speed_length: np.ndarray   # wind speed times the forced-convection length [m2/s]
+    inv_lf: np.ndarray         # 1 / forced-convection length [1/m]
+    free: tuple | None         # spheres in wind: Re, Pr, k and mu of the free stream
 
 
 _NATURAL = {
@@ -228,13 +240,33 @@ _NATURAL = {
     HORIZONTAL_PLATE_UP: None,
     HORIZONTAL_PLATE_DOWN: None,
 }
-_FORCED = (  # (kinds, correlation, its length: the diameter or the flow length)
-    ((HORIZONTAL_CYLINDER, VERTICAL_CYLINDER), cv.nusselt_forced_cylinder_churchill_bernstein,
-     "diameter"),
-    ((SPHERE,), cv.nusselt_forced_sphere_whitaker, "diameter"),
-    ((VERTICAL_PLATE, HORIZONTAL_PLATE_UP, HORIZONTAL_PLATE_DOWN),
-     cv.nusselt_forced_flat_plate_mixed_incropera, "flow_length"),
-)
+_FORCED = {  # on the diameter, plates on the flow length
+    HORIZONTAL_CYLINDER: cv.nusselt_forced_cylinder_churchill_bernstein,
+    VERTICAL_CYLINDER: cv.nusselt_forced_cylinder_churchill_bernstein,
+    SPHERE: cv.nusselt_forced_sphere_whitaker,
+    VERTICAL_PLATE: cv.nusselt_forced_flat_plate_mixed_incropera,
+    HORIZONTAL_PLATE_UP: cv.nusselt_forced_flat_plate_mixed_incropera,
+    HORIZONTAL_PLATE_DOWN: cv.nusselt_forced_flat_plate_mixed_incropera,
+}
+_WHITAKER = cv.nusselt_forced_sphere_whitaker
+
+#: A correlation's published range is checked where its own coefficient is at least this
+#: share of the combined one: leaving out a smaller term changes (h_n^3 + h_f^3)^(1/3) by
+#: less than 1 %, so its extrapolation cannot matter.
+_MATERIAL_SHARE = 0.3
+
+VALIDITY_FLAGS: tuple[tuple[cv.Correlation, cv.Validity], ...] = tuple(
+    (c, v) for c in cv.available_correlations() for v in c.validity)
+"""Bit ``i`` of :meth:`flux.outside_validity` stands for ``VALIDITY_FLAGS[i]``: a registered
+correlation and one of its published ranges."""
+_FLAGS = {c.function: [(v, 1 << VALIDITY_FLAGS.index((c, v))) for v in c.validity]
+          for c in cv.available_correlations()}
+
+
+def validity_warning(correlation: cv.Correlation, validity: cv.Validity) -> str:
+    """The words an item's ``warnings`` carry when ``correlation`` left ``validity``."""
+    return (f"{correlation.regime} convection, {correlation.geometry}: {correlation.reference} "
+            f"used outside its published range {validity.text()} (extrapolated)")
 
 
 def _rows_by_key(key):
@@ -263,50 +295,77 @@ def _build_correlations(kind, *, diameter, length, wind, air_temp, surroundings_
              "flow_length", flow_length, "> 0 m for plates in wind")
 
     natural_length = np.where(uses_diameter, diameter, length)
-    # Forced convection with free-stream (air-temperature) properties: see the notes of
-    # the "correlations" model in the module docstring.
-    h_forced = np.zeros(kind.size)
-    lengths = {"diameter": diameter, "flow_length": flow_length}
-    for kinds, forced, length_name in _FORCED:
-        at = np.flatnonzero(windy & np.isin(kind, kinds))
-        if at.size:
-            free = air_transport_tabulated(air_temp[at])
-            lf = lengths[length_name][at]
-            nu_f = forced(wind[at] * lf / free.kinematic_viscosity, free.prandtl)
-            h_forced[at] = nu_f * free.conductivity / lf
+    forced_length = np.where(plates, flow_length, diameter)
     return _CorrelationsFlux(kind, windy, air_temp, surroundings_temp, emissivity,
-                             GRAVITY * natural_length ** 3, 1.0 / natural_length, h_forced)
+                             GRAVITY * natural_length ** 3, 1.0 / natural_length,
+                             wind * forced_length, 1.0 / forced_length)
+
+
+def _free_stream(t_air, speed_length):
+    """Whitaker's free-stream Re, Pr, k [W/(m K)] and mu [Pa s] at air temperatures ``t_air``
+    [K], for spheres of wind speed times diameter ``speed_length`` [m2/s]."""
+    air = air_transport_tabulated(t_air)
+    return (speed_length / air.kinematic_viscosity, air.prandtl, air.conductivity,
+            dynamic_viscosity_tabulated(t_air))
 
 
 class _CorrelationsFlux:
     """``flux(T_s)`` of the "correlations" model for n validated surfaces (see
-    :func:`surface_flux_function`); ``h_forced`` is 0 where the air is calm."""
+    :func:`surface_flux_function`)."""
 
-    def __init__(self, kind, windy, t_air, t_sur, emissivity, g_l3, inv_l, h_forced):
-        self._surfaces = (kind, windy, t_air, t_sur, emissivity, g_l3, inv_l, h_forced)
+    def __init__(self, kind, windy, t_air, t_sur, emissivity, g_l3, inv_l, speed_length,
+                 inv_lf):
+        self._surfaces = (kind, windy, t_air, t_sur, emissivity, g_l3, inv_l, speed_length,
+                          inv_lf)
         self.n = kind.size
         self.t_air, self.t_sur, self.emissivity = t_air, t_sur, emissivity
-        self.groups = [
-            _Group(rows, _NATURAL[value // 2], value // 2 == HORIZONTAL_PLATE_UP, g_l3[rows],
-                   inv_l[rows], h_forced[rows] if value % 2 else None)
-            for value, rows in _rows_by_key(2 * kind.astype(np.int64) + windy)]
+        self.groups = []
+        for value, rows in _rows_by_key(2 * kind.astype(np.int64) + windy):
+            k, in_wind = value // 2, bool(value % 2)
+            # Spheres in wind: Whitaker's Re, Pr and k are of the free stream, fixed here;
+            # only mu_s follows the surface.
+            free = _free_stream(t_air[rows], speed_length[rows]) if in_wind and k == SPHERE \
+                else None
+            self.groups.append(_Group(
+                rows, _NATURAL[k], k == HORIZONTAL_PLATE_UP, g_l3[rows], inv_l[rows],
+                _FORCED[k] if in_wind else None, speed_length[rows], inv_lf[rows], free))
 
     def take(self, rows):
         """The same model for the surfaces ``rows`` (positions) only, not validated again."""
         return _CorrelationsFlux(*(value[rows] for value in self._surfaces))
 
     def __call__(self, surface_temp, slope=False):
+        return self._evaluate(_rows("surface_temp", surface_temp, self.n), slope, None)
+
+    def outside_validity(self, surface_temp):
+        """Per surface, the bits of :data:`VALIDITY_FLAGS` whose range a correlation left at
+        ``surface_temp`` [K], counting only correlations that carry a material share of the
+        coefficient and surfaces that exchange heat with the air; 0 where T_s is NaN."""
         ts = _rows("surface_temp", surface_temp, self.n)
+        bits = np.zeros(self.n, np.int64)
+        known = np.flatnonzero(np.isfinite(ts))
+        if known.size:
+            part = self if known.size == self.n else self.take(known)
+            found = np.zeros(known.size, np.int64)
+            part._evaluate(ts[known], False, found)
+            bits[known] = found
+        return bits
+
+    def _evaluate(self, ts, slope, bits):
+        """(q_conv, q_rad[, dq_dT]) at ``ts``; with ``bits`` (an int array), also set there
+        the validity flags."""
         t_air = self.t_air
         dt = ts - t_air
         t_film = 0.5 * (ts + t_air)
         if slope:
             air, d_air = air_transport_tabulated(t_film, with_derivatives=True)
             # Logarithmic slopes in T_s (the film temperature moves half as fast):
-            # d ln Ra/dT_s = 1/dt + p_ra, d ln Pr/dT_s = p_pr, d ln k/dT_s = p_k.
+            # d ln Ra/dT_s = 1/dt + p_ra, d ln Pr/dT_s = p_pr, d ln k/dT_s = p_k,
+            # d ln nu/dT_s = p_nu (so d ln Re/dT_s = -p_nu).
             p_pr = 0.5 * d_air.prandtl / air.prandtl
             p_k = 0.5 * d_air.conductivity / air.conductivity
-            p_ra = p_pr - 0.5 / t_film - d_air.kinematic_viscosity / air.kinematic_viscosity
+            p_nu = 0.5 * d_air.kinematic_viscosity / air.kinematic_viscosity
+            p_ra = p_pr - 0.5 / t_film - 2.0 * p_nu
             growth = np.empty(self.n)
         else:
             air = air_transport_tabulated(t_film)
@@ -329,17 +388,37 @@ class _CorrelationsFlux:
                 natural = g.natural(ra, pr_g, with_slopes=slope)
             nu_nat, s_ra, s_pr = natural if slope else (natural, None, None)
             h_g = h_natural = nu_nat * k[r] * g.inv_l
-            if g.h_forced is not None:
+            if g.forced is not None:
+                h_forced, d_ln_forced, groups = self._forced(
+                    g, ts[r], k[r], nu[r], pr_g, (p_nu[r], p_pr[r], p_k[r]) if slope else None)
                 # Coefficients, not Nusselt numbers: the two regimes may use different lengths.
-                h_g = cv.combine_nusselt(h_natural, g.h_forced)
+                h_g = cv.combine_nusselt(h_natural, h_forced)
             h[r] = h_g
+            if bits is not None:
+                heat_flows = dt[r] != 0
+                with np.errstate(invalid="ignore", divide="ignore"):
+                    material_natural = heat_flows & (h_natural >= _MATERIAL_SHARE * h_g)
+                    if g.natural is None:
+                        self._flag(bits, r, material_natural & rising,
+                                   cv.nusselt_natural_horizontal_plate_up_mcadams,
+                                   {"Ra": ra, "Pr": pr_g})
+                        self._flag(bits, r, material_natural & ~rising,
+                                   cv.nusselt_natural_horizontal_plate_down_mcadams,
+                                   {"Ra": ra, "Pr": pr_g})
+                    else:
+                        self._flag(bits, r, material_natural, g.natural, {"Ra": ra, "Pr": pr_g})
+                    if g.forced is not None:
+                        self._flag(bits, r, heat_flows & (h_forced >= _MATERIAL_SHARE * h_g),
+                                   g.forced, groups)
             if slope:
-                # dt d ln h/dT_s, written without 1/dt; combined, d ln h = (h_n/h)^3 d ln h_n.
+                # dt d ln h/dT_s, written without 1/dt; combined,
+                # d ln h = (h_n/h)^3 d ln h_n + (h_f/h)^3 d ln h_f.
                 dt_g = dt[r]
                 e = s_ra * (1.0 + dt_g * p_ra[r]) + dt_g * (s_pr * p_pr[r] + p_k[r])
-                if g.h_forced is not None:
-                    share = h_natural / h_g
-                    e *= share * share * share
+                if g.forced is not None:
+                    share_n, share_f = h_natural / h_g, h_forced / h_g
+                    e = (share_n * share_n * share_n * e
+                         + share_f * share_f * share_f * dt_g * d_ln_forced)
                 growth[r] = e
         q_conv = h * dt
         q_rad = radiative_flux_grey_body(ts, self.t_sur, self.emissivity)
@@ -347,6 +426,52 @@ class _CorrelationsFlux:
             return q_conv, q_rad
         dq_dt = h * (1.0 + growth) + radiative_flux_grey_body_slope(ts, self.emissivity)
         return q_conv, q_rad, dq_dt
+
+    @staticmethod
+    def _forced(g, ts, k, nu, pr, slopes):
+        """Forced-convection coefficient [W/(m2 K)] of group ``g`` at surface temperatures
+        ``ts`` with film properties ``k``, ``nu``, ``pr``; its d ln h/dT_s [1/K] (None
+        unless ``slopes``, the film's d ln nu, d ln Pr and d ln k per kelvin of T_s, are
+        given); and the dimensionless groups its published range is about."""
+        slope = slopes is not None
+        if g.free is not None:
+            # Whitaker: free-stream Re, Pr and k; mu_s at the surface temperature, held
+            # inside the air-property range (a surface beyond it is flagged).
+            re, pr_free, k_free, mu_free = g.free
+            held = np.clip(ts, AIR_T_MIN, AIR_T_MAX)
+            mu_s = dynamic_viscosity_tabulated(held, with_derivative=slope)
+            if slope:
+                mu_s, d_mu_s = mu_s
+                d_mu_s = np.where(held == ts, d_mu_s, 0.0)
+            ratio = mu_free / mu_s
+            out = _WHITAKER(re, pr_free, ratio, with_slopes=slope)
+            nu_f = out[0] if slope else out
+            h_f = nu_f * k_free * g.inv_lf
+            # A surface beyond the air-property range counts as outside the ratio's range.
+            groups = {"Re": re, "Pr": pr_free,
+                      "mu_inf/mu_s": np.where(held == ts, ratio, -np.inf)}
+            if not slope:
+                return h_f, None, groups
+            return h_f, -out[3] * d_mu_s / mu_s, groups
+        re = g.speed_length / nu
+        out = g.forced(re, pr, with_slopes=slope)
+        nu_f = out[0] if slope else out
+        h_f = nu_f * k * g.inv_lf
+        groups = {"Re": re, "Pr": pr, "Re Pr": re * pr}
+        if not slope:
+            return h_f, None, groups
+        _, s_re, s_pr = out
+        p_nu, p_pr, p_k = slopes
+        return h_f, -s_re * p_nu + s_pr * p_pr + p_k, groups
+
+    @staticmethod
+    def _flag(bits, rows, where, function, groups):
+        """Set in ``bits`` (at ``rows`` where ``where``) the flag of each published range of
+        ``function`` that ``groups`` (quantity -> values) leave."""
+        found = np.zeros(where.shape, np.int64)
+        for validity, bit in _FLAGS[function]:
+            found[where & validity.outside(groups[validity.quantity])] |= bit
+        bits[rows] |= found
 
 
 # ----------------------------------------------------------------------------------------
@@ -448,6 +573,10 @@ class _Iso12241Flux:
             return h * dt, np.zeros(n)
         return h * dt, np.zeros(n), h + rise
 
+    def outside_validity(self, surface_temp):
+        """No published range of a correlation to leave: zeros (see the correlations model)."""
+        return np.zeros(self.t_air.size, np.int64)
+
 
 # ----------------------------------------------------------------------------------------
 # registry
@@ -458,7 +587,8 @@ SURFACE_MODELS: dict[str, SurfaceModel] = {m.name: m for m in (
         "natural convection per surface kind (Churchill & Chu cylinder and vertical plate, "
         "Churchill sphere, McAdams horizontal plates on A/P), forced convection in wind "
         "(Churchill & Bernstein cylinder, Whitaker sphere, flat plate laminar/mixed), "
-        "combined as (h_n^3 + h_f^3)^(1/3), air properties at the film temperature; plus "
+        "combined as (h_n^3 + h_f^3)^(1/3), air properties at the film temperature (Whitaker: "
+        "free stream, with (mu_inf/mu_s)^(1/4)); plus "
         "grey-body radiation to the surroundings",
         True,
         "see audit.engine.convection and audit.engine.radiation",

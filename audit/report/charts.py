@@ -113,14 +113,8 @@ def findings_by_area(counts: pd.DataFrame, severities, top: int = MAX_BARS) -> M
     for k, (area, row) in enumerate(counts.iterrows()):
         y, x = TOP + k * ROW, float(LABEL)
         parts.append(_label(area or "(none)", y))
-        for severity in severities:
-            n = int(row.get(severity, 0))
-            if n:
-                parts.append(f'<rect x="{x:.1f}" y="{y + 2}" width="{n * scale:.1f}" height="{ROW - 4}" '
-                             f'fill="{SEVERITY_COLOURS[severity]}"><title>{escape(severity)}: {n}</title></rect>')
-                x += n * scale
-        parts.append(f'<text x="{x + 4:.1f}" y="{y + ROW - 4}" font-size="10" fill="{INK}">'
-                     f'{int(totals[k])}</text>')
+        parts += _stacked(x, y, [(s, int(row.get(s, 0)), SEVERITY_COLOURS[s]) for s in severities],
+                          scale, int(totals[k]))
     legend, lx = [], float(LABEL)
     for severity in severities:
         legend.append(f'<rect x="{lx:.1f}" y="{TOP - 16}" width="10" height="10" '
@@ -132,6 +126,19 @@ def findings_by_area(counts: pd.DataFrame, severities, top: int = MAX_BARS) -> M
             f'split by severity</text>')
     return _svg(height, head + "".join(legend) + "".join(parts),
                 f"Findings by area, {len(counts)} areas")
+
+
+def _stacked(x: float, y: float, segments, scale: float, total: int) -> list[str]:
+    """One stacked bar at row ``y`` from ``x``: ``(name, count, colour)`` segments left to
+    right (each titled with its name and count), then the total."""
+    parts = []
+    for name, n, colour in segments:
+        if n:
+            parts.append(f'<rect x="{x:.1f}" y="{y + 2}" width="{n * scale:.1f}" height="{ROW - 4}" '
+                         f'fill="{colour}"><title>{escape(name)}: {n}</title></rect>')
+            x += n * scale
+    parts.append(f'<text x="{x + 4:.1f}" y="{y + ROW - 4}" font-size="10" fill="{INK}">{total}</text>')
+    return parts
 
 
 def _svg(height: float, body: str, title: str) -> Markup:
@@ -161,3 +168,58 @@ def _ticks(low: float, high: float) -> list[float]:
 
 def _money(x: float) -> str:
     return f"{x:,.0f}"
+
+
+#: Colours of the checks in the trend chart, in order of first appearance.
+CHECK_COLOURS = ("#1f4e79", "#c2410c", "#d9a21b", "#5b8c5a", "#7b9ebf", "#8e5572", "#3d3d3d",
+                 "#b5651d", "#6a7f2a", "#9aa5b1")
+
+
+def audit_trend(labels, heat_loss_kw, cost, by_check: pd.DataFrame, currency: str,
+                top: int = MAX_BARS) -> Markup | None:
+    """One row per audit (oldest first, the latest ``top``): plant heat loss, annual cost, and
+    the findings stacked by check.  ``by_check``: one row per audit, one column per check."""
+    if len(labels) < 1:
+        return None
+    labels, heat_loss_kw, cost = list(labels)[-top:], np.asarray(heat_loss_kw, float)[-top:], \
+        np.asarray(cost, float)[-top:]
+    by_check = by_check.iloc[-top:]
+    panel = (WIDTH - LABEL - 20) / 3
+    columns = [(LABEL, heat_loss_kw, "plant heat loss [kW]"),
+               (LABEL + panel, cost, f"annual cost [{currency}]")]
+    parts = []
+    for x0, values, title in columns:
+        finite = values[np.isfinite(values)]
+        scale = (panel - 60) / finite.max() if finite.size and finite.max() > 0 else 0.0
+        parts.append(f'<text x="{x0:.1f}" y="{TOP - 8}" font-size="10" font-weight="bold" '
+                     f'fill="{INK}">{escape(title)}</text>')
+        for k, v in enumerate(values):
+            if np.isfinite(v):
+                y = TOP + k * ROW
+                parts.append(f'<rect x="{x0:.1f}" y="{y + 2}" width="{max(v, 0) * scale:.1f}" '
+                             f'height="{ROW - 4}" fill="{BAR}"/><text x="{x0 + max(v, 0) * scale + 4:.1f}" '
+                             f'y="{y + ROW - 4}" font-size="10" fill="{INK}">{escape(_money(v))}</text>')
+    x0 = LABEL + 2 * panel
+    totals = by_check.sum(axis=1).to_numpy(float)
+    scale = (panel - 30) / totals.max() if len(totals) and totals.max() > 0 else 0.0
+    colours = {check: CHECK_COLOURS[k % len(CHECK_COLOURS)] for k, check in enumerate(by_check.columns)}
+    parts.append(f'<text x="{x0:.1f}" y="{TOP - 8}" font-size="10" font-weight="bold" '
+                 f'fill="{INK}">findings by check</text>')
+    for k, (_, row) in enumerate(by_check.iterrows()):
+        parts += _stacked(x0, TOP + k * ROW, [(str(c), int(n), colours[c]) for c, n in row.items()],
+                          scale, int(totals[k]))
+    for k, label in enumerate(labels):
+        parts.append(_label(label, TOP + k * ROW))
+    rows_end = TOP + len(labels) * ROW + 8
+    legend, lx, ly = [], float(LABEL), rows_end + 4
+    for check, colour in colours.items():
+        if lx > WIDTH - 120:
+            lx, ly = float(LABEL), ly + 14
+        legend.append(f'<rect x="{lx:.1f}" y="{ly}" width="10" height="10" fill="{colour}"/>'
+                      f'<text x="{lx + 13:.1f}" y="{ly + 9}" font-size="10" fill="{INK}">'
+                      f'{escape(str(check))}</text>')
+        lx += 140
+    head = (f'<text x="0" y="12" font-size="11" font-weight="bold" fill="{INK}">Audits of this plant, '
+            f'oldest first: heat loss, annual cost and findings by check</text>')
+    return _svg(ly + 18, head + "".join(parts) + "".join(legend),
+                f"Trend across {len(labels)} audits")

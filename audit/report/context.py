@@ -12,6 +12,9 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
+from markupsafe import Markup
+
+from audit import methods
 from audit.digests import rules_digest, sha256_file
 from audit.io.readers.table import ITEM_COLUMNS
 from audit.report import charts
@@ -98,6 +101,10 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "rejected": _rejected(results, max_rows),
         "assumptions": _assumptions(audit, meta, economics),
         "economics": _economics(audit, area, economics, max_rows),
+        "methods": [{name: Markup(methods.to_html(value)) for name, value in m._asdict().items()}
+                    for m in methods.METHODS],
+        "method_notes": [Markup(methods.to_html(note)) for note in methods.NOTES],
+        "since_last": _since_last(audit, max_rows),
         "packs": packs,
     }
     context["charts"] = {
@@ -108,6 +115,15 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "areas": charts.findings_by_area(_area_severity_counts(findings), severities),
     }
     return context
+
+
+def _since_last(audit, max_rows: int) -> dict | None:
+    """The "Since the last audit" section, when the audit was compared with its history."""
+    if getattr(audit, "history", None) is None:
+        return None
+    from audit.history.section import since_last_section
+
+    return since_last_section(audit.history, audit, max_rows=max_rows)
 
 
 def _meta(audit, meta: dict) -> dict:
@@ -214,8 +230,10 @@ def _assumptions(audit, meta: dict, economics) -> list[str]:
     for name in used:
         site = rules.sites.get(name)
         if site is not None:
+            surroundings = ("" if not np.isfinite(site.surroundings) else
+                            f", surroundings {fmt(site.surroundings - 273.15)} °C")
             lines.append(f"Site condition {name}: air {fmt(site.ambient - 273.15)} °C, wind "
-                         f"{fmt(site.wind)} m/s, RH {fmt(site.rh)} % ({site.source}).")
+                         f"{fmt(site.wind)} m/s, RH {fmt(site.rh)} %{surroundings} ({site.source}).")
     if economics is not None:
         extra = economics.assumptions
         if isinstance(extra, dict):

@@ -100,7 +100,9 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
             "findings": [{"check": f["check"], "severity": f["severity"],
                           "found": f"{fmt(f['value'])} {f['unit']} against a limit of "
                                    f"{fmt(f['limit'])} {f['unit']}",
-                          "conditions": conditions_text(f), "message": f["message"]} for f in records],
+                          "conditions": conditions_text(f), "message": f["message"],
+                          # with --history: since when the finding has stood
+                          "first_reported": f.get("first_reported", "")} for f in records],
             "remedies": list(dict.fromkeys(f["remedy"] for f in records if f["remedy"])),
             "quantities": _quantities(item, records, outer_area[row]),
         })
@@ -366,10 +368,13 @@ def _csv(orders: list[dict], files: dict, places: list[str], printed: set) -> pd
             "valve_covers": int(q.get("valve", 0)), "flange_covers": int(q.get("flange", 0)),
             "source": o["source"],
             "work_order_file": "workorders/" + files[o["area"]] if id(o) in printed else "",
+            "first_reported": min((f["first_reported"] for f in o["findings"]), default=""),
             **{c: location.get(c, "") for c in places if c != "area_code"},
         })
     columns = ["tag", "area_code", "priority", "checks", "remedy", "remedy_material",
                "remedy_thickness [mm]", "insulate [m]", "insulate [m2]", "reinstate [m]",
                "reinstate [m2]", "valve_covers", "flange_covers", "source", "work_order_file",
                *[c for c in places if c != "area_code"]]
+    if any(r["first_reported"] for r in rows):  # with --history: the item's oldest finding
+        columns.insert(columns.index("source"), "first_reported")
     return pd.DataFrame(rows, columns=columns)

@@ -31,7 +31,9 @@ def describe_rules(rules: Rules) -> str:
     section("Jackets", rules.jackets, lambda j: f"emissivity {j.emissivity:g}, {j.surface} surface")
     section("Bare metals", rules.metals, lambda m: f"emissivity {m.emissivity:g}")
     section("Site conditions", rules.sites,
-            lambda s: f"air {s.ambient - C:.1f} degC, wind {s.wind:g} m/s, RH {s.rh:g} %")
+            lambda s: f"air {s.ambient - C:.1f} degC, wind {s.wind:g} m/s, RH {s.rh:g} %"
+                      + ("" if math.isnan(s.surroundings) else
+                         f", surroundings {s.surroundings - C:.1f} degC"))
     section("Fittings", rules.fittings,
             lambda f: "bare-pipe equivalent " + ", ".join(f"NPS {n:g}: {m:g} m" for n, m in f.equivalent_length))
     section("Specifications", rules.specs,

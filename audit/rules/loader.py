@@ -13,12 +13,12 @@ key and what was expected, after collecting every problem of the file.
 from __future__ import annotations
 
 import math
-import tomllib
 from collections.abc import Iterable
 from pathlib import Path
 
 from audit.errors import LagauditError, Problem, RuleError
 from audit.pipe_sizes import NPS_BY_VALUE
+from audit.rules.files import read_toml
 from audit.rules.converters import boolean, choice, list_of, quantity, rows, temperature, text
 from audit.rules.model import (SEVERITIES, Check, Fitting, Jacket, Material, Metal, Rules, Site,
                                Spec)
@@ -105,6 +105,8 @@ _TOP_LEVEL = set(SCHEMA) | {"alias", "defaults", "check", "thicknesses", "econom
 _CHECK_KEYS = {"kind", "enabled", "site", "applies_to", "severity", "source", "description"}
 #: [defaults] key -> the section its value names
 _DEFAULT_KEYS = {"site": "site", "jacket": "jacket", "metal": "metal"}
+#: [defaults] keys whose value is free text: the plant's name, under which --history records
+_DEFAULT_TEXT_KEYS = {"plant"}
 
 
 def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> Rules:
@@ -152,17 +154,7 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
 
 
 def _read_file(path: Path, collected, aliases, defaults) -> None:
-    try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
-    except tomllib.TOMLDecodeError as exc:
-        raise RuleError(f"not valid TOML: {exc}", file=str(path),
-                        expected="TOML as described in the comment at the top of the shipped rule files") from exc
-    except RecursionError as exc:
-        raise RuleError("nested too deeply to read", file=str(path),
-                        expected="TOML as described in the comment at the top of the shipped rule files") from exc
-    except (OSError, UnicodeDecodeError) as exc:
-        raise RuleError(f"cannot read the rule file: {exc}", file=str(path),
-                        expected="a readable UTF-8 text file") from exc
+    data = read_toml(path, "TOML as described in the comment at the top of the shipped rule files")
     problems: list[Problem] = []
     for section, body in data.items():
         if section not in _TOP_LEVEL:
@@ -185,11 +177,12 @@ def _read_file(path: Path, collected, aliases, defaults) -> None:
                 aliases[column].extend(n for n in names if n not in aliases[column])
         elif section == "defaults":
             for key, value in body.items():
-                if key not in _DEFAULT_KEYS or not isinstance(value, str):
+                if key not in _DEFAULT_KEYS.keys() | _DEFAULT_TEXT_KEYS or not isinstance(value, str):
                     problems.append(Problem(f"unknown or invalid key defaults.{key}", file=str(path),
                                             column=f"defaults.{key}", value=value,
-                                            expected=", ".join(f'{k} = "<name of a [{v}.NAME]>"'
-                                                               for k, v in _DEFAULT_KEYS.items())))
+                                            expected=", ".join([f'{k} = "<name of a [{v}.NAME]>"'
+                                                                for k, v in _DEFAULT_KEYS.items()]
+                                                               + ['plant = "<plant name>"'])))
                 else:
                     defaults[key] = value
         elif section == "thicknesses":

@@ -18,6 +18,10 @@ column (degC for ``temp``), so ``temp > 60`` and ``temp > "140 degF"`` mean the 
 Text compares case-insensitively.  An empty selector applies to every item.
 
 Example: ``accessible == yes and service != cold and temp >= 60``.
+
+Limits: parentheses and ``not`` nest at most ``MAX_DEPTH`` deep, and a selector holds at most
+``MAX_COMPARISONS`` comparisons; past either the rule file is refused.  A chain of ``and`` (or
+``or``) is one node holding its terms, so neither parsing nor selecting recurses along a chain.
 """
 
 from __future__ import annotations
@@ -55,6 +59,8 @@ COLUMNS = {
     "hours": ("hours_h", "number", "hour", "hour"),
 }
 _TOKEN = re.compile(r"""\s*(?:(?P<op><=|>=|==|!=|<|>)|(?P<punct>[()\[\],])|'(?P<sq>[^']*)'|"(?P<dq>[^"]*)"|(?P<word>[^\s()\[\],<>=!'"]+))""")
+MAX_DEPTH = 32
+MAX_COMPARISONS = 256
 _YES = {"yes", "true", "y", "1"}
 _NO = {"no", "false", "n", "0"}
 
@@ -98,14 +104,16 @@ class Not:
 
 
 @dataclass(frozen=True)
-class Both:
-    left: object
-    right: object
+class Chain:
+    terms: tuple
     op: str  # "and" or "or"
 
     def mask(self, table):
-        a, b = self.left.mask(table), self.right.mask(table)
-        return (a & b) if self.op == "and" else (a | b)
+        result = self.terms[0].mask(table)
+        for term in self.terms[1:]:
+            result = (result & term.mask(table)) if self.op == "and" else \
+                (result | term.mask(table))
+        return result
 
 
 @dataclass(frozen=True)
@@ -144,13 +152,11 @@ def parse_selector(text: str) -> Selector:
 
 
 def _tokenise(text: str) -> list[tuple[str, str]]:
-    tokens, pos = [], 0
-    while pos < len(text):
-        if text[pos:].strip() == "":
-            break
+    tokens, pos, end = [], 0, len(text.rstrip())
+    while pos < end:
         match = _TOKEN.match(text, pos)
         if not match or match.end() == pos:
-            raise SelectorError(f"cannot read {text[pos:]!r} at character {pos + 1}")
+            raise SelectorError(f"cannot read {_shown(text[pos:])!r} at character {pos + 1}")
         kind = match.lastgroup
         value = match.group(kind)
         tokens.append(("str" if kind in ("sq", "dq") else kind, value))
@@ -161,6 +167,7 @@ def _tokenise(text: str) -> list[tuple[str, str]]:
 class _Parser:
     def __init__(self, tokens, text):
         self.tokens, self.text, self.pos = tokens, text, 0
+        self.depth, self.comparisons = 0, 0
 
     def peek(self):
         return self.tokens[self.pos] if self.pos < len(self.tokens) else (None, None)
@@ -173,8 +180,8 @@ class _Parser:
     def fail(self, expected):
         kind, value = self.peek()
         found = "the end" if kind is None else repr(value)
-        raise SelectorError(f"in selector {self.text!r}: found {found} at token {self.pos + 1}; "
-                            f"expected {expected}")
+        raise SelectorError(f"in selector {_shown(self.text)!r}: found {found} at token "
+                            f"{self.pos + 1}; expected {expected}")
 
     def keyword(self, word):
         kind, value = self.peek()
@@ -184,30 +191,49 @@ class _Parser:
         return False
 
     def or_expr(self):
-        node = self.and_expr()
+        terms = [self.and_expr()]
         while self.keyword("or"):
-            node = Both(node, self.and_expr(), "or")
-        return node
+            terms.append(self.and_expr())
+        return terms[0] if len(terms) == 1 else Chain(tuple(terms), "or")
 
     def and_expr(self):
-        node = self.not_expr()
+        terms = [self.not_expr()]
         while self.keyword("and"):
-            node = Both(node, self.not_expr(), "and")
-        return node
+            terms.append(self.not_expr())
+        return terms[0] if len(terms) == 1 else Chain(tuple(terms), "and")
 
     def not_expr(self):
-        if self.keyword("not"):
-            return Not(self.not_expr())
+        """A run of ``not`` (read in a loop), then a parenthesis (the only recursion, through
+        ``or_expr``) or a comparison; both count against ``MAX_DEPTH``."""
+        nots = 0
+        while self.keyword("not"):
+            nots += 1
+            self.check_depth(self.depth + nots)
         if self.peek() == ("punct", "("):
             self.take()
+            self.depth += nots + 1
+            self.check_depth(self.depth)
             node = self.or_expr()
+            self.depth -= nots + 1
             if self.take() != ("punct", ")"):
                 self.pos -= 1
                 self.fail("')'")
-            return node
-        return self.comparison()
+        else:
+            node = self.comparison()
+        return Not(node) if nots % 2 else node
+
+    def check_depth(self, level):
+        if level > MAX_DEPTH:
+            raise SelectorError(f"in selector {_shown(self.text)!r}: parentheses and 'not' "
+                                f"nested more than {MAX_DEPTH} deep at token {self.pos}; "
+                                f"expected at most {MAX_DEPTH} levels")
 
     def comparison(self):
+        self.comparisons += 1
+        if self.comparisons > MAX_COMPARISONS:
+            raise SelectorError(f"in selector {_shown(self.text)!r}: more than "
+                                f"{MAX_COMPARISONS} comparisons; expected at most "
+                                f"{MAX_COMPARISONS} (use 'in [a, b, ...]' for a list of values)")
         kind, column = self.take()
         if kind != "word" or column.lower() not in COLUMNS:
             self.pos -= 1
@@ -248,6 +274,11 @@ class _Parser:
         if not parts:
             self.fail(f"a value for {column!r}")
         return _convert(column, " ".join(parts), self)
+
+
+def _shown(text: str) -> str:
+    """A selector as an error quotes it: cut to 60 characters."""
+    return text if len(text) <= 60 else text[:60] + "…"
 
 
 def _convert(column, text, parser):

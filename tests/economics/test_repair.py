@@ -3,12 +3,11 @@
 import numpy as np
 import pytest
 
-from audit.economics.repair import (cover_cost, insulation_cost, payback_years, plan_repairs,
-                                    repaired_copy)
+from audit.economics.repair import cover_cost, insulation_cost, payback_years, plan_repairs
 from audit.economics.rules import load_economic_rules
 from audit.io.readers import read_register
 from audit.rules import load_rules
-from audit.thermal import resolve_names, thermal_states
+from audit.thermal import prepare_items, resolve_names, thermal_states
 
 # The shipped table (rules/economics/economics.toml, INVENTED demo values) is the input here;
 # the expected values are worked by hand from its rows, so the test checks the lookup and
@@ -92,9 +91,11 @@ def test_what_each_row_repairs(planned):
         "", "insulate to specification", "fit removable covers"]
 
 
-def test_repaired_copy(planned):
-    _, table, plan = planned
-    copy = repaired_copy(table, plan)
+def test_repaired_items_and_their_table(planned):
+    rules, table, plan = planned
+    repaired = prepare_items(table, rules).repaired(plan.insulate, plan.to_spec, plan.spec_material,
+                                                    plan.thickness_m, plan.covers > 0)
+    copy = repaired.table()
     assert copy["status"].tolist() == ["rejected", "ok", "ok", "ok", "ok", "rejected", "ok"]
     assert copy["layer_materials"][4] == ("mineral-wool",)
     assert copy["layer_thicknesses_m"][3] == pytest.approx((0.065,))

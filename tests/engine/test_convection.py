@@ -226,3 +226,50 @@ def test_local_exponents_are_the_derivatives_of_the_formula(function):
     d_pr = (np.log(function(ra, pr * np.exp(step))) - np.log(function(ra, pr * np.exp(-step)))) / (2 * step)
     np.testing.assert_allclose(s_ra, d_ra, rtol=0, atol=1e-7)
     np.testing.assert_allclose(s_pr, d_pr, rtol=0, atol=1e-7)
+
+
+FORCED = [c for c in cv.available_correlations() if c.regime == "forced"]
+
+
+@pytest.mark.parametrize("correlation", FORCED, ids=[c.name for c in FORCED])
+def test_forced_local_exponents_are_the_derivatives_of_the_formula(correlation):
+    # As for the natural correlations: d ln Nu / d ln Re and d ln Nu / d ln Pr (and, for
+    # Whitaker's sphere, d ln Nu / d ln(mu_inf/mu_s)) against central differences of the
+    # function itself, a step of 1e-5 in the logarithm; 1e-7 absolute, as above.  Re runs
+    # from 1 to 1e8, avoiding the flat plate's join just below 5e5 (a kink).
+    function = correlation.function
+    re, pr = grid(np.logspace(0, 8, 33) * 1.37, PR_AIR + [7.0])
+    ratio = np.full(re.size, 0.8)
+    args = (ratio,) if function is cv.nusselt_forced_sphere_whitaker else ()
+    nu, *slopes = function(re, pr, *args, with_slopes=True)
+    np.testing.assert_array_equal(nu, function(re, pr, *args))
+    step = 1e-5
+    inputs = [re, pr, *args]
+    for position, slope in enumerate(slopes):
+        up, down = list(inputs), list(inputs)
+        up[position] = inputs[position] * np.exp(step)
+        down[position] = inputs[position] * np.exp(-step)
+        central = (np.log(function(*up)) - np.log(function(*down))) / (2 * step)
+        np.testing.assert_allclose(slope, central, rtol=0, atol=1e-7)
+
+
+def test_published_ranges_are_read_at_the_precision_they_are_written():
+    # Whitaker (1972) writes 0.71 <= Pr: air at 20 C (Pr 0.709, CoolProp) rounds to 0.71 and is
+    # inside; 0.70 is outside.  "1e12" is one significant figure: 1.4e12 rounds to it.
+    whitaker = cv.CORRELATIONS["sphere-whitaker"].validity
+    pr = next(v for v in whitaker if v.quantity == "Pr")
+    assert list(pr.outside([0.7088, 0.70, 380.4, 381.0])) == [False, True, False, True]
+    ra = cv.CORRELATIONS["horizontal-cylinder-churchill-chu"].validity[0]
+    assert list(ra.outside([1.4e12, 1.6e12, 1e-5, 4e-6, np.nan])) == [False, True, False, True,
+                                                                      False]
+    assert pr.text() == "0.71 <= Pr <= 380"
+
+
+def test_every_correlation_registers_the_ranges_of_its_docstring():
+    # The registered bounds are the numbers the function's Notes state.
+    for c in cv.available_correlations():
+        assert c.validity, c.name
+        notes = c.function.__doc__.split("Notes")[1].split("References")[0]
+        for v in c.validity:
+            for bound in (v.low, v.high):
+                assert bound is None or bound in notes, (c.name, bound)

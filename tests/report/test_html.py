@@ -68,7 +68,7 @@ def test_cover_and_sections(demo_audit):
         assert heading in text
     assert " ".join(CAUTION.split()) in text
     assert "0" * 64 in text  # the register's SHA-256 from meta
-    assert "Churchill & Bernstein (1977)" in text  # methods table copied from README.md
+    assert "Churchill & Bernstein (1977)" in text  # the methods table of audit/methods.py
     # Without economics the energy, cost and CO2 sections are left out, not shown empty.
     assert "annual cost" not in text and "Pareto" not in html
 

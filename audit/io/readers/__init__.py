@@ -5,6 +5,10 @@ a tag column, or the sheets named), finds the header row, matches headers agains
 names and the alias table (``rules/aliases.toml``), parses every cell once per distinct text and
 returns one row per input row, in input order, with ``status`` ``ok`` or ``rejected``.
 
+``source`` is ``file:sheet:row``; ``file`` is the file's name, or, when two registers share a
+name in different folders, its path relative to the folder that holds them all, so that every
+``source`` is unique.  A file or a sheet named twice is read once.
+
 Duplicate tags are not rejected: each such row gets a ``warnings`` entry
 ``tag: "P-101" is duplicated (N rows; first at <source>)``.  ``warnings`` also says when a unit
 was assumed for a bare number in a column whose other cells carry units, and when a
@@ -16,6 +20,7 @@ from __future__ import annotations
 
 from collections.abc import Iterable, Mapping
 from dataclasses import asdict
+import os
 from pathlib import Path
 
 import numpy as np
@@ -58,15 +63,17 @@ def read_register(paths, *, sheets: Iterable[str] | None = None,
     """
     if isinstance(paths, (str, Path)):
         paths = [paths]
-    paths = list(paths)
+    paths = list(dict.fromkeys(Path(p) for p in paths))
     if not paths:
         raise RegisterError("no register file given", expected="one or more .csv or .xlsx files")
     aliases = dict(load_aliases() if aliases is None else aliases)
     lookup = Lookup.from_aliases(aliases)
-    sheet_list = list(sheets) if sheets else None
+    sheet_list = list(dict.fromkeys(sheets)) if sheets else None
     tables, infos, skipped = [], [], []
-    for path in paths:
+    for path, label in zip(paths, source_labels(paths)):
         raws, notes = read_raw(path, sheet_list, lookup)
+        for raw in raws:
+            raw.file = label
         skipped.extend(notes)
         built = [build_sheet(raw, lookup, aliases.get("tag", [])) for raw in raws]
         if sum(len(t) for t, _ in built) == 0:
@@ -81,6 +88,19 @@ def read_register(paths, *, sheets: Iterable[str] | None = None,
     _flag_duplicates(table)
     table.attrs["register"] = {"sheets": [asdict(i) for i in infos], "skipped": skipped}
     return table
+
+
+def source_labels(paths: list[Path]) -> list[str]:
+    """The ``file`` part of ``source`` for each register: its name, or, for names that two
+    registers share, its path relative to the folder common to those registers."""
+    names = [p.name for p in paths]
+    shared = {n for n in names if names.count(n) > 1}
+    if not shared:
+        return names
+    absolute = [Path(os.path.abspath(p)) for p in paths]
+    common = Path(os.path.commonpath([a.parent for a, n in zip(absolute, names) if n in shared]))
+    return [a.relative_to(common).as_posix() if n in shared else n
+            for a, n in zip(absolute, names)]
 
 
 def _flag_duplicates(table: pd.DataFrame) -> None:

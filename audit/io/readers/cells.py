@@ -4,6 +4,11 @@ Every parser takes the stripped cell text (and the column's unit from its header
 returns its value(s) and a *problem*: ``None`` when the cell is good, else the end of a reason,
 ``'is not a temperature; expected a number with an optional unit'``, which the table builder
 prefixes with the column name and the quoted raw value.
+
+Each parser squeezes runs of white space to one space first, and every pattern is anchored and
+unambiguous (one way to match a run of digits), so parsing is linear in the cell's length.  An
+item has at most ``MAX_LAYERS`` insulation layers (``2x50`` counts two): the engine's arrays are
+as wide as the register's thickest item.
 """
 
 from __future__ import annotations
@@ -14,7 +19,7 @@ from functools import lru_cache
 
 from audit.io.readers.headers import DN_UNIT
 from audit.pipe_sizes import NPS_BY_DN, NPS_BY_VALUE, OD_MM_BY_NPS
-from audit.units import UnitParseError, _normalise, parse_quantity
+from audit.units import NUMBER, UnitParseError, _normalise, parse_quantity, squeeze
 
 BARE_WORDS = frozenset({"none", "bare", "uninsulated"})
 AMBIENT_WORDS = frozenset({"amb", "amb.", "ambient"})
@@ -22,21 +27,23 @@ _TRUE = frozenset({"yes", "y", "true", "1", "x"})
 _FALSE = frozenset({"no", "n", "false", "0", "-"})
 
 _VULGAR = {"½": " 1/2", "¼": " 1/4", "¾": " 3/4", "⅛": " 1/8", "⅜": " 3/8"}
-_INCH_MARK = re.compile(r"\s*(?:\"|''|″|”|inches|inch|in)\s*$")
-_DN = re.compile(r"^(?:dn\s*(\d+)|(\d+)\s*dn)$")
-_MIXED = re.compile(r"^(\d+)(?:\s+|\s*-\s*)(\d+)\s*/\s*(\d+)$")
-_FRACTION = re.compile(r"^(\d+)\s*/\s*(\d+)$")
-_DECIMAL = re.compile(r"^(?:\d+\.?\d*|\.\d+)$")
-_BARE_NUMBER = re.compile(r"^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*$")
+MAX_LAYERS = 10  # insulation layers of one item (a count such as 2x50 included)
+_INCH_MARK = re.compile(r" ?(?:\"|''|″|”|inches|inch|in)$")
+_DN = re.compile(r"^(?:dn ?(\d{1,5})|(\d{1,5}) ?dn)$")
+_MIXED = re.compile(r"^(\d{1,3})(?: | ?- ?)(\d{1,3}) ?/ ?(\d{1,3})$")
+_FRACTION = re.compile(r"^(\d{1,3}) ?/ ?(\d{1,3})$")
+_DECIMAL = re.compile(r"^(?:\d+(?:\.\d*)?|\.\d+)$")
+_BARE_NUMBER = re.compile(rf"^\s*{NUMBER.pattern}\s*$")
+_LEADING_NUMBER = re.compile(rf"^{NUMBER.pattern} ?")
 _UNIT_FREE = re.compile(r"^[\d\s.,+\-x×*/eE]+$")
 _WITH_UNIT = re.compile(r"^[\d\s.,+\-x×*/]*\d\s*(?:[a-wyzA-WYZ°\"'″%µ]|x[a-z])")
 _DEG_SPACE = re.compile(r"\bdeg\.?\s+([CFcf])\b")  # "300 deg F" -> "300 degF"
-_REPEAT = re.compile(r"^(\d+)\s*[x×*]\s*(.+)$", re.IGNORECASE)
+_REPEAT = re.compile(r"^(\d+) ?[x×*] ?(.+)$", re.IGNORECASE)
 _NAME_SPACE = re.compile(r"[\s_]+")
 # A layer: "<material> <thickness>" or "<thickness> <material>"; thickness may be "2x50".
-_THK = r"(?:\d+\s*[x×*]\s*)?(?:\d+\.?\d*|\.\d+)\s*(?:mm|cm|m|in|inch|inches|\"|″|'')?"
-_LAYER_MAT_FIRST = re.compile(rf"^(?P<mat>.*?\S)\s+(?P<thk>{_THK})$", re.IGNORECASE)
-_LAYER_THK_FIRST = re.compile(rf"^(?P<thk>{_THK})\s+(?P<mat>\S.*)$", re.IGNORECASE)
+_THK = r"(?:\d+ ?[x×*] ?)?(?:\d+(?:\.\d*)?|\.\d+) ?(?:mm|cm|m|in|inch|inches|\"|″|'')?"
+_LAYER_MAT_FIRST = re.compile(rf"^(?P<mat>.*?\S) (?P<thk>{_THK})$", re.IGNORECASE)
+_LAYER_THK_FIRST = re.compile(rf"^(?P<thk>{_THK}) (?P<mat>\S.*)$", re.IGNORECASE)
 
 NUMBER_EXPECTED = "expected a number with an optional unit"
 
@@ -85,6 +92,7 @@ def _number(text: str, default_unit: str, target_unit: str, what: str) -> float:
 def quantity(text: str, default_unit: str, target_unit: str, what: str,
              low: float = -math.inf, high: float = math.inf, low_open: bool = False):
     """``(value, problem)``: a number with an optional unit, in ``target_unit``, in a range."""
+    text = squeeze(text)
     try:
         value = _number(text, default_unit, target_unit, what)
     except UnitParseError:
@@ -104,6 +112,7 @@ def temperature(text: str, default_unit: str):
     ``normal/max`` gives the normal temperature and keeps the maximum; a unit written once
     after the pair (``250/300 F``) applies to both numbers.
     """
+    text = squeeze(text)
     if text.lower() in AMBIENT_WORDS:
         return math.nan, math.nan, True, None, None
     text = _DEG_SPACE.sub(r"deg\1", text)
@@ -111,7 +120,7 @@ def temperature(text: str, default_unit: str):
     if len(parts) == 2 and all(parts):
         normal_text, max_text = parts
         if is_bare_number(normal_text) and not is_bare_number(max_text):
-            unit = re.sub(r"^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*", "", max_text)
+            unit = _LEADING_NUMBER.sub("", max_text)
             normal_text = f"{normal_text} {unit}"
         normal, max_k = _kelvin(normal_text, default_unit), _kelvin(max_text, default_unit)
         if normal is None or max_k is None:
@@ -150,10 +159,10 @@ def pipe_size(text: str, header_unit: str | None):
 
     A bare number is NPS in inches, or DN when the header says ``[DN]``.
     """
-    cleaned = text.lower()
+    cleaned = squeeze(text).lower()
     for symbol, fraction in _VULGAR.items():
         cleaned = cleaned.replace(symbol, fraction)
-    cleaned = re.sub(r"^nps\s*", "", cleaned.strip())
+    cleaned = squeeze(cleaned.removeprefix("nps"))
     has_inch_mark = bool(_INCH_MARK.search(cleaned))
     cleaned = _INCH_MARK.sub("", cleaned).strip()
     dn_match = _DN.match(cleaned)
@@ -186,18 +195,32 @@ def _inches(text: str) -> float | None:
 @lru_cache(maxsize=65536)
 def thicknesses(text: str, default_unit: str):
     """``(thicknesses_m, problem)`` from ``50``, ``2 in``, ``2x50`` (two of 50), ``50+40``."""
+    text = squeeze(text)
+    parts = text.split("+")
+    if len(parts) > MAX_LAYERS:
+        return (), _too_many_layers(str(len(parts)))
     result: list[float] = []
-    for part in text.split("+"):
+    for part in parts:
         part = part.strip()
         count = 1
         if match := _REPEAT.match(part):
-            count, part = int(match.group(1)), match.group(2).strip()
+            digits, part = match.group(1).lstrip("0") or "0", match.group(2).strip()
+            if len(digits) > 3 or int(digits) > MAX_LAYERS:
+                return (), _too_many_layers(digits)
+            count = int(digits)
         value, problem = quantity(part, default_unit, "m", "a thickness", 0.0, math.inf, True)
         if problem or count < 1:
             return (), ("is not a thickness; expected a length per layer (" + default_unit +
                         " if none), e.g. 50, 2 in, 2x50 or 50+40")
         result.extend([value] * count)
+        if len(result) > MAX_LAYERS:
+            return (), _too_many_layers(f"more than {MAX_LAYERS}")
     return tuple(result), None
+
+
+def _too_many_layers(count: str) -> str:
+    shown = count if len(count) <= 12 else f"more than {MAX_LAYERS}"
+    return f"has {shown} layers; expected at most {MAX_LAYERS} insulation layers per item"
 
 
 @lru_cache(maxsize=65536)
@@ -206,11 +229,15 @@ def layers(text: str, default_unit: str):
 
     ``none`` gives bare metal: ``((), ())``.  Material names are only normalised here.
     """
+    text = squeeze(text)
     if text.lower() in BARE_WORDS:
         return (), (), None
+    parts = text.split("+")
+    if len(parts) > MAX_LAYERS:
+        return (), (), _too_many_layers(str(len(parts)))
     materials: list[str] = []
     result: list[float] = []
-    for part in text.split("+"):
+    for part in parts:
         part = part.strip()
         match = _LAYER_MAT_FIRST.match(part) or _LAYER_THK_FIRST.match(part)
         if not match:
@@ -222,6 +249,8 @@ def layers(text: str, default_unit: str):
             return (), (), problem
         materials.extend([name(match.group("mat"))] * len(layer_thk))
         result.extend(layer_thk)
+        if len(result) > MAX_LAYERS:
+            return (), (), _too_many_layers(f"more than {MAX_LAYERS}")
     return tuple(materials), tuple(result), None
 
 
@@ -250,7 +279,7 @@ def yes_no(text: str):
 def count(text: str):
     """``(value, problem)``: a whole number of fittings, zero or more."""
     try:
-        value = float(_normalise(text))
+        value = float(_normalise(text)) if _BARE_NUMBER.match(text) else math.nan
     except ValueError:
         value = math.nan
     if not math.isfinite(value) or value < 0 or value != int(value):

@@ -1,8 +1,12 @@
 """Reading register files: the file-type dispatch, and CSV.
 
 CSV: comma, semicolon, tab or bar separated (detected from the header row), decimal comma
-detected, UTF-8 with or without BOM, UTF-16 with BOM, else Windows-1252.  Title rows above the
-header are skipped: the header is the first of the first 30 lines that names the most columns.
+detected (from the cells, by an anchored pattern), UTF-8 with or without BOM, UTF-16 with BOM,
+else Windows-1252.  Title rows above the header are skipped: the header is the first of the
+first 30 lines that names the most columns, searched only down to the first data row.  Blank
+lines below the header are rows (rejected as blank).  A quote left open is refused, naming its
+line: in a recognised column any line break inside a cell; in a carried column a line break
+followed by a whole row's worth of separators, or a quote still open at the end of the file.
 XLSX: see :mod:`audit.io.readers.workbook`.
 
 Limits (a register past them is refused with a :class:`RegisterError`, never half read):
@@ -37,8 +41,11 @@ CSV_SUFFIXES = frozenset({".csv", ".txt", ".tsv"})
 XLSX_SUFFIXES = frozenset({".xlsx", ".xlsm"})
 
 _DELIMITERS = (",", ";", "\t", "|")
-_DECIMAL_COMMA = re.compile(r"(?:^|[;\t|])\s*[-+]?\d+,\d+\s*(?:[a-z°\"]*)\s*(?=[;\t|]|$)",
-                            re.IGNORECASE | re.MULTILINE)
+_DECIMAL_COMMA = re.compile(r"[-+]?\d+,\d+\s*[a-z°\"]*", re.IGNORECASE)  # fullmatch, stripped
+_DECIMAL_COMMA_SAMPLE = 1000  # distinct texts per column looked at
+# encoding name -> (codec, bytes of byte-order mark); the body of such a file is handed to the
+# CSV parser as bytes (its text would take up to four bytes a character in a text buffer)
+_CODECS = {"UTF-8": ("utf-8", 0), "UTF-8 with BOM": ("utf-8", 3), "Windows-1252": ("cp1252", 0)}
 
 
 def read_raw(path, sheets, lookup: Lookup) -> tuple[list[RawSheet], list[str]]:
@@ -82,6 +89,7 @@ def read_raw(path, sheets, lookup: Lookup) -> tuple[list[RawSheet], list[str]]:
 
 
 def _decode(path: Path, raw: bytes) -> tuple[str, str]:
+    """``(text, encoding name)``; the name is a key of ``_CODECS``."""
     if raw.startswith(ZIP_MAGIC):
         raise refuse(path, "this is a zip container (a workbook?), not a CSV text file",
                      "a .csv text file, or the workbook renamed to .xlsx")
@@ -110,7 +118,8 @@ def _decode(path: Path, raw: bytes) -> tuple[str, str]:
 
 
 def _read_csv(path: Path, lookup: Lookup) -> RawSheet:
-    text, encoding = _decode(path, path.read_bytes())
+    raw = path.read_bytes()
+    text, encoding = _decode(path, raw)
     if not text.strip():
         raise refuse(path, "the file is empty", "a header row and at least one data row")
     # For finding the header only: a lone carriage return inside a quoted cell (valid CSV)
@@ -130,31 +139,71 @@ def _read_csv(path: Path, lookup: Lookup) -> RawSheet:
         raise refuse(path, f"no header row found in the first {HEADER_SEARCH_ROWS} lines",
                      "a header row naming the columns (tag, nps, temp, ...; "
                      "see rules/aliases.toml)")
-    header = _csv_rows([head_lines[header_index]], delimiter)[0]
-    body = text[_line_start(text, header_index + 1):]
-    data = _csv_body(path, body, delimiter)
-    if '"' in body:  # without a quote no cell can hold a line break
-        _refuse_unclosed_quotes(path, data, [h.strip() for h in header], lookup, header_index + 1)
-    decimal_comma = delimiter != "," and bool(_DECIMAL_COMMA.search(body[:100_000]))
-    sheet = finish(path, "", [h.strip() for h in header], None, data, header_index + 1,
-                    decimal_comma)
+    header = [h.strip() for h in _csv_rows([head_lines[header_index]], delimiter)[0]]
+    body_start = _line_start(text, header_index + 1)
+    blank_lines = 0  # empty lines just below the header: rows, rejected as blank later
+    while text.startswith("\n", body_start) or text.startswith("\r\n", body_start):
+        body_start = text.index("\n", body_start) + 1
+        blank_lines += 1
+    if encoding in _CODECS:
+        codec, mark = _CODECS[encoding]
+        body = raw[mark + len(text[:body_start].encode(codec, errors="replace")):]
+    else:
+        codec, body = None, text[body_start:]
+    del text, raw
+    first_line = header_index + 2 + blank_lines  # 1-based line number of the body's first line
+    data = _csv_body(path, body, codec, delimiter, header, first_line)
+    if ('"' if codec is None else b'"') in body:  # without a quote no cell can hold a line break
+        _refuse_unclosed_quotes(path, data, header, lookup, delimiter, first_line)
+    del body
+    if blank_lines and data.shape[1]:
+        data = pd.concat([pd.DataFrame("", index=range(blank_lines), columns=data.columns),
+                          data], ignore_index=True)
+    sheet = finish(path, "", header, None, data, header_index + 1, False)
+    sheet.decimal_comma = delimiter != "," and _decimal_comma(sheet.stripped)
     sheet.notes.append(f"read as {encoding} text, separator {delimiter!r}, decimal "
-                       f"{'comma' if decimal_comma else 'point'}")
+                       f"{'comma' if sheet.decimal_comma else 'point'}")
     return sheet
 
 
+def _decimal_comma(stripped: list) -> bool:
+    """Whether a column holds a number written with a decimal comma (``1,5``, ``2,5 in``),
+    among the first distinct texts of each column."""
+    return any(_DECIMAL_COMMA.fullmatch(text)
+               for _, uniques in stripped for text in uniques[:_DECIMAL_COMMA_SAMPLE])
+
+
 def _refuse_unclosed_quotes(path: Path, data: pd.DataFrame, header: list[str], lookup: Lookup,
-                            header_line: int) -> None:
-    """A line break inside a cell of a recognised column means a quote left open: the rest of
-    the file would vanish into one cell, so the file is refused, naming the line."""
-    for column, position in match_headers(header, lookup).columns.items():
-        if position >= data.shape[1]:
+                            delimiter: str, first_line: int) -> None:
+    """A quote left open swallows the lines below it into one cell, so the file is refused,
+    naming the line.  A line break inside a cell of a recognised column is always one; in a
+    carried column (where a remark may hold a line break) it is one when a line inside the
+    cell holds a whole row's worth of separators."""
+    recognised = set(match_headers(header, lookup).columns.values())
+    separators = max(1, len(header) - 1)
+    for position in range(data.shape[1]):
+        cells = data[position].astype(str)
+        broken = cells.str.contains("\n", regex=False).to_numpy().copy()
+        if not broken.any():
             continue
-        broken = data[position].astype(str).str.contains("\n", regex=False).to_numpy()
+        if position not in recognised:
+            broken[broken] = [any(line.count(delimiter) >= separators
+                                  for line in cell.split("\n")[1:])
+                              for cell in cells[broken]]
         if broken.any():
-            line = header_line + 1 + int(np.flatnonzero(broken)[0])
-            raise refuse(path, f"line {line}: a quote opened in column {column!r} is not closed "
-                         "before the next line", "balanced double quotes")
+            raise _open_quote(path, data, header, position, first_line,
+                              int(np.flatnonzero(broken)[0]), "before the next line")
+
+
+def _open_quote(path: Path, data: pd.DataFrame, header: list[str], position: int,
+                first_line: int, row: int, where: str):
+    """The refusal of a quote left open in ``data[position]`` at data row ``row``."""
+    line = first_line + row + sum(
+        str(cell).count("\n") for cell in data.iloc[:row].to_numpy().ravel() if "\n" in str(cell))
+    column = header[position] if position < len(header) and header[position] else \
+        f"column {position + 1}"
+    return refuse(path, f"line {line}: a quote opened in column {column!r} is not closed {where}",
+                  "balanced double quotes")
 
 
 def _csv_rows(lines: list[str], delimiter: str) -> list[list[str]]:
@@ -188,16 +237,24 @@ def _head_end(text: str) -> int:
     return _line_start(text, HEADER_SEARCH_ROWS)
 
 
-def _csv_body(path: Path, body: str, delimiter: str) -> pd.DataFrame:
+def _csv_body(path: Path, body, codec: str | None, delimiter: str, header: list[str],
+              first_line: int) -> pd.DataFrame:
+    """The data rows: ``body`` is bytes in ``codec``, or text when ``codec`` is None."""
     if not body.strip():
         return pd.DataFrame(dtype=object)
     options = dict(sep=delimiter, header=None, dtype=object, keep_default_na=False,
                    na_filter=False, skip_blank_lines=False, quotechar='"')
+    source = io.StringIO(body) if codec is None else io.BytesIO(body)
+    if codec is not None:
+        options.update(encoding=codec, encoding_errors="replace")
     try:
-        return pd.read_csv(io.StringIO(body), engine="c", **options)
-    except pd.errors.ParserError:
-        rows = list(csv.reader(io.StringIO(body), delimiter=delimiter))
+        return pd.read_csv(source, engine="c", **options)
+    except pd.errors.ParserError as exc:
+        text = body if codec is None else body.decode(codec, errors="replace")
+        rows = list(csv.reader(io.StringIO(text), delimiter=delimiter))
         width = max((len(r) for r in rows), default=0)
-        return pd.DataFrame([r + [""] * (width - len(r)) for r in rows], dtype=object)
-
-
+        data = pd.DataFrame([r + [""] * (width - len(r)) for r in rows], dtype=object)
+        if "EOF inside string" in str(exc):  # the last record holds the rest of the file
+            raise _open_quote(path, data, header, len(rows[-1]) - 1, first_line,
+                              len(rows) - 1, "before the end of the file") from exc
+        return data

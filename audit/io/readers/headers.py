@@ -8,7 +8,6 @@ is not a unit (``Temp (normal/max)``) is a note and is ignored for matching.
 from __future__ import annotations
 
 import re
-import tomllib
 from dataclasses import dataclass, field
 from functools import lru_cache
 from pathlib import Path
@@ -16,19 +15,18 @@ from pathlib import Path
 import pint
 
 from audit.errors import LagauditError, RuleError
+from audit.rules.files import read_toml
 from audit.shipped import shipped_dir
 from audit.units import _normalise, _unit
 
 COLUMNS: tuple[str, ...] = (
     "tag", "shape", "nps", "od", "length", "area", "heads", "orientation", "temp", "layers",
     "insulation", "thickness", "jacket", "emissivity", "location", "ambient", "wind", "rh",
-    "accessible", "condition", "damaged", "service", "material", "area_code", "valves",
+    "surroundings", "accessible", "condition", "damaged", "service", "material", "area_code", "valves",
     "flanges", "hours",
 )
 DN_UNIT = "DN"  # nominal diameter: not a pint unit, a size designation
 
-_BRACKET = re.compile(r"^(.*?)\s*\[([^\[\]]*)\]\s*$")
-_PAREN = re.compile(r"^(.*?)\s*\(([^()]*)\)\s*$")
 _IGNORED = re.compile(r"[\s_\-.]+")
 
 
@@ -45,14 +43,27 @@ def split_unit(header: str) -> tuple[str, str | None]:
     dimension).  Round brackets hold a unit only when pint reads them as one, else a note.
     """
     text = str(header).strip()
-    match = _BRACKET.match(text)
-    if match:
-        return match.group(1), _clean_unit(match.group(2))
-    match = _PAREN.match(text)
-    if match:
-        unit = _clean_unit(match.group(2))
-        return match.group(1), unit if unit and _is_unit(unit) else None
+    split = _last_group(text, "[", "]")
+    if split:
+        return split[0], _clean_unit(split[1])
+    split = _last_group(text, "(", ")")
+    if split:
+        unit = _clean_unit(split[1])
+        return split[0], unit if unit and _is_unit(unit) else None
     return text, None
+
+
+def _last_group(text: str, opening: str, closing: str) -> tuple[str, str] | None:
+    """``("temp", "degF")`` for ``"temp [degF]"``: the text before the last bracketed group
+    that ends the header, and the group's content (no brackets inside); None without one.
+    Found with ``rfind``, not a pattern, so a long header costs its length once."""
+    if not text.endswith(closing):
+        return None
+    start = text.rfind(opening, 0, len(text) - 1)
+    inner = text[start + 1:-1]
+    if start < 0 or closing in inner:
+        return None
+    return text[:start].rstrip(), inner
 
 
 def _clean_unit(unit: str) -> str | None:
@@ -68,7 +79,7 @@ def _is_unit(unit: str) -> bool:
     try:
         _unit(unit)
     except (pint.errors.PintError, ValueError, TypeError, AttributeError, AssertionError,
-            KeyError, SyntaxError):
+            KeyError, SyntaxError, ZeroDivisionError, OverflowError):
         return False
     return True
 
@@ -99,11 +110,7 @@ def load_aliases(path=None) -> dict[str, list[str]]:
         When the file is not TOML, names an unknown column or lists something other than text.
     """
     path = Path(path) if path is not None else shipped_aliases_path()
-    try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
-    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError) as exc:
-        raise RuleError(f"cannot read the alias table: {exc}", file=str(path),
-                        expected="a UTF-8 TOML file with an [alias] table") from exc
+    data = read_toml(path, "a UTF-8 TOML file with an [alias] table")
     table = data.get("alias", {})
     if not isinstance(table, dict):
         raise RuleError("[alias] is not a table", file=str(path), column="alias",

@@ -42,12 +42,20 @@ def refuse(path: Path, problem: str, expected: str, **where) -> RegisterError:
 
 
 def find_header(rows: list[list[str]], lookup: Lookup) -> tuple[int, int]:
-    """(index of the best header row among the first rows, its score); the first best wins."""
+    """(index of the header row among the first rows, its score); the first best wins.
+
+    Title and group rows above the header score less than it; the search ends at the first
+    non-blank row after a candidate that scores below it (a data row), so a header-like row
+    further down, even one naming more columns, never takes over and drops the rows above it.
+    """
     best, best_score = -1, 0
     for index, cells in enumerate(rows[:HEADER_SEARCH_ROWS]):
-        row_score = score([c.strip() for c in cells], lookup)
+        stripped = [c.strip() for c in cells]
+        row_score = score(stripped, lookup)
         if row_score > best_score:
             best, best_score = index, row_score
+        elif best >= 0 and row_score < best_score and any(stripped):
+            break
     return best, best_score
 
 

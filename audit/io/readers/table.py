@@ -10,7 +10,6 @@ on a pipe) is not a rejection: it is ignored with a warning.
 from __future__ import annotations
 
 import math
-import re
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -47,6 +46,7 @@ QUANTITIES = {
     "area": ("m**2", "m**2", "an area", 0.0, math.inf, True),
     "emissivity": ("dimensionless", "dimensionless", "an emissivity", 0.0, 1.0, True),
     "ambient": ("degC", "kelvin", "a temperature", 0.0, math.inf, False),
+    "surroundings": ("degC", "kelvin", "a temperature", 0.0, math.inf, False),
     "wind": ("m/s", "m/s", "a wind speed", 0.0, math.inf, False),
     "rh": ("percent", "percent", "a relative humidity", 0.0, 100.0, False),
     "damaged": ("percent", "percent", "a share of the length", 0.0, 100.0, False),
@@ -57,13 +57,26 @@ UNIT_TARGETS = {**{c: (q[0], q[1]) for c, q in QUANTITIES.items()},
                 "temp": ("degC", "kelvin"), "thickness": ("mm", "m"), "layers": ("mm", "m")}
 NUMERIC = frozenset({*QUANTITIES, "nps", "temp", "thickness", "layers", "jacket", "valves",
                      "flanges"})
-_PER_YEAR = re.compile(r"\s*/\s*(?:yr|year|a|annum)\s*$", re.IGNORECASE)
+_PER_YEAR = ("yr", "year", "a", "annum")
+
+
+def _per_year_stripped(text: str) -> str:
+    """``"8000 h/yr"`` -> ``"8000 h"``: a trailing ``/yr``, ``/year``, ``/a`` or ``/annum``
+    taken off (found by its end, not by a pattern searched from every position)."""
+    trimmed = text.rstrip()
+    lower = trimmed.lower()
+    for word in _PER_YEAR:
+        if lower.endswith(word):
+            head = trimmed[:-len(word)].rstrip()
+            if head.endswith("/"):
+                return head[:-1].rstrip()
+    return text
 
 ITEM_COLUMNS = (
     "tag", "source", "status", "reason", "warnings", "shape", "od_m", "nps", "length_m",
     "area_m2", "heads", "orientation", "temp_K", "temp_is_ambient", "temp_max_K",
     "layer_materials", "layer_thicknesses_m", "jacket", "emissivity", "location", "ambient_K",
-    "wind_m_s", "rh_pct", "accessible", "condition", "damaged_pct", "service", "material",
+    "wind_m_s", "rh_pct", "surroundings_K", "accessible", "condition", "damaged_pct", "service", "material",
     "area_code", "valves", "flanges", "hours_h",
 )
 STRING_COLUMNS = ("tag", "source", "status", "reason", "warnings", "shape", "nps", "heads",
@@ -100,7 +113,7 @@ def _check_header_units(raw: RawSheet, header_map: HeaderMap) -> None:
         if column not in UNIT_TARGETS:
             continue
         if column == "hours":
-            unit = _PER_YEAR.sub("", unit) or "h"
+            unit = _per_year_stripped(unit) or "h"
         try:
             parse_quantity(f"1 {unit}", unit, UNIT_TARGETS[column][1])
         except UnitParseError as exc:
@@ -147,7 +160,7 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     _geometry(col, shape, sized, lengthy, flat, notes, out, info)
     _orientation(col, shape, vessel, flat, notes, out)
     heads = _choice(col["heads"], HEADS, _HEADS_SYNONYMS, "", notes, vessel)
-    out["heads"] = np.where(heads != "", heads, np.where(vessel, "ellipsoidal", "none"))
+    out["heads"] = np.where(heads != "", heads, _words(vessel, "ellipsoidal", "none"))
     _temperature(col["temp"], notes, out, info)
     condition = _choice(col["condition"], CONDITIONS, _CONDITION_SYNONYMS, "intact", notes,
                         everyone)
@@ -155,7 +168,8 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     out["layer_materials"], out["layer_thicknesses_m"] = insulation_layers(col, condition, notes)
     _surface(col, notes, out, info)
     for c, key in (("ambient", "ambient_K"), ("wind", "wind_m_s"), ("rh", "rh_pct"),
-                   ("damaged", "damaged_pct"), ("hours", "hours_h")):
+                   ("surroundings", "surroundings_K"), ("damaged", "damaged_pct"),
+                   ("hours", "hours_h")):
         out[key] = _quantity(col[c], notes, everyone, info)
     notes.warn((condition == "damaged") & ~col["damaged"].given,
                "damaged: empty for a damaged item; share of the length bare not known")
@@ -175,7 +189,7 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     notes.warning[blank] = ""
     out["source"] = np.char.add(f"{raw.file}:{raw.sheet}:",
                                 raw.row_numbers.astype(str)).astype(object)
-    out["status"] = np.where(notes.reason == "", "ok", "rejected")
+    out["status"] = _words(notes.reason == "", "ok", "rejected")
     out["reason"], out["warnings"] = notes.reason, notes.warning
     table = pd.DataFrame({c: out[c] for c in ITEM_COLUMNS})
     for c in STRING_COLUMNS:
@@ -184,6 +198,12 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
         table[f"raw:{c}"] = data[position].astype("str").to_numpy()
     table = _extras(table, data, header_map, info)
     return table, info
+
+
+def _words(mask: np.ndarray, yes: str, no: str) -> np.ndarray:
+    """``yes`` where ``mask``, else ``no``, as an object array sharing the two strings (a
+    fixed-width text array would become one new string per row of a million-row register)."""
+    return np.array([no, yes], dtype=object)[mask.astype(np.intp)]
 
 
 def _choice(column: Column, allowed, synonyms, default, notes: RowNotes, applies) -> np.ndarray:
@@ -198,8 +218,8 @@ def _quantity(column: Column, notes: RowNotes, applies, info: SheetInfo,
     default, target, what, low, high, low_open = QUANTITIES[column.name]
     unit = column.unit or default
     if column.name == "hours":
-        unit = _PER_YEAR.sub("", unit) or "h"
-        answers = column.parse(lambda t: cells.quantity(_PER_YEAR.sub("", t), unit, target,
+        unit = _per_year_stripped(unit) or "h"
+        answers = column.parse(lambda t: cells.quantity(_per_year_stripped(t), unit, target,
                                                         what, low, high, low_open),
                                empty=(math.nan, None))
     else:
@@ -263,7 +283,7 @@ def _orientation(col, shape, vessel, flat, notes: RowNotes, out) -> None:
                            empty=("", None))
     given = column.spread(answers, 0)
     notes.reject(np.ones(len(shape), dtype=bool), column.messages([a[1] for a in answers]))
-    by_shape = np.where(shape == "vertical-vessel", "vertical", "horizontal")
+    by_shape = _words(shape == "vertical-vessel", "vertical", "horizontal")
     contradicts = vessel & (given != "") & (given != by_shape)
     messages = np.full(len(shape), "", dtype=object)
     messages[contradicts] = [f'orientation: "{g}" contradicts shape {s}; expected {b} or empty'
@@ -276,7 +296,7 @@ def _orientation(col, shape, vessel, flat, notes: RowNotes, out) -> None:
                  "orientation: \"horizontal\" is ambiguous for a flat item; expected vertical, "
                  "up (hot face below, heat rising) or down")
     notes.warn(flat & (given == ""), "orientation: empty for a flat item; vertical assumed")
-    default = np.where(flat, "vertical", by_shape)
+    default = np.where(flat, _words(flat, "vertical", ""), by_shape)
     out["orientation"] = np.where(given != "", given, default)
 
 

@@ -12,7 +12,12 @@ the OLE signature of an encrypted (password-protected) workbook or a legacy .xls
 not a workbook; the declared uncompressed total above ``MAX_UNCOMPRESSED_BYTES``; a part larger
 than 1 MiB expanding more than ``MAX_COMPRESSION_RATIO`` times (a zip bomb); a worksheet whose
 declared dimension passes ``MAX_ROWS`` rows.  Then every part is decompressed in bounded chunks,
-so its true size and CRC must match what the zip declares.
+so its true size and CRC must match what the zip declares.  The worksheets and the shared
+strings are scanned as a stream before the reader sees them (:mod:`audit.io.readers.xlsx_scan`:
+the rectangle of cells with a value, shared-string indices and their expanded text, merged
+ranges); the reader then builds only the rectangle of cells with a value, not the sheet from A1,
+and the rows keep their sheet row numbers.  Merged ranges are filled once each; overlapping
+ranges (which no spreadsheet program writes) are refused.
 """
 
 from __future__ import annotations
@@ -25,6 +30,7 @@ import numpy as np
 import pandas as pd
 import python_calamine
 
+from audit.io.readers import xlsx_scan
 from audit.io.readers.headers import Lookup
 from audit.io.readers.sheet import (HEADER_SEARCH_ROWS, MAX_ROWS, RawSheet, find_header,
                                     finish, recode, refuse)
@@ -70,9 +76,24 @@ def _check_zip(path: Path) -> None:
                                  "a workbook saved normally by a spreadsheet program")
             for info in infos:
                 _check_part(path, archive, info)
+            _scan_sheets(path, archive, [info.filename for info in infos])
     except zipfile.BadZipFile as exc:
         raise refuse(path, f"corrupt workbook ({exc})",
                      "an .xlsx that opens in a spreadsheet program; save it again") from exc
+
+
+def _scan_sheets(path: Path, archive: zipfile.ZipFile, names: list[str]) -> None:
+    """Refuse the workbook when a worksheet passes a limit of :mod:`xlsx_scan`."""
+    part = "xl/_rels/workbook.xml.rels"
+    try:
+        part, sheets = xlsx_scan.parts_to_scan(archive, names)
+        lengths = xlsx_scan.shared_string_lengths(archive, part) if part else \
+            xlsx_scan.array("q")
+        expanded = [0]
+        for part in sheets:
+            xlsx_scan.sheet_extent(archive, part, lengths, expanded)
+    except xlsx_scan.WorkbookProblem as exc:
+        raise refuse(path, f"part {part}: {exc.problem}", exc.expected) from exc
 
 
 def _check_part(path: Path, archive: zipfile.ZipFile, info: zipfile.ZipInfo) -> None:
@@ -85,8 +106,9 @@ def _check_part(path: Path, archive: zipfile.ZipFile, info: zipfile.ZipInfo) -> 
                 raise refuse(path, f"worksheet part {info.filename} declares "
                              f"{int(match.group(1))} rows, above the limit of {MAX_ROWS}",
                              "a register split into files of at most that many rows")
-        while part.read(_CHUNK):
-            pass
+        if not xlsx_scan.scanned(info.filename):  # the scan reads those to their end
+            while part.read(_CHUNK):
+                pass
 
 
 def _cell_text(value) -> str:
@@ -140,8 +162,10 @@ def read_xlsx(path: Path, sheets, lookup: Lookup) -> tuple[list[RawSheet], list[
     for sheet_name in wanted:
         try:
             sheet = workbook.get_sheet_by_name(sheet_name)
-            grid = sheet.to_python(skip_empty_area=False)
-            merged = sheet.merged_cell_ranges or []
+            grid = sheet.to_python(skip_empty_area=True)
+            first_row, first_column = sheet.start or (0, 0)
+            merged = _merged_ranges(path, sheet_name, sheet.merged_cell_ranges or [],
+                                    first_row, first_column, grid)
         except Exception as exc:  # the reader's own error types vary by version
             raise refuse(path, f"corrupt worksheet ({exc})", "an .xlsx that opens in a "
                          "spreadsheet program; save it again", sheet=sheet_name) from exc
@@ -164,12 +188,32 @@ def read_xlsx(path: Path, sheets, lookup: Lookup) -> tuple[list[RawSheet], list[
             continue
         groups = _groups(head, merged, index)
         data, stripped = _text_frame(grid[index + 1:])
-        out.append(finish(path, sheet_name, head[index], groups, data, index + 1, False,
-                           stripped))
+        out.append(finish(path, sheet_name, head[index], groups, data,
+                           first_row + index + 1, False, stripped))
     if not out:
         raise refuse(path, "no sheet has a header row with a tag column",
                      "a header row with a tag column (tag, line no, equipment tag, ...)")
     return out, notes
+
+
+def _merged_ranges(path: Path, sheet_name: str, merged, first_row: int, first_column: int,
+                   grid: list[list]) -> list:
+    """The distinct merged ranges, moved to the grid's origin and cut to it.  Ranges that
+    overlap (no spreadsheet program writes them) could make filling cost more than the grid
+    holds: refused."""
+    height, width = len(grid), max((len(row) for row in grid), default=0)
+    ranges = []
+    for (r0, c0), (r1, c1) in dict.fromkeys(tuple(map(tuple, m)) for m in merged):
+        r0, r1 = max(r0 - first_row, 0), min(r1 - first_row, height - 1)
+        c0, c1 = max(c0 - first_column, 0), min(c1 - first_column, width - 1)
+        if r0 <= r1 and c0 <= c1:
+            ranges.append(((r0, c0), (r1, c1)))
+    covered = sum((r1 - r0 + 1) * (c1 - c0 + 1) for (r0, c0), (r1, c1) in ranges)
+    if covered > height * width:
+        raise refuse(path, f"{len(ranges)} merged ranges overlap (they cover {covered:,} cells "
+                     f"of a {height * width:,}-cell sheet)", "a sheet whose merged cells do not "
+                     "overlap; unmerge them and save it again", sheet=sheet_name)
+    return ranges
 
 
 def _fill_merged(grid: list[list], merged) -> None:

@@ -137,3 +137,25 @@ def test_custom_aliases(tmp_path):
                "temp": ["betriebstemp"], "layers": ["isolierung"]}
     table = read_register(path, aliases=aliases)
     assert (table.loc[0, "status"], table.loc[0, "nps"]) == ("ok", "2")
+
+
+def test_surroundings_column_reads_temperatures_with_units_and_aliases(tmp_path):
+    # Contract, register columns added: surroundings, degC by default; a cell or header unit
+    # wins; a cell that is not a temperature rejects its row naming the column.
+    path = tmp_path / "sur.csv"
+    _write_csv(path, [["tag", "nps", "length", "temp", "layers", "surroundings"],
+                      ["S-1", "2", "5", "150", "none", "-10"],
+                      ["S-2", "2", "5", "150", "none", "50 F"],
+                      ["S-3", "2", "5", "150", "none", ""],
+                      ["S-4", "2", "5", "150", "none", "sky"]])
+    table = read_register(path).set_index("tag")
+    assert table.loc["S-1", "surroundings_K"] == pytest.approx(263.15)
+    assert table.loc["S-2", "surroundings_K"] == pytest.approx((50 - 32) / 1.8 + 273.15)
+    assert math.isnan(table.loc["S-3", "surroundings_K"])
+    assert table.loc["S-4", "status"] == "rejected"
+    assert table.loc["S-4", "reason"].startswith('surroundings: "sky" is not a temperature')
+    # The shipped alias table knows a plant's other words for it, with a header unit.
+    path = tmp_path / "alias.csv"
+    _write_csv(path, [["tag", "nps", "length", "temp", "layers", "Mean radiant temperature [degF]"],
+                      ["S-5", "2", "5", "150", "none", "32"]])
+    assert read_register(path)["surroundings_K"][0] == pytest.approx(273.15)
