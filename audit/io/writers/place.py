@@ -32,20 +32,23 @@ class OutputFolder:
     def __init__(self, path):
         self.root = Path(path)
         self._lock = None
+        self._created = False
 
     def __enter__(self) -> OutputFolder:
         self.prepare()
         self._lock = _take_lock(self.root)
         return self
 
-    def __exit__(self, *exc) -> None:
+    def __exit__(self, kind, value, traceback) -> None:
         handle, self._lock = self._lock, None
         if handle is not None:
-            try:
-                os.unlink(self.root / LOCK_NAME)  # still ours: removed while held
-            except OSError:
-                pass
+            _remove(self.root / LOCK_NAME)  # still ours: removed while held
             os.close(handle)
+        if kind is not None and self._created:  # a refused run leaves no empty folder behind
+            try:
+                self.root.rmdir()
+            except OSError:  # something was written: keep it
+                pass
 
     def prepare(self) -> None:
         """Refuse an ``--out`` that is a file, create it if missing, say so if it is read-only."""
@@ -53,6 +56,7 @@ class OutputFolder:
         if root.exists() and not root.is_dir():
             raise LagauditError(f"--out {_shown(root)} is a file, not a folder",
                                 expected="a folder to write the outputs into (it is created if missing)")
+        self._created = not root.exists()
         try:
             root.mkdir(parents=True, exist_ok=True)
         except OSError as exc:
