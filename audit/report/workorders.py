@@ -137,11 +137,19 @@ class PackPlan:
 
 def plan_packs(orders: list[dict], max_pages: int | None = None) -> PackPlan:
     """Split ``orders`` (as :func:`build_orders` sorts them) into those the packs print, the
-    ``max_pages`` (default :data:`MAX_WORKORDER_PAGES`) most severe, and the rest, by area."""
+    ``max_pages`` (default :data:`MAX_WORKORDER_PAGES`) most severe, the areas taking turns
+    within a severity, and the rest, by area."""
     cap = MAX_WORKORDER_PAGES if max_pages is None else max_pages
     if cap < 0:
         raise ValueError(f"max_pages must be 0 or more, not {cap!r}")
-    ranked = sorted(range(len(orders)), key=lambda i: -orders[i]["rank"])  # stable: area order kept
+    # Most severe first; within a severity the areas take turns (each area's own order kept),
+    # so a cap shared by many areas prints some of each, and the packs stay small and even.
+    turn, seen = [], defaultdict(int)
+    for order in orders:
+        key = (order["area"], order["rank"])
+        turn.append(seen[key])
+        seen[key] += 1
+    ranked = sorted(range(len(orders)), key=lambda i: (-orders[i]["rank"], turn[i], orders[i]["area"]))
     kept = np.zeros(len(orders), bool)
     kept[ranked[:cap]] = True
     plan = PackPlan(orders, cap)

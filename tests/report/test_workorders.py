@@ -145,3 +145,13 @@ def test_no_cap_note_when_every_order_is_printed(demo_audit, meta):
     html = render("report.html", build_context(demo_audit, meta=meta, caution=CAUTION,
                                                packs=plan.summary()))
     assert "item pages" not in html
+
+
+def test_the_cap_lets_the_areas_take_turns_within_a_severity():
+    """A cap shared by many areas prints some of each area's worst, not one area's all."""
+    orders = [{"area": area, "rank": 3, "tag": f"{area}-{k}"} for area in "ABC" for k in range(5)]
+    plan = plan_packs(orders, 6)
+    assert {area: [o["tag"] for o in o_] for area, o_ in plan.printed.items()} == {
+        "A": ["A-0", "A-1"], "B": ["B-0", "B-1"], "C": ["C-0", "C-1"]}
+    worse = [{"area": "C", "rank": 4, "tag": "C-worst"}]
+    assert [o["tag"] for o in plan_packs(orders + worse, 1).printed["C"]] == ["C-worst"]
