@@ -31,6 +31,7 @@ import openpyxl
 import pandas as pd
 import pytest
 
+import audit.cli
 import audit.io.writers.xlsx as xlsx_writer
 from audit.errors import LagauditError
 from audit.io.writers.place import LOCK_NAME, OutputFolder
@@ -292,3 +293,19 @@ def test_no_temporary_or_lock_is_left_by_a_whole_run(lagaudit, register, tmp_pat
     assert left == []
     assert (out / "workorders.csv").exists() and any((out / "workorders").iterdir())
     assert os.listdir(out)
+
+
+def test_sigterm_while_writing_stops_like_ctrl_c(lagaudit, register, tmp_path, monkeypatch):
+    import audit.outputs
+
+    def terminated(sheets, path, **kwargs):
+        Path(path).write_bytes(b"PK\x03\x04 part of a workbook")
+        os.kill(os.getpid(), signal.SIGTERM)  # as `kill PID` from another terminal
+        time.sleep(5)  # the handler raises before this ends
+    monkeypatch.setattr(audit.outputs, "write_xlsx", terminated)
+    out = tmp_path / "out"
+    code, _, err = lagaudit("run", register, "--out", out, "--format", "csv,xlsx")
+    assert code == 143
+    assert err == "lagaudit: terminated; no output was left half-written\n"
+    assert sorted(p.name for p in out.iterdir()) == ["findings.csv", "results.csv"]
+    assert signal.getsignal(signal.SIGTERM) is not audit.cli._stopped  # handler given back
