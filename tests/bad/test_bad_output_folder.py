@@ -309,3 +309,17 @@ def test_sigterm_while_writing_stops_like_ctrl_c(lagaudit, register, tmp_path, m
     assert err == "lagaudit: terminated; no output was left half-written\n"
     assert sorted(p.name for p in out.iterdir()) == ["findings.csv", "results.csv"]
     assert signal.getsignal(signal.SIGTERM) is not audit.cli._stopped  # handler given back
+
+
+def test_a_full_disk_while_writing_is_one_line(lagaudit, register, tmp_path, monkeypatch):
+    import audit.outputs
+
+    def full(sheets, path, **kwargs):
+        Path(path).write_bytes(b"PK")
+        raise OSError(28, "No space left on device")
+    monkeypatch.setattr(audit.outputs, "write_xlsx", full)
+    out = tmp_path / "out"
+    code, _, err = lagaudit("run", register, "--out", out, "--format", "xlsx")
+    assert code == 2 and err.count("\n") == 1
+    assert "cannot write into" in err and "results.xlsx" in err and "no space left" in err
+    assert not out.exists()  # no temporary left, and the folder it made is gone

@@ -103,6 +103,9 @@ class OutputFolder:
             yield temporary
             self.check(relative)  # nothing swapped in for it meanwhile
             os.replace(temporary, target)
+        except OSError as exc:  # a full disk, a folder made read-only meanwhile: one line
+            _remove(temporary)
+            raise _unwritable(target, exc) from None
         except BaseException:
             _remove(temporary)
             raise
