@@ -211,7 +211,11 @@ class PreparedItems:
                                 #: them, also where the insulation is missing, (n, L)
     source: pd.DataFrame | None = None   #: the item table prepared (read, never written)
     source_rows: np.ndarray | None = None  #: each row's position in ``source`` (None: all)
-    edits: dict = field(default_factory=dict)  #: column -> values per row, over ``source``'s
+    edits: dict = field(default_factory=dict)  #: column -> values per row (or one for all),
+                                               #: over ``source``'s
+    #: column -> one value per row, made into one-layer tuples only when the table is built:
+    #: ``layer_materials`` (conductivity-table indices), ``layer_thicknesses_m`` [m]
+    one_layer: dict = field(default_factory=dict)
     _table: pd.DataFrame | None = field(default=None, repr=False)
 
     _ROW_ARRAYS = ("own_site", "row_air", "row_wind", "row_rh", "row_surroundings", "temp",
@@ -226,32 +230,49 @@ class PreparedItems:
         if self._table is None:
             if self.source is None:
                 raise ValueError("PreparedItems.table: prepared without its table")
-            if self.source_rows is None and not self.edits:
+            if self.source_rows is None and not self.edits and not self.one_layer:
                 self._table = self.source
             else:
-                keep = [c for c in self.source.columns if not str(c).startswith("raw:")]
+                keep = [i for i, c in enumerate(self.source.columns) if not str(c).startswith("raw:")]
                 rows = slice(None) if self.source_rows is None else self.source_rows
-                table = self.source.loc[:, keep].iloc[rows].reset_index(drop=True)  # a copy
+                table = self.source.iloc[rows, keep].reset_index(drop=True)  # a copy
                 for column, values in self.edits.items():
                     table[column] = values
+                for column, values in self.one_layer.items():
+                    table[column] = self._one_layer(column, values)
                 self._table = table
         return self._table
 
-    def _with(self, accepted, fixed, at=slice(None), *, rows=None, edits=None,
-              **changed) -> PreparedItems:
+    def _one_layer(self, column, values) -> np.ndarray:
+        """A one-layer trial's cells of ``column``: 1-tuples of its material names (from
+        their conductivity-table indices) or of its thicknesses [m]."""
+        if column == "layer_materials":
+            names = np.array([*sorted(self.index, key=self.index.get), ""], dtype=object)
+            return per_distinct(lambda m: (m,), names[np.asarray(values)])
+        return per_distinct(lambda t: (float(t),), np.asarray(values, float))
+
+    def _with(self, accepted, fixed, at=slice(None), *, rows=None, edits=None, one_layer=None,
+              keep_edits=True, **changed) -> PreparedItems:
         """A trial of the rows ``at`` of the accepted rows; ``rows`` (positions in this
-        table) and ``edits`` (new table cells of those rows) keep its table in step."""
+        table), ``edits`` and ``one_layer`` (new table cells of those rows, over this trial's
+        unless not ``keep_edits``) keep its table in step."""
         arrays = {name: getattr(self, name)[at] for name in self._ROW_ARRAYS}
         arrays.update(changed)
-        if rows is None:
-            source_rows = self.source_rows
-            kept = dict(self.edits)
-        else:
-            source_rows = rows if self.source_rows is None else self.source_rows[rows]
-            kept = {column: np.asarray(values)[rows] for column, values in self.edits.items()}
+
+        def kept(edits):
+            if not keep_edits:
+                return {}
+            if rows is None:
+                return dict(edits)
+            return {column: values if np.ndim(values) == 0 else np.asarray(values)[rows]
+                    for column, values in edits.items()}
+
+        source_rows = self.source_rows if rows is None else \
+            rows if self.source_rows is None else self.source_rows[rows]
         return PreparedItems(accepted=accepted, index=self.index, fixed=fixed,
                              site_names=self.site_names, source=self.source,
-                             source_rows=source_rows, edits={**kept, **(edits or {})}, **arrays)
+                             source_rows=source_rows, edits={**kept(self.edits), **(edits or {})},
+                             one_layer={**kept(self.one_layer), **(one_layer or {})}, **arrays)
 
     def take(self, rows: np.ndarray) -> PreparedItems:
         """The rows ``rows`` (positions in the table, all accepted) as a table of their own."""
@@ -279,15 +300,12 @@ class PreparedItems:
         fixed["layer_thickness"] = thickness.reshape(n, 1)
         fixed["layer_factor"] = np.ones((n, 1))
         fixed["bare_fraction"] = np.zeros(n)
-        names = np.array([*sorted(self.index, key=self.index.get), ""], dtype=object)
-        edits = {"layer_materials": per_distinct(lambda m: (m,), names[table[:, 0]]),
-                 "layer_thicknesses_m": per_distinct(lambda t: (float(t),), thickness),
-                 "condition": np.full(n, "intact", dtype=object),
-                 "damaged_pct": np.full(n, np.nan)}
+        edits = {"condition": "intact", "damaged_pct": np.nan}
         if cover_fittings:
             fixed["fitting_length"] = np.zeros(n)
-            edits.update(valves=np.zeros(n, int), flanges=np.zeros(n, int))
-        return self._with(self.accepted, fixed, edits=edits, listed_layers=table)
+            edits.update(valves=0, flanges=0)
+        return self._with(self.accepted, fixed, edits=edits, listed_layers=table, one_layer={
+            "layer_materials": table[:, 0], "layer_thicknesses_m": thickness})
 
     def repaired(self, insulate, to_spec, spec_material, thickness_m, covers) -> PreparedItems:
         """Every row repaired; the rows with nothing to repair drop out (not accepted).
@@ -336,7 +354,9 @@ class PreparedItems:
                 valves=np.where(gone, 0, base["valves"].to_numpy(object)),
                 flanges=np.where(gone, 0, base["flanges"].to_numpy(object)))
         listed = np.where(spec[:, None], one_layer, listed)[:, :width]
-        return self._with(accepted, fixed, at, edits=edits, listed_layers=listed)
+        # Its table's cells are worked out from this trial's table: they replace its edits.
+        return self._with(accepted, fixed, at, edits=edits, keep_edits=self.source is None,
+                          listed_layers=listed)
 
 
 def thermal_states(table: pd.DataFrame, rules: Rules, *, site: str | None = None,

@@ -243,6 +243,7 @@ def test_surroundings_follow_the_rows_own_air_unless_given(tmp_path, rules):
 def test_table_and_engine_agree_on_covers_and_bare_metal(tmp_path, rules):
     # One rule (audit.engine.batch.surfaces) read from the table for names and defaults and
     # from the engine's arrays for validation: they must agree on every row.
+    from audit.checks.base import bare_parts
     from audit.engine.batch import item_surfaces
     from audit.thermal import prepare_items, table_surfaces
 
@@ -261,6 +262,7 @@ def test_table_and_engine_agree_on_covers_and_bare_metal(tmp_path, rules):
     for got, want in zip(table_surfaces(t), item_surfaces(batch)):
         np.testing.assert_array_equal(got, want)
     cover, bare = table_surfaces(t)
+    assert list(bare_parts(t) != "") == list(bare)  # the checks' words follow the rule
     assert list(cover) == [True, True, False, False, True, True, True, False]
     # The vessel's valves are not counted (a warning says so); 0 % damage bares nothing.
     assert list(bare) == [False, True, True, True, True, False, False, True]

@@ -58,7 +58,7 @@ def run_checks(context: CheckContext, params: dict | None = None) -> pd.DataFram
     for check in context.rules.checks.values():
         if not check.enabled:
             continue
-        found = kinds[check.kind].evaluate(context, check, params[check.name])
+        found = kinds[check.kind].findings(context, check, params[check.name])
         if len(found):
             frames.append(found)
     if not frames:

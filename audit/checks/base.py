@@ -1,8 +1,12 @@
-"""What every check shares: the context it reads, the findings it returns, its parameters.
+"""What every check shares: the context it reads, the verdict it returns, the findings the
+framework builds from it, its parameters.
 
-A check is a pure function ``evaluate(context, check) -> findings`` of the item table, the
-thermal states of the scenario it declares, and the rules.  It formats no report text beyond
-a one-line ``message``; it never opens a file.
+A check decides, then words.  Its ``evaluate(context, check, params)`` is a pure function of
+the item table, the thermal states of the scenario it declares and the rules, and returns a
+:class:`Verdict`: which rows fail, with the value, limit and unit compared (data, no text).
+Its ``word(context, check, params, verdict)`` writes each failing row's one-line message and
+remedy.  :meth:`CheckKind.findings` builds the findings table from the two; the remedy search
+asks only for verdicts.  A check never opens a file.
 """
 
 from __future__ import annotations
@@ -16,9 +20,10 @@ import pandas as pd
 from audit.errors import Problem, RuleError
 from audit.repeats import per_distinct
 from audit.rules import Check, Rules
+from audit.rules.loader import CHECK_KEYS
+from audit.rules.schema import convert_keys
 from audit.thermal import (ZERO_CELSIUS, PreparedItems, conductivity_tables, has_layers,
-                           prepare_items, table_surfaces, thermal_states)
-from audit.units import UnitParseError
+                           prepare_items, thermal_states)
 
 #: Columns of a findings table, in order (``row`` indexes the item table).
 FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value", "limit", "unit",
@@ -28,16 +33,42 @@ FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value",
 
 
 @dataclass
-class CheckKind:
-    """A kind of check: its function, its own parameters and whether insulation can fix it."""
+class Verdict:
+    """What a check decided, as data: the failing rows (positions in the item table) and,
+    aligned with them or one for all, the value compared, the limit and its unit."""
 
-    evaluate: Callable                 #: (CheckContext, Check) -> DataFrame of findings
+    rows: np.ndarray
+    value: object = np.nan
+    limit: object = np.nan
+    unit: object = ""
+    severity: object = None     #: per row where it differs from the check's, else None
+    facts: dict = field(default_factory=dict)  #: what the wording reads, aligned with rows
+
+
+@dataclass
+class CheckKind:
+    """A kind of check: how it decides, how it words, its own parameters and whether
+    insulation can fix it."""
+
+    evaluate: Callable                 #: (CheckContext, Check, params) -> Verdict
+    word: Callable                     #: (CheckContext, Check, params, Verdict) -> (message, remedy)
     params: dict                       #: key -> (converter, required); see audit.rules.converters
     fixable_by_insulation: bool        #: the remedy search may add insulation for it
     description: str
     #: (check, params) -> None; raises RuleError for rules across keys that the per-key
     #: schema cannot express (e.g. "at least one of"), so they fail at load, not mid-run
     validate: Callable | None = None
+    #: the remedy's insulation must pass it too: the remedy search evaluates it on every
+    #: trial, not only on the items that failed it (e.g. a layer's maximum temperature)
+    remedy_must_pass: bool = False
+
+    def findings(self, context: CheckContext, check: Check, params: dict) -> pd.DataFrame:
+        """The findings table of ``check`` on ``context``: its verdict, worded."""
+        verdict = self.evaluate(context, check, params)
+        message, remedy = self.word(context, check, params, verdict)
+        return findings(context, check, verdict.rows, value=verdict.value, limit=verdict.limit,
+                        unit=verdict.unit, message=message, remedy=remedy,
+                        fixable=self.fixable_by_insulation, severity=verdict.severity)
 
 
 @dataclass
@@ -47,27 +78,24 @@ class CheckContext:
     table: pd.DataFrame
     rules: Rules
     surface_model: str = "correlations"
-    #: Only which rows fail is wanted (the remedy search): the checks that insulation can fix
-    #: return :func:`failing_rows` instead of worded findings.
-    rows_only: bool = False
     _states: dict = field(default_factory=dict)
     _tables: tuple | None = None
     _prepared: PreparedItems | None = None
     _once: dict = field(default_factory=dict)
 
-    def once(self, function: Callable, *args):
-        """``function(self.table, *args)``, computed once for this context: several checks ask
-        for the same facts of the table (its bare parts, which rows have layers)."""
-        key = (function, *map(id, args))  # the arguments (the rules) need not be hashable
-        if key not in self._once:
-            self._once[key] = (args, function(self.table, *args))  # args kept: ids stay theirs
-        return self._once[key][1]
+    def once(self, function: Callable, *, rules: bool = False):
+        """``function(self.table)`` (with ``rules``: ``function(self.table, self.rules)``),
+        computed once for this context: several checks ask for the same facts of the table
+        (its bare parts, which rows have layers)."""
+        if function not in self._once:
+            self._once[function] = function(self.table, self.rules) if rules else function(self.table)
+        return self._once[function]
 
-    def trial(self, items: PreparedItems, *, rows_only: bool = False) -> CheckContext:
+    def trial(self, items: PreparedItems) -> CheckContext:
         """A context of the trial ``items`` (derived from :meth:`prepared`): its table, the
         same rules, surface model and conductivity tables."""
         return CheckContext(items.table(), self.rules, surface_model=self.surface_model,
-                            rows_only=rows_only, _tables=self.tables(), _prepared=items)
+                            _tables=self.tables(), _prepared=items)
 
     def tables(self) -> tuple:
         """:func:`audit.thermal.conductivity_tables` of the rules, built once."""
@@ -98,12 +126,12 @@ class CheckContext:
         return mask
 
 
-def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, limit, unit: str,
+def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, limit, unit,
              message, remedy, fixable=False, severity=None) -> pd.DataFrame:
     """A findings table for ``rows`` (positions in the item table) of one check.
 
-    ``value``, ``limit``, ``message``, ``remedy`` and ``severity`` are arrays aligned with
-    ``rows`` or scalars; ``severity`` defaults to the check's; the conditions come from the
+    ``value``, ``limit``, ``unit``, ``message``, ``remedy`` and ``severity`` are arrays
+    aligned with ``rows`` or scalars; ``severity`` defaults to the check's; the conditions come from the
     check's scenario.
     """
     rows = np.asarray(rows, int)
@@ -113,6 +141,11 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
 
     def spread(x, dtype=object):
         return np.full(n, x, dtype=dtype) if np.isscalar(x) or x is None else np.asarray(x, dtype=dtype)
+
+    if unit is None or isinstance(unit, str):
+        unit = str(unit or "")
+    else:
+        unit = spread(unit)
 
     return pd.DataFrame({
         "row": rows,
@@ -139,38 +172,16 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
     }, columns=FINDING_COLUMNS)
 
 
-def failing_rows(rows) -> pd.DataFrame:
-    """A findings table that holds only its ``row`` column: the answer of a check evaluated
-    with ``CheckContext.rows_only``, which skips wording what the caller will not read."""
-    return pd.DataFrame({"row": np.asarray(rows, int)})
-
-
 def empty_findings() -> pd.DataFrame:
     return pd.DataFrame({c: pd.Series(dtype=object) for c in FINDING_COLUMNS})
 
 
 def validated_params(check: Check, kind: CheckKind) -> dict:
     """The check's own parameters converted by its kind's schema; RuleError naming file and key."""
-    problems, values = [], {}
-    where = f"check.{check.name}"
-    for key, raw in check.params.items():
-        if key not in kind.params:
-            problems.append(Problem(f"unknown key {key!r} for a check of kind {check.kind!r}",
-                                    file=check.origin, column=f"{where}.{key}",
-                                    expected="one of " + ", ".join(
-                                        ["kind", "enabled", "site", "applies_to", "severity",
-                                         "source", "description", *kind.params])))
-            continue
-        convert, _ = kind.params[key]
-        try:
-            values[key] = convert(raw)
-        except (ValueError, UnitParseError) as exc:
-            problems.append(Problem(f"invalid value: {exc}", file=check.origin,
-                                    column=f"{where}.{key}", value=raw))
-    for key, (_, required) in kind.params.items():
-        if required and key not in check.params:
-            problems.append(Problem(f"missing key {key!r}", file=check.origin, column=where,
-                                    expected=f"{key} = ..."))
+    problems: list[Problem] = []
+    values = convert_keys(check.params, kind.params, where=f"check.{check.name}",
+                          origin=check.origin, problems=problems, known=CHECK_KEYS,
+                          unknown_note=f" for a check of kind {check.kind!r}")
     if problems:
         raise RuleError(f"{len(problems)} problem(s) in check {check.name!r}", file=check.origin,
                         problems=problems)
@@ -179,16 +190,14 @@ def validated_params(check: Check, kind: CheckKind) -> dict:
     return values
 
 
-def bare_parts(table: pd.DataFrame):
-    """Per row of the item table: has it a bare metal part (:func:`audit.thermal.table_surfaces`),
-    and which, in words."""
-    has_bare = table_surfaces(table)[1]
-    words = per_distinct(
+def bare_parts(table: pd.DataFrame) -> np.ndarray:
+    """Per row of the item table: its bare metal parts in words ("" where it has none; which
+    rows have some is :func:`audit.thermal.table_surfaces`' rule, and these words follow it)."""
+    return per_distinct(
         _bare_words, has_layers(table), table["condition"].fillna("").to_numpy(object),
         np.nan_to_num(table["damaged_pct"].to_numpy(float), nan=-1.0),
         (table["shape"] == "pipe").to_numpy(), np.nan_to_num(table["valves"].to_numpy(float)),
         np.nan_to_num(table["flanges"].to_numpy(float)))
-    return has_bare, np.where(has_bare, words, "").astype(object)
 
 
 def _bare_words(insulated, condition, damaged, pipe, valves, flanges) -> str:

@@ -29,7 +29,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from audit.checks.base import CheckKind, failing_rows, findings
+from audit.checks.base import CheckKind, Verdict
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
 from audit.repeats import per_distinct
 from audit.thermal import ZERO_CELSIUS
@@ -159,26 +159,30 @@ def evaluate(context, check, params):
     bare = asked & (have <= 0)
     thin = asked & (have < need.thickness_m - need.tolerance_m - _EDGE_M)
     rows = np.flatnonzero(context.selected(check) & (bare | thin))
-    if context.rows_only:
-        return failing_rows(rows)
-    required_mm = need.thickness_m[rows] * 1000.0
-    installed_mm = have[rows] * 1000.0
-    process = states["process_temp_K"].to_numpy(float)[rows] - ZERO_CELSIUS
+    return Verdict(rows, value=have[rows] * 1000.0, limit=need.thickness_m[rows] * 1000.0,
+                   unit="mm", facts={
+                       "bare": bare[rows], "spec": need.spec[rows], "material": need.material[rows],
+                       "process": states["process_temp_K"].to_numpy(float)[rows] - ZERO_CELSIUS,
+                       "tolerance_mm": need.tolerance_m[rows] * 1000})
+
+
+def word(context, check, params, verdict):
+    facts = verdict.facts
+    required_mm = verdict.limit.tolist()
     # Python floats in the loops, not numpy scalars: tens of thousands of rows.
-    spec, material = need.spec[rows].tolist(), need.material[rows].tolist()
+    spec, material = facts["spec"].tolist(), facts["material"].tolist()
     message = [
         ("no insulation installed" if none else f"{mm:.0f} mm installed")
         + f"; the {s} specification asks for {req:.0f} mm of {m} at {t:.0f} degC "
           f"(tolerance {tol:.0f} mm)"
         for none, mm, s, req, m, t, tol in zip(
-            bare[rows].tolist(), installed_mm.tolist(), spec, required_mm.tolist(), material,
-            process.tolist(), (need.tolerance_m[rows] * 1000).tolist())]
+            facts["bare"].tolist(), verdict.value.tolist(), spec, required_mm, material,
+            facts["process"].tolist(), facts["tolerance_mm"].tolist())]
     remedy = [f"insulate to specification: {req:.0f} mm of {m}"
-              for req, m in zip(required_mm.tolist(), material)]
-    return findings(context, check, rows, value=installed_mm, limit=required_mm, unit="mm",
-                    message=message, remedy=remedy, fixable=True)
+              for req, m in zip(required_mm, material)]
+    return message, remedy
 
 
-KIND = CheckKind(evaluate=evaluate, params={}, fixable_by_insulation=True,
+KIND = CheckKind(evaluate=evaluate, word=word, params={}, fixable_by_insulation=True,
                  description="installed insulation thinner than the plant specification for the "
                              "item's service, size and temperature, beyond its tolerance")

@@ -17,10 +17,10 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, bare_parts, failing_rows, findings
+from audit.checks.base import CheckKind, Verdict, bare_parts
 from audit.engine.psychrometrics import dew_point_hyland_wexler
 from audit.rules.converters import temperature_difference
-from audit.thermal import ZERO_CELSIUS
+from audit.thermal import ZERO_CELSIUS, table_surfaces
 
 NAME = "condensation"
 
@@ -52,30 +52,34 @@ def evaluate(context, check, params):
         cold = process < air
         fails = selected & cold & np.isfinite(limit) & (coldest < limit)
     flagged = np.flatnonzero(fails)
-    if context.rows_only:
-        return failing_rows(flagged)
-    has_bare, bare_words = context.once(bare_parts)
-    bare_is_coldest = has_bare & ~(insulated <= worst)
+    return Verdict(flagged, value=coldest[flagged] - ZERO_CELSIUS,
+                   limit=limit[flagged] - ZERO_CELSIUS, unit="degC",
+                   facts={"dew": dew[flagged], "air": air[flagged], "rh": rh[flagged],
+                          "bare_is_coldest": ~(insulated[flagged] <= worst[flagged])})
 
+
+def word(context, check, params, verdict):
+    margin = params.get("margin", DEFAULT_MARGIN_K)
+    has_bare = context.once(table_surfaces)[1][verdict.rows]
+    bare_words = context.once(bare_parts)[verdict.rows]
+    facts = verdict.facts
     message, remedy = [], []
     # Python floats in the loop, not numpy scalars: tens of thousands of rows.
     for bare, words, cold_c, dew_c, air_c, rh_r in zip(
-            bare_is_coldest[flagged].tolist(), bare_words[flagged].tolist(),
-            (coldest[flagged] - ZERO_CELSIUS).tolist(), (dew[flagged] - ZERO_CELSIUS).tolist(),
-            (air[flagged] - ZERO_CELSIUS).tolist(), rh[flagged].tolist()):
+            (has_bare & facts["bare_is_coldest"]).tolist(), bare_words.tolist(),
+            verdict.value.tolist(), (facts["dew"] - ZERO_CELSIUS).tolist(),
+            (facts["air"] - ZERO_CELSIUS).tolist(), facts["rh"].tolist()):
         part = words if bare else "insulated surface"
         message.append(f"{part} at {cold_c:.1f} degC, below the dew point {dew_c:.1f} degC + "
                        f"{margin:g} K margin (air {air_c:.0f} degC, {rh_r:.0f} % RH)")
         remedy.append("insulate the bare parts, with a sealed vapour retarder" if bare
                       else "increase insulation thickness, with a sealed vapour retarder")
-    return findings(context, check, flagged, value=coldest[flagged] - ZERO_CELSIUS,
-                    limit=limit[flagged] - ZERO_CELSIUS, unit="degC",
-                    message=np.array(message, dtype=object), remedy=np.array(remedy, dtype=object),
-                    fixable=True)
+    return np.array(message, dtype=object), np.array(remedy, dtype=object)
 
 
 KIND = CheckKind(
     evaluate=evaluate,
+    word=word,
     params={"margin": (_margin, False)},
     fixable_by_insulation=True,
     description="a cold item whose outer surface is below the dew point of the air plus a margin")

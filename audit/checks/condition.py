@@ -22,7 +22,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, findings, has_layers
+from audit.checks.base import CheckKind, Verdict, has_layers
 from audit.repeats import per_distinct
 from audit.rules.converters import choice, list_of, quantity
 
@@ -84,24 +84,24 @@ def evaluate(context, check, params):
     fittings = (chosen & ("fittings" in flags) & insulated & (condition != "missing")
                 & (valves + flanges >= least))
     rows = np.flatnonzero(missing | damaged | wet | fittings)
-
-    worded = per_distinct(_words, missing[rows], damaged[rows], wet[rows], fittings[rows],
-                          share[rows], valves[rows], flanges[rows])
-    messages = [m for m, _ in worded]
-    remedies = [r for _, r in worded]
-
     if flags == {"fittings"}:
         value, limit, unit = (valves + flanges)[rows], float(least), "fittings"
     else:
         value = np.select([condition[rows] == "missing", condition[rows] == "damaged"],
                           [100.0, share[rows]], 0.0)
         limit, unit = threshold, "%"
-    return findings(context, check, rows, value=value, limit=limit, unit=unit, message=messages,
-                    remedy=remedies, fixable=False)
+    return Verdict(rows, value=value, limit=limit, unit=unit, facts={
+        "flags": [x[rows] for x in (missing, damaged, wet, fittings, share, valves, flanges)]})
+
+
+def word(context, check, params, verdict):
+    worded = per_distinct(_words, *verdict.facts["flags"])
+    return [m for m, _ in worded], [r for _, r in worded]
 
 
 KIND = CheckKind(
     evaluate=evaluate,
+    word=word,
     params={
         "flags": (list_of(choice(*FLAGS), "flags: " + ", ".join(FLAGS)), True),
         "damaged_threshold": (quantity("percent", "percent", low=0.0, high=100.0), False),

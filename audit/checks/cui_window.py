@@ -42,7 +42,7 @@ import datetime
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckKind, findings, has_layers
+from audit.checks.base import CheckKind, Verdict, has_layers
 from audit.io.readers.headers import normalise_name, split_unit
 from audit.repeats import per_distinct
 from audit.rules import SEVERITIES
@@ -290,15 +290,23 @@ def evaluate(context, check, params):
     cap = SEVERITIES.index(check.severity)
     severity = [SEVERITIES[min(SEVERITIES.index(bands[b][1]), cap)] for b in band[hit].tolist()]
 
+    return Verdict(hit, value=score[hit], limit=thresholds[band[hit]], unit="score",
+                   severity=np.asarray(severity, dtype=object), facts={
+                       "columns": [np.asarray(a)[hit] for a in (
+                           temp - ZERO_CELSIUS, top - ZERO_CELSIUS, (top == temp) | ~np.isfinite(top),
+                           metal, given != "", condition, condition_factor, no_jacket,
+                           jacket_factor, cyclic, cyclic_factor, age, age_factor, cyclic_unread,
+                           age_unread, band, label, score)],
+                       "headers": (cyclic_header, age_header)})
+
+
+def word(context, check, params, verdict):
+    bands = params["bands"]
+    cyclic_header, age_header = verdict.facts["headers"]
     messages = []
     # Python values in the loop, not numpy scalars: tens of thousands of rows.
     for (t, t_top, one_temp, who_metal, named, cond, f_cond, bare_jacket, f_jacket, cyc, f_cyc, years,
-         f_age, cyc_bad, age_bad, b, lab, s) in zip(*(
-            np.asarray(a)[hit].tolist() for a in (
-                temp - ZERO_CELSIUS, top - ZERO_CELSIUS, (top == temp) | ~np.isfinite(top), metal,
-                given != "", condition,
-                condition_factor, no_jacket, jacket_factor, cyclic, cyclic_factor, age, age_factor,
-                cyclic_unread, age_unread, band, label, score))):
+         f_age, cyc_bad, age_bad, b, lab, s) in zip(*(a.tolist() for a in verdict.facts["columns"])):
         span = f"{t:.0f} degC" if one_temp else f"{t:.0f} to {t_top:.0f} degC"
         who = who_metal + (" (default metal)" if not named else "")
         raised = []
@@ -319,13 +327,12 @@ def evaluate(context, check, params):
             + f"; score {s:.3g} reaches the band from {threshold:g} ({level})"
             + ("; " + "; ".join(unread) if unread else ""))
 
-    return findings(context, check, hit, value=score[hit], limit=thresholds[band[hit]],
-                    unit="score", message=messages, remedy=REMEDY, fixable=False,
-                    severity=np.asarray(severity, dtype=object))
+    return messages, REMEDY
 
 
 KIND = CheckKind(
     evaluate=evaluate,
+    word=word,
     params={
         "windows": (_windows, True),
         "condition_factors": (_condition_factors, True),

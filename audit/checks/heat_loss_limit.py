@@ -29,7 +29,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckKind, failing_rows, findings
+from audit.checks.base import CheckKind, Verdict
 from audit.checks.below_spec import requirement
 from audit.errors import RuleError
 from audit.rules.converters import quantity
@@ -93,23 +93,20 @@ def evaluate(context, check, params):
             ratio = values[key] / limits[key]
             ratios[:, k] = np.where(selected & (values[key] > limits[key]), ratio, -np.inf)
     worst = np.argmax(ratios, axis=1)
-    over = np.isfinite(ratios.max(axis=1))
-    if context.rows_only:
-        return failing_rows(np.flatnonzero(over))
+    rows = np.flatnonzero(np.isfinite(ratios.max(axis=1)))
     keys = list(values)
-    frames = []
-    for k, key in enumerate(keys):
-        rows = np.flatnonzero(over & (worst == k))
-        if not rows.size:
-            continue
-        message = _messages(rows, keys, values, limits, ratios, heat, need)
-        frames.append(findings(context, check, rows, value=values[key][rows], limit=limits[key],
-                               unit=_UNITS[key], message=message, remedy=_REMEDY, fixable=True))
-    if not frames:
-        return findings(context, check, np.empty(0, int), value=np.nan, limit=np.nan, unit="",
-                        message="", remedy="", fixable=True)
-    return pd.concat(frames, ignore_index=True).sort_values("row", kind="stable",
-                                                            ignore_index=True)
+    which = worst[rows]
+    value = np.column_stack([values[key] for key in keys])[rows, which] if keys else np.empty(0)
+    return Verdict(rows, value=value, limit=np.array([limits[key] for key in keys])[which],
+                   unit=np.array([_UNITS[key] for key in keys], dtype=object)[which],
+                   facts={"keys": keys, "values": values, "limits": limits, "ratios": ratios,
+                          "heat": heat, "need": need})
+
+
+def word(context, check, params, verdict):
+    f = verdict.facts
+    return _messages(verdict.rows, f["keys"], f["values"], f["limits"], f["ratios"], f["heat"],
+                     f["need"]), _REMEDY
 
 
 def _messages(rows, keys, values, limits, ratios, heat, need) -> list[str]:
@@ -137,6 +134,7 @@ def _messages(rows, keys, values, limits, ratios, heat, need) -> list[str]:
 
 KIND = CheckKind(
     evaluate=evaluate,
+    word=word,
     params={"per_m": (quantity("W/m", "W/m", low=0.0, low_open=True), False),
             "per_m2": (quantity("W/m**2", "W/m**2", low=0.0, low_open=True), False),
             "multiple_of_spec": (quantity("dimensionless", "dimensionless", low=1.0), False)},

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, failing_rows, findings
+from audit.checks.base import CheckKind, Verdict
 from audit.repeats import per_distinct
 from audit.thermal import ZERO_CELSIUS
 
@@ -46,15 +46,19 @@ def evaluate(context, check, params):
         worst_limit[better] = limit[better]
         worst_name[better] = names[better]
     rows = np.flatnonzero(worst_excess > 0)
-    if context.rows_only:
-        return failing_rows(rows)
-    message = [f"{worst_name[r]} hot face at {worst_temp[r] - ZERO_CELSIUS:.0f} degC, above its "
-               f"maximum use temperature of {worst_limit[r] - ZERO_CELSIUS:.0f} degC" for r in rows]
-    return findings(context, check, rows, value=worst_temp[rows] - ZERO_CELSIUS,
-                    limit=worst_limit[rows] - ZERO_CELSIUS, unit="degC", message=message,
-                    remedy="replace the overheated layer with a material rated for the "
-                           "temperature (or add a high-temperature inner layer)")
+    return Verdict(rows, value=worst_temp[rows] - ZERO_CELSIUS,
+                   limit=worst_limit[rows] - ZERO_CELSIUS, unit="degC",
+                   facts={"material": worst_name[rows]})
 
 
-KIND = CheckKind(evaluate=evaluate, params={}, fixable_by_insulation=False,
-                 description="a layer whose hot face is above its material's maximum use temperature")
+def word(context, check, params, verdict):
+    message = [f"{name} hot face at {hot:.0f} degC, above its maximum use temperature of "
+               f"{limit:.0f} degC" for name, hot, limit in zip(
+                   verdict.facts["material"], verdict.value, verdict.limit)]
+    return message, ("replace the overheated layer with a material rated for the temperature "
+                     "(or add a high-temperature inner layer)")
+
+
+KIND = CheckKind(evaluate=evaluate, word=word, params={}, fixable_by_insulation=False,
+                 description="a layer whose hot face is above its material's maximum use temperature",
+                 remedy_must_pass=True)

@@ -1,16 +1,17 @@
 """Remedy thickness: the smallest standard thickness that passes all of an item's checks.
 
 For every item with a finding that insulation can fix, the insulation is replaced, in a trial
-(``PreparedItems.reinsulated``), by one layer of the remedy material (intact, fittings covered),
-and the checks are evaluated again on the trials, for the whole register at once.  Thicker insulation
-only helps the fixable checks (a cooler hot surface, a warmer cold one, less heat, more
-thickness against the specification), so the smallest passing standard thickness is found by
-bisection over the standard list: about log2(n) rounds instead of n, then one more round for
-the items that need the thickest (to tell them from those that no standard thickness fixes).  Each round re-evaluates
-only the checks each item failed, plus ``layer-overheat`` (the remedy material must stand the
-temperature).  (Below the critical radius of insulation, heat loss can rise with thickness;
-on such small lines the heat-loss check is the one exception, and the remedy found is then
-the smallest thickness at which bisection saw it pass.)
+(``PreparedItems.reinsulated``), by one layer of the remedy material (intact, fittings
+covered), and the checks' verdicts are taken again on the trials, for the whole register at
+once.  Thicker insulation only helps the fixable checks (a cooler hot surface, a warmer cold
+one, less heat, more thickness against the specification), so the smallest passing standard
+thickness is found by bisection over the standard list: about log2(n) rounds instead of n,
+then one more round for the items that need the thickest (to tell them from those that no
+standard thickness fixes).  Each round re-evaluates only the checks each item failed, plus
+the checks every remedy must pass (``CheckKind.remedy_must_pass``: ``layer-overheat``, the
+remedy material must stand the temperature).  (Below the critical radius of insulation, heat
+loss can rise with thickness; on such small lines the heat-loss check is the one exception,
+and the remedy found is then the smallest thickness at which bisection saw it pass.)
 
 The remedy material is the material of the specification the item is held to (see
 ``below-spec``), else its outermost installed material; an item with neither gets a named
@@ -39,10 +40,12 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     searchable = material != ""
     material_index = map_values(material, context.tables()[1], -1, dtype=int)
     recheck = [c for c in rules.checks.values() if c.enabled and
-               (kinds[c.kind].fixable_by_insulation or c.kind == "layer-overheat")]
-    # Per check, which of the rows failed it (only those are re-checked; overheat for all).
-    failed = {c.name: np.isin(rows, fixable_findings.loc[fixable_findings["check"] == c.name, "row"])
-              if c.kind != "layer-overheat" else np.ones(rows.size, bool) for c in recheck}
+               (kinds[c.kind].fixable_by_insulation or kinds[c.kind].remedy_must_pass)]
+    # Per check, which of the rows failed it (only those are re-checked), or all of them for
+    # the checks every remedy must pass.
+    failed = {c.name: np.ones(rows.size, bool) if kinds[c.kind].remedy_must_pass else
+              np.isin(rows, fixable_findings.loc[fixable_findings["check"] == c.name, "row"])
+              for c in recheck}
     standard = np.asarray(rules.thicknesses, float)
 
     def passes(at: np.ndarray, index: np.ndarray) -> np.ndarray:
@@ -54,9 +57,9 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
                 continue
             trial = context.prepared().take(rows[at[sub]]).reinsulated(
                 material_index[at[sub]], standard[index[sub]])
-            trial_context = context.trial(trial, rows_only=True)
-            found = kinds[check.kind].evaluate(trial_context, check, params[check.name])
-            ok[sub[found["row"].to_numpy(int)]] = False
+            trial_context = context.trial(trial)
+            verdict = kinds[check.kind].evaluate(trial_context, check, params[check.name])
+            ok[sub[verdict.rows]] = False
             ok[sub[~trial_context.states(check.site)["computed"].to_numpy(bool)]] = False
         return ok
 

@@ -19,11 +19,11 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, bare_parts, failing_rows, findings
+from audit.checks.base import CheckKind, Verdict, bare_parts
 from audit.errors import RuleError
 from audit.repeats import per_distinct
 from audit.rules.converters import boolean, quantity, rows, temperature
-from audit.thermal import ZERO_CELSIUS
+from audit.thermal import ZERO_CELSIUS, table_surfaces
 
 NAME = "touch-temperature"
 
@@ -82,8 +82,8 @@ def evaluate(context, check, params):
     selected = context.selected(check)
     worst = states["surface_temp_K"].to_numpy(float)
     insulated_temp = states["surface_temp_insulated_K"].to_numpy(float)
-    has_bare, bare_words = context.once(bare_parts)
-    kind, assumed = context.once(insulated_surface_class, context.rules)
+    has_bare = context.once(table_surfaces)[1]
+    kind, assumed = context.once(insulated_surface_class, rules=True)
     insulated_limit = np.where(kind == "metal", limit_metal, limit_non_metal)
 
     # The insulated surface: the worst part when nothing is bare, else the main insulated wall.
@@ -94,19 +94,24 @@ def evaluate(context, check, params):
     bare_is_worse = bare_excess >= ins_excess
     excess = np.maximum(ins_excess, bare_excess)
     flagged = np.flatnonzero(selected & (excess > 0))
-    if context.rows_only:
-        return failing_rows(flagged)
+    return Verdict(
+        flagged, value=np.where(bare_is_worse, worst, ins_temp)[flagged] - ZERO_CELSIUS,
+        limit=np.where(bare_is_worse, limit_metal, insulated_limit)[flagged] - ZERO_CELSIUS,
+        unit="degC", facts={"bare": bare_is_worse[flagged], "surface": kind[flagged],
+                            "assumed": assumed[flagged]})
 
-    value = np.where(bare_is_worse, worst, ins_temp)[flagged] - ZERO_CELSIUS
-    limit = np.where(bare_is_worse, limit_metal, insulated_limit)[flagged] - ZERO_CELSIUS
+
+def word(context, check, params, verdict):
+    bare_words = context.once(bare_parts)[verdict.rows]
     guard = params.get("guard_allowed", False)
     contact = params.get("contact_time")
     suffix = f" (contact time {contact:g} s)" if contact is not None else ""
+    facts = verdict.facts
     message, remedy = [], []
     # Python values in the loop, not numpy scalars: tens of thousands of rows.
     for bare, words, surface, guessed, v, lim in zip(
-            bare_is_worse[flagged].tolist(), bare_words[flagged].tolist(), kind[flagged].tolist(),
-            assumed[flagged].tolist(), value.tolist(), limit.tolist()):
+            facts["bare"].tolist(), bare_words.tolist(), facts["surface"].tolist(),
+            facts["assumed"].tolist(), verdict.value.tolist(), verdict.limit.tolist()):
         if bare:
             text = f"{words} at {v:.0f} degC, above the {lim:.0f} degC burn limit for metal"
             action = "insulate the bare parts"
@@ -118,13 +123,12 @@ def evaluate(context, check, params):
             action = "increase insulation thickness"
         message.append(text + suffix)
         remedy.append(action + (" or fit a personnel guard" if guard else ""))
-    return findings(context, check, flagged, value=value, limit=limit, unit="degC",
-                    message=np.array(message, dtype=object), remedy=np.array(remedy, dtype=object),
-                    fixable=True)
+    return np.array(message, dtype=object), np.array(remedy, dtype=object)
 
 
 KIND = CheckKind(
     evaluate=evaluate,
+    word=word,
     params={
         "limit_metal": (temperature, False),
         "limit_non_metal": (temperature, True),

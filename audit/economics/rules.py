@@ -1,15 +1,17 @@
 """Reading the economic rules: the ``[economics]`` table of ``economics.toml`` files.
 
-Where the files are read from, in order (a later value wins):
+Where the files are read from, in order (a later value wins): for the shipped rules folder,
+then each ``--rules DIR`` (the folders of ``audit.rules.loader.rule_folders``), every ``*.toml``
+at the top of the folder that has an ``[economics]`` table, then every ``*.toml`` in its
+``economics/`` subfolder, in name order.  Files are read by the one reader of rule files
+(``audit.rules.files.read_toml``).
 
-1. the shipped ``rules/economics/`` folder (every ``*.toml`` in it, in name order);
-2. for each ``--rules DIR``: every ``*.toml`` at the top of ``DIR`` that has an
-   ``[economics]`` table, then every ``*.toml`` in ``DIR/economics/``, in name order.
-
-Layering: a scalar key of ``[economics]`` (``currency``, ``hours``, ...) replaces the earlier
-value; a sub-table (``[economics.heat]``, ``[economics.cold]``, ``[economics.finance]``,
-``[economics.repair]``) replaces the earlier sub-table whole, as a later ``[material.NAME]``
-does in the main rules.  Other top-level sections of a file are left to the main loader.
+Layering is the one rule of every section (:mod:`audit.rules.schema`): a key of
+``[economics]`` (``currency``, ``hours``, ...) replaces the earlier value; a sub-table
+(``[economics.heat]``, ``[economics.cold]``, ``[economics.finance]``, ``[economics.repair]``)
+replaces the earlier sub-table whole, as a later ``[material.NAME]`` does.  Other top-level
+sections of a file are left to the main loader; every key is checked by the one validator,
+``audit.rules.schema.convert_keys``.
 
 The grammar is documented at the top of the shipped ``rules/economics/economics.toml``.
 Every problem raises :class:`~audit.errors.RuleError` naming the file and the key.
@@ -26,7 +28,9 @@ from audit.pipe_sizes import NPS_BY_VALUE
 from audit.rules import shipped_rules_dir
 from audit.rules.files import read_toml
 from audit.rules.converters import list_of, quantity, text
-from audit.units import UnitParseError, parse_quantity
+from audit.rules.loader import rule_folders
+from audit.rules.schema import convert_keys
+from audit.units import parse_quantity
 
 SECTION = "economics"
 SUBFOLDER = "economics"
@@ -194,11 +198,8 @@ def _checked(value, what, low, high=None) -> float:
 
 def economic_rule_files(rule_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> list[Path]:
     """The files read, in order (see the module docstring)."""
-    files = sorted((shipped_rules_dir() / SUBFOLDER).glob("*.toml")) if shipped else []
-    for folder in map(Path, rule_dirs):
-        if not folder.is_dir():
-            raise RuleError(f"rules folder {str(folder)!r} does not exist or is not a folder",
-                            file=str(folder), expected="a folder holding *.toml rule files")
+    files = []
+    for folder in rule_folders(rule_dirs, shipped=shipped):
         files += [p for p in sorted(folder.glob("*.toml")) if SECTION in _read(p)]
         files += sorted((folder / SUBFOLDER).glob("*.toml"))
     return files
@@ -207,7 +208,7 @@ def economic_rule_files(rule_dirs: Iterable[str | Path] = (), *, shipped: bool =
 def load_economic_rules(rule_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> EconomicRules:
     """Read and layer the ``[economics]`` tables; :class:`RuleError` naming file and key."""
     files = economic_rule_files(rule_dirs, shipped=shipped)
-    merged: dict[str, tuple[object, str]] = {}    # "sub.key" -> (raw value, file)
+    merged: dict[str, tuple[object, str]] = {}    # key or sub-table -> (raw value, file)
     for path in files:
         body = _read(path).get(SECTION)
         if body is None:
@@ -215,15 +216,11 @@ def load_economic_rules(rule_dirs: Iterable[str | Path] = (), *, shipped: bool =
         if not isinstance(body, dict):
             raise RuleError(f"[{SECTION}] is not a table", file=str(path), column=SECTION)
         for key, value in body.items():
-            if isinstance(value, dict):
-                if key not in SCHEMA or not key:
-                    raise RuleError(f"unknown table [{SECTION}.{key}]", file=str(path),
-                                    column=f"{SECTION}.{key}",
-                                    expected="one of " + ", ".join(f"[{SECTION}.{s}]" for s in SCHEMA if s))
-                merged = {k: v for k, v in merged.items() if not k.startswith(f"{key}.")}
-                merged.update({f"{key}.{k}": (v, str(path)) for k, v in value.items()})
-            else:
-                merged[f".{key}"] = (value, str(path))
+            if isinstance(value, dict) and (key not in SCHEMA or not key):
+                raise RuleError(f"unknown table [{SECTION}.{key}]", file=str(path),
+                                column=f"{SECTION}.{key}",
+                                expected="one of " + ", ".join(f"[{SECTION}.{s}]" for s in SCHEMA if s))
+            merged[key] = (value, str(path))  # the layering rule of audit.rules.schema
     if not files:
         raise RuleError("no economic rules found", file=str(shipped_rules_dir() / SUBFOLDER),
                         expected=f"an [{SECTION}] table in {SUBFOLDER}/economics.toml")
@@ -236,24 +233,18 @@ def _read(path: Path) -> dict:
 
 
 def _validate(merged, files) -> dict:
+    """``"sub.key"`` -> converted value ("" sub: the [economics] table's own keys)."""
     problems, values = [], {}
-    for dotted, (raw, origin) in merged.items():
-        sub, key = dotted.split(".", 1)
-        column = f"{SECTION}.{dotted}" if sub else f"{SECTION}.{key}"
-        if key not in SCHEMA[sub]:
-            problems.append(Problem(f"unknown key {key!r}", file=origin, column=column,
-                                    expected="one of " + ", ".join(SCHEMA[sub])))
-            continue
-        try:
-            values[dotted] = SCHEMA[sub][key][0](raw)
-        except (ValueError, UnitParseError) as exc:
-            problems.append(Problem(f"invalid value: {exc}", file=origin, column=column, value=raw))
+    tables = {"": ({k: v for k, (v, _) in merged.items() if not isinstance(v, dict)},
+                   {k: f for k, (v, f) in merged.items() if not isinstance(v, dict)})}
+    tables.update({k: v for k, v in merged.items() if isinstance(v[0], dict)})
     for sub, keys in SCHEMA.items():
-        for key, (_, required) in keys.items():
-            if required and f"{sub}.{key}" not in merged:
-                table = f"{SECTION}.{sub}" if sub else SECTION
-                problems.append(Problem(f"missing key {key!r}", file=str(files[-1]), column=table,
-                                        expected=f"{key} = ... in [{table}]"))
+        entry, origin = tables.get(sub, ({}, str(files[-1])))
+        where = f"{SECTION}.{sub}" if sub else SECTION
+        converted = convert_keys(entry, keys, where=where, origin=origin, problems=problems,
+                                 missing_file=str(files[-1]),
+                                 expected_missing=lambda key, where=where: f"{key} = ... in [{where}]")
+        values.update({f"{sub}.{key}": value for key, value in converted.items()})
     if not problems:
         problems += _repair_shapes(values, merged)
     if problems:
@@ -264,7 +255,7 @@ def _validate(merged, files) -> dict:
 
 def _repair_shapes(values, merged) -> list[Problem]:
     out = []
-    origin = merged["repair.source"][1]
+    origin = merged["repair"][1]
     sizes, thick = values["repair.sizes"], values["repair.thicknesses"]
     unlisted = [s for s in sizes if s not in NPS_BY_VALUE]
     if unlisted:
@@ -291,7 +282,7 @@ def _build(v, merged, files) -> EconomicRules:
     currency = v[".currency"]
 
     def carrier(sub, name, description, conversion, conversion_source):
-        unit = merged[f"{sub}.price_per"][0].strip()
+        unit = merged[sub][0]["price_per"].strip()
         return Carrier(name, description, conversion, conversion_source,
                        v[f"{sub}.price"] / v[f"{sub}.price_per"],
                        f"{v[f'{sub}.price']:g} {currency} per {unit}", v[f"{sub}.price_source"],
@@ -307,5 +298,5 @@ def _build(v, merged, files) -> EconomicRules:
         repair=Repair(v["repair.sizes"], v["repair.thicknesses"], v["repair.pipe_per_m"],
                       v["repair.surface_per_m2"], v["repair.cover_per_fitting"], v["repair.source"]),
         files=files,
-        price_per={s: (merged[f"{s}.price_per"][0].strip(), v[f"{s}.price_per"]) for s in ("heat", "cold")},
+        price_per={s: (merged[s][0]["price_per"].strip(), v[f"{s}.price_per"]) for s in ("heat", "cold")},
     )

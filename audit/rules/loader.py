@@ -22,6 +22,7 @@ from audit.rules.files import read_toml
 from audit.rules.converters import boolean, choice, list_of, quantity, rows, temperature, text
 from audit.rules.model import (SEVERITIES, Check, Fitting, Jacket, Material, Metal, Rules, Site,
                                Spec)
+from audit.rules.schema import convert_keys
 from audit.rules.selector import SelectorError, parse_selector
 from audit.shipped import shipped_dir
 from audit.units import UnitParseError
@@ -102,7 +103,7 @@ _PLURAL = {"material": "materials", "jacket": "jackets", "metal": "metals", "sit
            "fitting": "fittings", "spec": "specs"}
 _TOP_LEVEL = set(SCHEMA) | {"alias", "defaults", "check", "thicknesses", "economics"}
 #: Keys every [check.NAME] may have; any other key is the check kind's own parameter.
-_CHECK_KEYS = {"kind", "enabled", "site", "applies_to", "severity", "source", "description"}
+CHECK_KEYS = ("kind", "enabled", "site", "applies_to", "severity", "source", "description")
 #: [defaults] key -> the section its value names
 _DEFAULT_KEYS = {"site": "site", "jacket": "jacket", "metal": "metal"}
 #: [defaults] keys whose value is free text: the plant's name, under which --history records
@@ -125,7 +126,7 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
         A folder that does not exist, a file that is not TOML, an unknown section or key,
         a value of the wrong kind, a missing ``source``, or a reference to an undefined name.
     """
-    folders = ([shipped_rules_dir()] if shipped else []) + [Path(d) for d in extra_dirs]
+    folders = rule_folders(extra_dirs, shipped=shipped)
     collected = {section: {} for section in SCHEMA}
     collected["check"] = {}
     collected["thicknesses"] = {}
@@ -133,9 +134,6 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
     defaults: dict[str, str] = {}
     files = []
     for folder in folders:
-        if not folder.is_dir():
-            raise RuleError(f"rules folder {str(folder)!r} does not exist or is not a folder",
-                            file=str(folder), expected="a folder holding *.toml rule files")
         found = sorted(folder.glob("*.toml"))
         if not found:
             others = ", ".join(sorted(p.name for p in folder.iterdir() if p.is_file())[:5]) or "nothing"
@@ -151,6 +149,17 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
                   defaults=defaults, files=tuple(files))
     _check_references(rules)
     return rules
+
+
+def rule_folders(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> list[Path]:
+    """The shipped rules folder (with ``shipped``), then each of ``extra_dirs``: the folders
+    every loader reads, in order; RuleError for one that is not a folder."""
+    folders = ([shipped_rules_dir()] if shipped else []) + [Path(d) for d in extra_dirs]
+    for folder in folders:
+        if not folder.is_dir():
+            raise RuleError(f"rules folder {str(folder)!r} does not exist or is not a folder",
+                            file=str(folder), expected="a folder holding *.toml rule files")
+    return folders
 
 
 def _read_file(path: Path, collected, aliases, defaults) -> None:
@@ -207,23 +216,8 @@ def _build(section, name, entry, path, problems):
     if not isinstance(entry, dict):
         problems.append(Problem(f"[{where}] is not a table", file=str(path), column=where, value=entry))
         return None
-    values = {}
     before = len(problems)
-    for key, raw in entry.items():
-        if key not in keys:
-            problems.append(Problem(f"unknown key {key!r}", file=str(path), column=f"{where}.{key}",
-                                    expected="one of " + ", ".join(keys)))
-            continue
-        convert, _ = keys[key]
-        try:
-            values[key] = convert(raw)
-        except (ValueError, UnitParseError) as exc:
-            problems.append(Problem(f"invalid value: {exc}", file=str(path), column=f"{where}.{key}",
-                                    value=raw))
-    for key, (_, required) in keys.items():
-        if required and key not in entry:
-            problems.append(Problem(f"missing key {key!r}", file=str(path), column=where,
-                                    expected=f"{key} = ..."))
+    values = convert_keys(entry, keys, where=where, origin=str(path), problems=problems)
     if section == "material" and "wet_factor" in values and "wet_source" not in values:
         problems.append(Problem("wet_factor needs a wet_source", file=str(path),
                                 column=f"{where}.wet_source", expected='wet_source = "..."'))
@@ -292,7 +286,7 @@ def _check(name, entry, path, problems):
                                     expected=f"{key} = ..."))
     if len(problems) > before:
         return None
-    params = {k: v for k, v in entry.items() if k not in _CHECK_KEYS}
+    params = {k: v for k, v in entry.items() if k not in CHECK_KEYS}
     return Check(name=name, kind=generic.get("kind", name), site=generic.get("site", ""),
                  severity=generic["severity"], source=generic["source"],
                  enabled=generic.get("enabled", True), applies_to=selector,

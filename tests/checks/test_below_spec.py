@@ -9,7 +9,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from audit.checks.base import CheckContext, validated_params
-from audit.checks.below_spec import KIND, evaluate, spec_thickness
+from audit.checks.below_spec import KIND, spec_thickness
 from audit.errors import RuleError
 from audit.io.readers import read_register
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES, OD_MM_BY_NPS
@@ -78,7 +78,7 @@ def run(tmp_path, rules, rows):
     table = resolve_names(read_register(path, aliases=rules.aliases), rules)
     assert (table["status"] == "ok").all(), list(table["reason"])
     check = rules.checks["below-spec"]
-    found = evaluate(CheckContext(table, rules), check, validated_params(check, KIND))
+    found = KIND.findings(CheckContext(table, rules), check, validated_params(check, KIND))
     return table, found
 
 
@@ -241,7 +241,7 @@ def test_selector_limits_the_check(tmp_path):
                     "N,4,10,150,none,north\nS,4,10,150,none,south\n", encoding="utf-8")
     table = resolve_names(read_register(path, aliases=rules.aliases), rules)
     check = rules.checks["below-spec"]
-    found = evaluate(CheckContext(table, rules), check, {})
+    found = KIND.findings(CheckContext(table, rules), check, {})
     assert flagged(found) == ["N"]
 
 

@@ -9,7 +9,7 @@ from scipy.optimize import brentq
 
 from audit.checks import run_checks, validate_checks
 from audit.checks.base import CheckContext
-from audit.checks.condensation import evaluate
+from audit.checks.condensation import KIND
 from audit.errors import RuleError
 from audit.rules import load_rules
 from audit.thermal import thermal_states
@@ -26,7 +26,7 @@ def table_for(tmp_path, rows, rules):
 
 
 def condensation(table, rules):
-    return evaluate(CheckContext(table, rules), rules.checks["condensation"],
+    return KIND.findings(CheckContext(table, rules), rules.checks["condensation"],
                     validate_checks(rules)["condensation"])
 
 

@@ -24,7 +24,7 @@ def table_from(tmp_path, text, rules):
 def run(table, rules, name="condition", **params):
     shipped = rules.checks[name]
     check = replace(shipped, params={**shipped.params, **params})
-    found = KIND.evaluate(CheckContext(table, rules), check, validated_params(check, KIND))
+    found = KIND.findings(CheckContext(table, rules), check, validated_params(check, KIND))
     return {t: (v, lim, m, r) for t, v, lim, m, r in
             zip(found["tag"], found["value"], found["limit"], found["message"], found["remedy"])}
 

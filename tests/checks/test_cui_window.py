@@ -31,7 +31,7 @@ def run(table, rules, **changes):
     shipped = rules.checks["cui-window"]
     generic = {k: changes.pop(k) for k in ("severity", "applies_to") if k in changes}
     check = replace(shipped, params={**shipped.params, **changes}, **generic)
-    return KIND.evaluate(CheckContext(table, rules), check, validated_params(check, KIND))
+    return KIND.findings(CheckContext(table, rules), check, validated_params(check, KIND))
 
 
 def row(tag, temp, material="carbon-steel", condition="intact", damaged="",

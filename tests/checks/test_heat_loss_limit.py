@@ -6,7 +6,7 @@ import pytest
 
 from audit.checks import validate_checks
 from audit.checks.base import CheckContext, validated_params
-from audit.checks.heat_loss_limit import KIND, evaluate
+from audit.checks.heat_loss_limit import KIND
 from audit.errors import RuleError
 from audit.io.readers import read_register
 from audit.rules import load_rules
@@ -60,7 +60,7 @@ def table_of(tmp_path, rules, rows):
 def evaluate_with(tmp_path, table, check_body, name="limit"):
     rules = rules_with(tmp_path, check_body, name)
     check = rules.checks[name]
-    return evaluate(CheckContext(table, rules), check, validated_params(check, KIND))
+    return KIND.findings(CheckContext(table, rules), check, validated_params(check, KIND))
 
 
 HOT_PIPE = "P,pipe,4,,10,200,mineral-wool 50mm,aluminium-oxidised,intact,,heat-conservation"

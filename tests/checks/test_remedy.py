@@ -36,8 +36,9 @@ def fixable_rows(table, rules, row, material, thickness):
     context = CheckContext(trial, rules)
     names = []
     for check in rules.checks.values():
-        if check.enabled and (kinds[check.kind].fixable_by_insulation or check.kind == "layer-overheat"):
-            names += list(kinds[check.kind].evaluate(context, check, params[check.name])["check"])
+        kind = kinds[check.kind]
+        if check.enabled and (kind.fixable_by_insulation or kind.remedy_must_pass):
+            names += list(kind.findings(context, check, params[check.name])["check"])
     return names
 
 
@@ -78,9 +79,10 @@ def test_no_check_findings_on_rejected_rows(tmp_path):
     assert audit.results["status"][0] == "rejected" and audit.findings.empty
 
 
-def test_rows_only_contexts_fail_the_same_rows_as_worded_findings(rules):
-    # The remedy search asks its trials for failing rows only (CheckContext.rows_only): every
-    # check must name the same rows that its worded findings name, on the demo plant.
+def test_every_verdict_is_worded_row_for_row(rules):
+    # Checks decide (a Verdict: rows, values, limits), then word: on the demo plant, every
+    # check's wording gives each failing row a message and a remedy of its own, and the
+    # findings hold exactly the verdict's rows and figures.
     from audit.io.readers import read_register
     from audit.shipped import shipped_dir
     from audit.thermal import resolve_names
@@ -89,13 +91,18 @@ def test_rows_only_contexts_fail_the_same_rows_as_worded_findings(rules):
     table = resolve_names(read_register([folder / "demo_line_list.xlsx",
                                          folder / "demo_equipment.xlsx"], aliases=rules.aliases), rules)
     kinds, params = check_kinds(), validate_checks(rules)
-    worded, bare = CheckContext(table, rules), CheckContext(table, rules, rows_only=True)
+    context = CheckContext(table, rules)
     compared = 0
     for check in rules.checks.values():
         if not check.enabled:
             continue
-        full = kinds[check.kind].evaluate(worded, check, params[check.name])
-        rows = kinds[check.kind].evaluate(bare, check, params[check.name])
-        assert sorted(rows["row"]) == sorted(full["row"]), check.name
-        compared += len(full)
+        kind = kinds[check.kind]
+        verdict = kind.evaluate(context, check, params[check.name])
+        found = kind.findings(context, check, params[check.name])
+        assert list(found["row"]) == list(verdict.rows), check.name
+        np.testing.assert_array_equal(found["value"].to_numpy(float),
+                                      np.broadcast_to(verdict.value, len(found)), err_msg=check.name)
+        assert (found["message"].str.len() > 0).all() and (found["remedy"].str.len() > 0).all()
+        assert found["unit"].notna().all() and (found["unit"] != "").all(), check.name
+        compared += len(found)
     assert compared > 0

@@ -7,7 +7,7 @@ from scipy.optimize import brentq
 
 from audit.checks import run_checks, validate_checks
 from audit.checks.base import CheckContext
-from audit.checks.touch_temperature import evaluate
+from audit.checks.touch_temperature import KIND
 from audit.errors import RuleError
 from audit.rules import load_rules
 from audit.thermal import thermal_states
@@ -24,7 +24,7 @@ def table_for(tmp_path, rows, rules):
 
 def touch(table, rules, name="touch-temperature"):
     check = rules.checks[name]
-    return evaluate(CheckContext(table, rules), check, validate_checks(rules)[name])
+    return KIND.findings(CheckContext(table, rules), check, validate_checks(rules)[name])
 
 
 def rules_with(tmp_path, body, name="touch-temperature"):
