@@ -4,12 +4,10 @@ from __future__ import annotations
 
 import argparse
 import io
+import signal
 import sys
-from concurrent.futures import ThreadPoolExecutor
+import threading
 from datetime import datetime, timezone
-from pathlib import Path
-
-import pandas as pd
 
 from audit import __version__
 from audit.calc import add_calc_arguments, run_calc
@@ -20,16 +18,16 @@ from audit.history import History, describe_audits, export_audits
 from audit.history.run import compare_audit, open_history, record_run
 from audit.io.readers import read_register
 from audit.io.readers.validate import summarise
-from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
+from audit.io.writers.place import OutputFolder
+from audit.outputs import FORMATS, check_outputs, write_outputs
 from audit.pipeline import audit_register
-from audit.progress import progress
+from audit.progress import printable, progress
 from audit.rules import SEVERITIES, load_rules
 from audit.rules.describe import describe_rules
 from audit.shipped import shipped_dir
 from audit.thermal import resolve_names
 
 
-FORMATS = ("csv", "xlsx", "json", "html", "pdf")
 #: The invented demo plant's name, under which `demo --history` records
 DEMO_PLANT = "Quarvel Point Works"
 
@@ -40,14 +38,32 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "command", None):
         parser.print_help()
         return 2
+    main_thread = threading.current_thread() is threading.main_thread()
+    terminate = signal.signal(signal.SIGTERM, _stopped) if main_thread else None  # as Ctrl-C
     try:
         return args.run(args)
     except LagauditError as exc:
-        print(f"lagaudit: error: {exc}", file=sys.stderr)
+        print(f"lagaudit: error: {printable(exc)}", file=sys.stderr)
         return 2
     except BrokenPipeError:  # output piped into a pager or head that stopped reading
         sys.stderr.close()
         return 0
+    except (KeyboardInterrupt, Stopped) as exc:  # temporaries are gone: their writers removed them
+        code = 130 if isinstance(exc, KeyboardInterrupt) else 143
+        print(f"lagaudit: {'interrupted' if code == 130 else 'terminated'}; "
+              "no output was left half-written", file=sys.stderr)
+        return code
+    finally:
+        if main_thread:
+            signal.signal(signal.SIGTERM, terminate)
+
+
+class Stopped(BaseException):
+    """SIGTERM, raised where the run is, so it unwinds (and cleans up) as Ctrl-C does."""
+
+
+def _stopped(signum, frame):
+    raise Stopped()
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -193,10 +209,12 @@ def _demo(args) -> int:
 
 def _audit_and_write(registers, args) -> int:
     formats = _formats(args.format)
-    say = (lambda *_: None) if args.quiet else print
+    say = (lambda *_: None) if args.quiet else (lambda text: print(printable(text)))
     history = open_history(args.history)  # a database that cannot be used stops the run here
     # A stream that is not a terminal draws no bar.
-    with progress("Auditing", total=1 + len(formats), stream=io.StringIO() if args.quiet else None) as bar:
+    with OutputFolder(args.out) as folder, \
+            progress("Auditing", total=1 + len(formats), stream=io.StringIO() if args.quiet else None) as bar:
+        check_outputs(folder, formats)
         audit = audit_register(registers, rules_dirs=args.rules, sheets=args.sheet,
                                surface_model=args.surface_model, fuel_price=args.fuel_price,
                                hours=args.hours)
@@ -204,7 +222,7 @@ def _audit_and_write(registers, args) -> int:
             audit = compare_audit(history, audit, plant=args.plant,
                                   fallback=DEMO_PLANT if args.run is _demo else None)
         bar.advance()
-        written = _write(audit, registers, args, formats, bar)
+        written = write_outputs(audit, folder, formats, _meta(audit, registers, args), bar.advance)
         if history is not None:
             closed, recorded = record_run(history, audit, registers, args.out,
                                           surface_model=args.surface_model)
@@ -233,60 +251,26 @@ def _details(audit) -> None:
     """What --verbose adds: the rules read, the findings by check, the warnings."""
     print("Rule files read:")
     for path in audit.rules.files:
-        print(f"  {path}")
+        print(printable(f"  {path}"))
     if len(audit.findings):
         print("Findings by check:")
         counts = audit.findings.groupby(["check", "severity"]).size()
         for (check, severity), count in counts.items():
-            print(f"  {check:<26} {severity:<9} {count}")
+            print(printable(f"  {check:<26} {severity:<9} {count}"))
     warnings = audit.results["warnings"].astype(str)
     warned = warnings[warnings != ""]
     print(f"Rows with warnings: {len(warned)}")
     for text, count in warned.str.split("; ").explode().value_counts().head(15).items():
-        print(f"  {count:>6}  {text}")
+        print(printable(f"  {count:>6}  {text}"))
 
 
-def _write(audit, registers, args, formats, bar) -> list[Path]:
-    results, findings = audit.results, audit.findings
-    out = Path(args.out)
-    out.mkdir(parents=True, exist_ok=True)
-    meta = {"tool": f"lagaudit {__version__}",
+def _meta(audit, registers, args) -> dict:
+    return {"tool": f"lagaudit {__version__}",
             "run_at": datetime.now(timezone.utc).isoformat(timespec="seconds"),
             "registers": [{"file": str(p), "sha256": sha256_file(p)} for p in registers],
             "rules": list(audit.rules.files), "surface_model": args.surface_model,
             "currency": audit.economics.currency, "energy_site": audit.economics.site,
             "assumptions": audit.economics.assumptions, "caution": CAUTION}
-    findings_out = findings.drop(columns=["row"])
-    written = []
-    if "csv" in formats:
-        # Two threads: much of the writing is numpy formatting and file output, which let go
-        # of the interpreter lock, so the two files overlap.
-        with ThreadPoolExecutor(2) as pool:
-            written += pool.map(lambda job: write_csv(*job), [(results, out / "results.csv"),
-                                                              (findings_out, out / "findings.csv")])
-        bar.advance()
-    if "json" in formats:
-        written.append(write_json(results, out / "results.json", meta=meta))
-        bar.advance()
-    if "xlsx" in formats:
-        rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
-        economics = audit.economics
-        sheets = {"results": results, "findings": findings_out, "rejected": rejected,
-                  "summary": summary_sheet(results, findings),
-                  "by area": economics.by_area, "by check": economics.by_check,
-                  "best paybacks": economics.top_repairs,
-                  "assumptions": pd.DataFrame(economics.assumptions)}
-        written.append(write_xlsx(sheets, out / "results.xlsx"))
-        bar.advance()
-    reports = [f for f in formats if f in ("html", "pdf")]
-    if reports:
-        # The work-order packs are PDFs too: they come with the PDF report.
-        asked = reports + (["workorders"] if "pdf" in reports else [])
-        from audit.report import write_reports  # weasyprint loads in ~0.7 s: only when asked
-
-        written += write_reports(audit, out, meta=meta, formats=asked, economics=audit.economics)
-        bar.advance(len(reports))
-    return written
 
 
 def _rules(args) -> int:
@@ -311,7 +295,7 @@ def _validate(args) -> int:
     rules = load_rules(args.rules)
     table = read_register(args.registers, sheets=args.sheet, aliases=rules.aliases or None)
     table = resolve_names(table, rules)
-    print(summarise(table))
+    print(printable(summarise(table)))
     return 0
 
 

@@ -22,6 +22,15 @@ from audit.errors import LagauditError
 
 BAR_WIDTH = 30
 
+#: Control characters (C0 but line feed and tab, DEL, C1) shown as ``\xNN`` on a terminal, so
+#: register text such as a sheet name cannot send escape sequences to it.
+_CONTROLS = {c: f"\\x{c:02x}" for c in [*range(0x20), *range(0x7f, 0xa0)] if c not in (0x09, 0x0a)}
+
+
+def printable(text) -> str:
+    """``text`` safe to print on a terminal: control characters written out as ``\\xNN``."""
+    return str(text).translate(_CONTROLS)
+
 
 class Progress:
     """A counter of work done out of ``total`` that draws itself when it may."""
@@ -31,7 +40,7 @@ class Progress:
         if total is not None and total < 0:
             raise LagauditError(f"total {total!r} is negative; expected a count of work units, "
                                 "0 or more")
-        self.label = label
+        self.label = printable(label)
         self.total = total
         self.done = 0
         self.stream = sys.stderr if stream is None else stream

@@ -14,33 +14,40 @@ from audit.cautions import CAUTION
 from audit.report.context import MAX_TABLE_ROWS, build_context
 from audit.report.html import render
 from audit.report.pdf import write_pdf
-from audit.report.workorders import write_workorders
+from audit.io.writers.place import OutputFolder
+from audit.report.workorders import build_orders, plan_packs, write_workorders
 
 REPORT_FORMATS = ("html", "pdf", "workorders")
 
 
 def write_reports(audit, out_dir, *, meta: dict, formats, economics=None,
-                  max_rows: int = MAX_TABLE_ROWS) -> list[Path]:
+                  max_rows: int = MAX_TABLE_ROWS, max_pages: int | None = None) -> list[Path]:
     """Write the reports asked for in ``formats`` into ``out_dir``; the paths written.
 
     ``meta``: ``tool``, ``run_at``, ``registers`` ([{file, sha256}]), ``surface_model`` and
     optionally ``rules_digest`` (else computed from the rule files' bytes).  ``economics``:
     the economics object (``per_row``, ``currency``, ``assumptions``, ...) or None, in which
-    case the energy, cost and CO2 sections are left out.
+    case the energy, cost and CO2 sections are left out.  ``max_pages``: the work-order packs'
+    cap on item pages (default ``MAX_WORKORDER_PAGES``), stated on the report's cover when it
+    leaves orders off.  Each file is written whole to a temporary name, then renamed.
     """
     asked = {f.strip().lower() for f in formats}
-    out = Path(out_dir)
-    out.mkdir(parents=True, exist_ok=True)
+    folder = OutputFolder(out_dir)
+    folder.prepare()
+    plan = plan_packs(build_orders(audit), max_pages) if "workorders" in asked else None
     written = []
     if asked & {"html", "pdf"}:
-        html = render("report.html", build_context(audit, meta=meta, caution=CAUTION,
-                                                   economics=economics, max_rows=max_rows))
+        html = render("report.html", build_context(
+            audit, meta=meta, caution=CAUTION, economics=economics, max_rows=max_rows,
+            packs=plan.summary() if plan is not None else None))
         if "html" in asked:
-            path = out / "report.html"
-            path.write_text(html, encoding="utf-8")
-            written.append(path)
+            with folder.writing("report.html") as temporary:
+                temporary.write_text(html, encoding="utf-8")
+            written.append(folder.root / "report.html")
         if "pdf" in asked:
-            written.append(write_pdf(html, out / "report.pdf"))
-    if "workorders" in asked:
-        written += write_workorders(audit, out, caution=CAUTION, meta=meta)
+            with folder.writing("report.pdf") as temporary:
+                write_pdf(html, temporary)
+            written.append(folder.root / "report.pdf")
+    if plan is not None:
+        written += write_workorders(audit, folder.root, caution=CAUTION, meta=meta, plan=plan)
     return written

@@ -72,8 +72,12 @@ def worst_first(findings: pd.DataFrame) -> pd.DataFrame:
 
 
 def build_context(audit, *, meta: dict, caution: str, economics=None,
-                  max_rows: int = MAX_TABLE_ROWS) -> dict:
-    """Everything the report template shows, as plain values and text."""
+                  max_rows: int = MAX_TABLE_ROWS, packs: dict | None = None) -> dict:
+    """Everything the report template shows, as plain values and text.
+
+    ``packs``: the work-order packs' cap (``PackPlan.summary()``) when they are written with
+    the report, for the cover to say how many orders the packs leave off, by area.
+    """
     results, findings, table = audit.results, audit.findings, audit.table
     area = table["area_code"].fillna("").astype(str).to_numpy(object)
     audited = (results["status"] == "audited").to_numpy()
@@ -101,6 +105,7 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
                     for m in methods.METHODS],
         "method_notes": [Markup(methods.to_html(note)) for note in methods.NOTES],
         "since_last": _since_last(audit, max_rows),
+        "packs": packs,
     }
     context["charts"] = {
         "pareto": charts.cost_pareto(results["tag"].to_numpy(object),

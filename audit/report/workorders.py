@@ -11,17 +11,21 @@ fittings by count.
 
 from __future__ import annotations
 
+import ctypes
+import multiprocessing
 import os
 import re
+import signal
 import unicodedata
 from collections import defaultdict
-from concurrent.futures import ProcessPoolExecutor
+from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
 import pandas as pd
 
 from audit.io.writers import write_csv
+from audit.io.writers.place import OutputFolder, temporary_for
 from audit.report.context import SEVERITY_RANK, conditions_text, fmt, location_columns, worst_first
 from audit.report.html import render
 from audit.report.pdf import EmbeddedOnlyFetcher, write_pdf
@@ -106,56 +110,148 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
     return orders
 
 
-def write_workorders(audit, out_dir: Path, *, caution: str, meta: dict,
+@dataclass
+class PackPlan:
+    """Which work orders the PDF packs print: at most ``cap`` item pages, the most severe first.
+
+    ``orders``: every work order (all go to workorders.csv); ``printed``: those on paper, by
+    area; ``beyond``: those left off the paper, by area (area -> orders, worst first).
+    """
+
+    orders: list
+    cap: int
+    printed: dict = field(default_factory=dict)
+    beyond: dict = field(default_factory=dict)
+
+    @property
+    def capped(self) -> bool:
+        return bool(self.beyond)
+
+    def summary(self) -> dict:
+        """What the report's cover and each pack say about the cap."""
+        return {"orders": len(self.orders), "cap": self.cap,
+                "printed": sum(map(len, self.printed.values())),
+                "beyond": sum(map(len, self.beyond.values())),
+                "beyond_by_area": [(area or "(no area)", len(o)) for area, o in sorted(self.beyond.items())]}
+
+
+def plan_packs(orders: list[dict], max_pages: int | None = None) -> PackPlan:
+    """Split ``orders`` (as :func:`build_orders` sorts them) into those the packs print, the
+    ``max_pages`` (default :data:`MAX_WORKORDER_PAGES`) most severe, the areas taking turns
+    within a severity, and the rest, by area."""
+    cap = MAX_WORKORDER_PAGES if max_pages is None else max_pages
+    if cap < 0:
+        raise ValueError(f"max_pages must be 0 or more, not {cap!r}")
+    # Most severe first; within a severity the areas take turns (each area's own order kept),
+    # so a cap shared by many areas prints some of each, and the packs stay small and even.
+    turn, seen = [], defaultdict(int)
+    for order in orders:
+        key = (order["area"], order["rank"])
+        turn.append(seen[key])
+        seen[key] += 1
+    ranked = sorted(range(len(orders)), key=lambda i: (-orders[i]["rank"], turn[i], orders[i]["area"]))
+    kept = np.zeros(len(orders), bool)
+    kept[ranked[:cap]] = True
+    plan = PackPlan(orders, cap)
+    for order, on_paper in zip(orders, kept):
+        (plan.printed if on_paper else plan.beyond).setdefault(order["area"], []).append(order)
+    return plan
+
+
+def write_workorders(audit, out_dir, *, caution: str, meta: dict,
                      min_severity: str = "low", pdf: bool = True, jobs: int | None = None,
-                     max_pages: int | None = None) -> list[Path]:
+                     max_pages: int | None = None, plan: PackPlan | None = None) -> list[Path]:
     """``workorders.csv`` and, with ``pdf``, ``workorders/<area>.pdf``; the paths written.
 
     ``workorders.csv`` lists every work order.  The PDF packs hold at most ``max_pages``
     (default :data:`MAX_WORKORDER_PAGES`) item pages, the most severe first: a page takes
-    about 0.15 s to render, so a register with tens of thousands of repairs gets its worst
-    items on paper and the rest in the CSV (the packs' first page says so).  The area packs
-    are rendered by ``jobs`` processes (default: one per CPU) when there are more than
-    :data:`PARALLEL_FROM` pages; the HTML is built here, so the output is the same.
+    about 0.1 s to render, so a register with tens of thousands of repairs gets its worst
+    items on paper and the rest in the CSV; each pack's first page states the cap and lists
+    the orders left off by area (their ``work_order_file`` in the CSV is empty).  ``plan``
+    (from :func:`plan_packs`) is used as given when the caller already made one.  The area
+    packs are rendered by ``jobs`` processes (default: one per CPU) when there are more than
+    :data:`PARALLEL_FROM` pages; the HTML is built here, so the output is the same.  Every
+    file is written to a temporary name and renamed into place
+    (:class:`~audit.io.writers.place.OutputFolder`).
     """
-    out_dir = Path(out_dir)
-    orders = build_orders(audit, min_severity)
-    limit = MAX_WORKORDER_PAGES if max_pages is None else max_pages
-    on_paper = sorted(orders, key=lambda o: -o["rank"])[:limit] if len(orders) > limit else orders
-    kept = {id(o) for o in on_paper}
-    by_area = defaultdict(list)
-    for order in orders:
-        if id(order) in kept:
-            by_area[order["area"]].append(order)
-    folder = out_dir / "workorders"
+    folder = OutputFolder(out_dir)
+    folder.prepare()
+    if plan is None:
+        plan = plan_packs(build_orders(audit, min_severity), max_pages)
     taken: set[str] = set()
-    files = {area: safe_filename(area or "no-area", taken, ".pdf") for area in sorted(by_area)}
+    files = {area: safe_filename(area or "no-area", taken, ".pdf") for area in sorted(plan.printed)}
     written = []
-    if pdf and orders:
-        folder.mkdir(parents=True, exist_ok=True)
+    if pdf and plan.printed:
+        summary = plan.summary()
         tasks = []
-        for area, area_orders in sorted(by_area.items()):
-            path = folder / files[area]
-            if path.resolve().parent != folder.resolve():  # belt and braces after sanitising
-                raise ValueError(f"work-order file {files[area]!r} would leave {folder}")
+        for area, area_orders in sorted(plan.printed.items()):
+            name = "workorders/" + files[area]
+            target = folder.check(name)
             tasks.append((render("workorders.html", {
                 "area": area or "(no area)", "area_label": _UNSAFE_LABEL.sub("_", area or "none"),
                 "orders": area_orders, "caution": caution, "meta": meta, "bill": _bill(area_orders),
-                "planner_fields": PLANNER_FIELDS, "min_severity": min_severity,
-                "left_out": len(orders) - len(on_paper)}), path))
+                "planner_fields": PLANNER_FIELDS, "min_severity": min_severity, "cap": summary,
+                "not_printed_here": [o["tag"] for o in plan.beyond.get(area, [])]}),
+                temporary_for(target), name))
         jobs = (os.cpu_count() or 1) if jobs is None else jobs
-        if jobs > 1 and len(tasks) > 1 and len(orders) > PARALLEL_FROM:
-            with ProcessPoolExecutor(max_workers=min(jobs, len(tasks))) as pool:
-                written += list(pool.map(_write_area, tasks))
-        else:
-            written += [_write_area(task) for task in tasks]
-    written.append(write_csv(_csv(orders, files, location_columns(audit.table)), out_dir / "workorders.csv"))
+        workers = min(jobs, len(tasks)) if len(plan.orders) > PARALLEL_FROM else 1
+        written += render_packs(folder, tasks, workers)
+    printed = {id(o) for area_orders in plan.printed.values() for o in area_orders}
+    csv_rows = _csv(plan.orders, files, location_columns(audit.table), printed)
+    with folder.writing("workorders.csv") as temporary:
+        write_csv(csv_rows, temporary)
+    written.append(folder.root / "workorders.csv")
     return written
 
 
-def _write_area(task) -> Path:
-    html, path = task
-    return write_pdf(html, path, fetcher=EmbeddedOnlyFetcher())
+def render_packs(folder: OutputFolder, tasks: list, workers: int) -> list[Path]:
+    """Render each (html, temporary, name) to its temporary file, in ``workers`` processes, and
+    rename each into place here, in the parent.
+
+    The workers die with the parent (Linux: a parent-death signal), and the pool is terminated
+    when the parent stops for any reason (Ctrl-C, SIGTERM turned into an exception), so no
+    worker writes into the folder after the run is over; temporaries left are removed.
+    """
+    written = []
+    try:
+        if workers > 1:
+            with multiprocessing.get_context("fork").Pool(workers, initializer=_die_with_parent) as pool:
+                for task, _ in zip(tasks, pool.imap(_render_pack, tasks)):  # imap keeps the order
+                    written.append(_place(folder, task))
+        else:
+            for task in tasks:
+                _render_pack(task)
+                written.append(_place(folder, task))
+    except BaseException:
+        for _, temporary, _ in tasks:
+            temporary.unlink(missing_ok=True)
+        raise
+    return written
+
+
+def _render_pack(task) -> None:
+    html, temporary, _ = task
+    write_pdf(html, temporary, fetcher=EmbeddedOnlyFetcher())
+
+
+def _place(folder: OutputFolder, task) -> Path:
+    _, temporary, name = task
+    target = folder.check(name)
+    os.replace(temporary, target)
+    return target
+
+
+def _die_with_parent() -> None:
+    """In a worker: be sent SIGTERM when the parent process dies (Linux ``prctl``), and let
+    SIGINT to the whole group be the parent's to handle."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    try:
+        libc = ctypes.CDLL(None, use_errno=True)
+        libc.prctl(1, signal.SIGTERM)  # PR_SET_PDEATHSIG
+    except (OSError, AttributeError):  # not Linux: the parent's terminate() still stops us
+        pass
+    if os.getppid() == 1:  # the parent died before the signal was set
+        os._exit(1)
 
 
 def _text(value) -> str:
@@ -255,7 +351,8 @@ def _bill(orders: list[dict]) -> list[dict]:
              "text": fmt(v) if k[6] != "pcs" else str(int(v))} for k, v in sorted(totals.items())]
 
 
-def _csv(orders: list[dict], files: dict, places: list[str]) -> pd.DataFrame:
+def _csv(orders: list[dict], files: dict, places: list[str], printed: set) -> pd.DataFrame:
+    """One row per work order; ``work_order_file`` is empty for one left off the packs."""
     rows = []
     for o in orders:
         q = defaultdict(float)
@@ -277,7 +374,8 @@ def _csv(orders: list[dict], files: dict, places: list[str]) -> pd.DataFrame:
             "insulate [m]": q.get("insulate_m", np.nan), "insulate [m2]": q.get("insulate_m²", np.nan),
             "reinstate [m]": q.get("reinstate_m", np.nan), "reinstate [m2]": q.get("reinstate_m²", np.nan),
             "valve_covers": int(q.get("valve", 0)), "flange_covers": int(q.get("flange", 0)),
-            "source": o["source"], "work_order_file": "workorders/" + files[o["area"]],
+            "source": o["source"],
+            "work_order_file": "workorders/" + files[o["area"]] if id(o) in printed else "",
             "first_reported": min((f["first_reported"] for f in o["findings"]), default=""),
             **{c: location.get(c, "") for c in places if c != "area_code"},
         })

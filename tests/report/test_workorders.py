@@ -10,7 +10,10 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from audit.cli import CAUTION
-from audit.report.workorders import RESERVED_NAMES, build_orders, safe_filename, write_workorders
+from audit.report.context import SEVERITY_RANK, build_context
+from audit.report.html import render
+from audit.report.workorders import (RESERVED_NAMES, build_orders, plan_packs, safe_filename,
+                                     write_workorders)
 
 SAFE = re.compile(r"^[A-Za-z0-9._-]+$")
 
@@ -90,3 +93,65 @@ def test_csv_is_one_row_per_item_and_inert(hostile_audit, meta, tmp_path):
     assert float(by_tag["<script>alert(1)</script>"]["insulate [m]"]) == 10.0
     assert by_tag["<script>alert(1)</script>"]["flange_covers"] == "2"
     assert by_tag["<script>alert(1)</script>"]["work_order_file"] == "workorders/evil.pdf"
+
+
+def test_more_orders_than_the_cap_across_areas(demo_audit, meta, tmp_path):
+    """Issue 16's crash: orders beyond the page cap in areas that get no pack.  The cap is
+    lowered through the parameter so the test renders a few pages, not a thousand."""
+    orders = build_orders(demo_audit)
+    areas = {o["area"] for o in orders}
+    assert len(areas) >= 3 and len(orders) > 20
+    cap = 4
+    plan = plan_packs(orders, cap)
+    assert sum(map(len, plan.printed.values())) == cap
+    assert set(plan.beyond) - set(plan.printed)  # an area with orders and no pack: the crash
+    written = write_workorders(demo_audit, tmp_path, caution=CAUTION, meta=meta, plan=plan)
+
+    with open(tmp_path / "workorders.csv", encoding="utf-8", newline="") as handle:
+        rows = list(csv.DictReader(handle))
+    assert len(rows) == len(orders)  # every order, printed or not
+    printed = [r for r in rows if r["work_order_file"]]
+    assert len(printed) == cap
+    packs = sorted(p.name for p in (tmp_path / "workorders").iterdir())
+    assert packs == sorted({Path(r["work_order_file"]).name for r in printed})
+    assert [p.name for p in written if p.suffix == ".pdf"] == packs
+    # the printed ones are the most severe
+    worst_left = max(SEVERITY_RANK[r["priority"]] for r in rows if not r["work_order_file"])
+    assert min(SEVERITY_RANK[r["priority"]] for r in printed) >= worst_left
+
+    summary = plan.summary()
+    for pack in (tmp_path / "workorders").iterdir():
+        text = " ".join(" ".join(page.extract_text().split()) for page in pypdf.PdfReader(pack).pages)
+        assert f"at most {cap} item pages" in text
+        assert f"{cap} of the plant's {len(orders)} work orders are printed" in text
+        for area, count in summary["beyond_by_area"]:  # the orders beyond, by area
+            assert f"{area} {count}" in text
+    assert sum(count for _, count in summary["beyond_by_area"]) == len(orders) - cap
+
+
+def test_the_report_cover_states_the_cap(demo_audit, meta):
+    plan = plan_packs(build_orders(demo_audit), 4)
+    html = render("report.html", build_context(demo_audit, meta=meta, caution=CAUTION,
+                                               packs=plan.summary()))
+    cover = html[html.index('id="cover"'):html.index("</section>", html.index('id="cover"'))]
+    assert "print at most 4 item pages" in cover
+    for area, count in plan.summary()["beyond_by_area"]:
+        assert f"<td>{area}</td><td class=\"num\">{count}</td>" in cover
+
+
+def test_no_cap_note_when_every_order_is_printed(demo_audit, meta):
+    plan = plan_packs(build_orders(demo_audit))
+    assert not plan.capped
+    html = render("report.html", build_context(demo_audit, meta=meta, caution=CAUTION,
+                                               packs=plan.summary()))
+    assert "item pages" not in html
+
+
+def test_the_cap_lets_the_areas_take_turns_within_a_severity():
+    """A cap shared by many areas prints some of each area's worst, not one area's all."""
+    orders = [{"area": area, "rank": 3, "tag": f"{area}-{k}"} for area in "ABC" for k in range(5)]
+    plan = plan_packs(orders, 6)
+    assert {area: [o["tag"] for o in o_] for area, o_ in plan.printed.items()} == {
+        "A": ["A-0", "A-1"], "B": ["B-0", "B-1"], "C": ["C-0", "C-1"]}
+    worse = [{"area": "C", "rank": 4, "tag": "C-worst"}]
+    assert [o["tag"] for o in plan_packs(orders + worse, 1).printed["C"]] == ["C-worst"]

@@ -19,21 +19,65 @@ from audit.io.writers.safety import neutralise_frame
 
 #: Widest column set by the writer [characters]; longer text stays whole in the cell.
 MAX_WIDTH = 60
+#: XLSX's own limits of a worksheet (ECMA-376; Excel's "specifications and limits").
+MAX_COLUMNS, MAX_ROWS = 16_384, 1_048_576
+#: Columns repeated at the left of each further sheet of a table split by columns.
+KEY_COLUMNS = ("tag", "source")
 
 _OPTIONS = {"strings_to_formulas": False, "strings_to_numbers": False, "strings_to_urls": False,
             "nan_inf_to_errors": False, "constant_memory": True}
 
 
-def write_xlsx(sheets: dict[str, pd.DataFrame], path: Path) -> Path:
-    """One worksheet per entry of ``sheets`` (name -> table), in order."""
+def write_xlsx(sheets: dict[str, pd.DataFrame], path: Path, *, notes: list | None = None) -> Path:
+    """One worksheet per entry of ``sheets`` (name -> table), in order.
+
+    A table beyond XLSX's limits of :data:`MAX_COLUMNS` columns or :data:`MAX_ROWS` rows (the
+    header included) is split, never cut: further sheets ``name (2)``, ``name (3)``, ... take
+    the next rows, or the next columns behind the table's :data:`KEY_COLUMNS` again; each split
+    is described in ``notes`` (when given), for the command line to say.
+    """
     workbook = xlsxwriter.Workbook(str(path), _OPTIONS)
     header = workbook.add_format({"bold": True, "bottom": 1, "text_wrap": True, "valign": "top"})
+    taken: set[str] = set()
     try:
         for name, frame in sheets.items():
-            _write_sheet(workbook, _sheet_name(name), neutralise_frame(frame), header)
+            parts = split_sheet(frame)
+            names = [_unique(_sheet_name(name if k == 0 else f"{name} ({k + 1})"), taken)
+                     for k in range(len(parts))]
+            if len(parts) > 1 and notes is not None:
+                notes.append(f"table {name!r} ({frame.shape[0]:,} rows x {frame.shape[1]:,} columns) "
+                             f"is beyond XLSX's {MAX_ROWS:,} rows or {MAX_COLUMNS:,} columns per "
+                             f"sheet: split over sheets {', '.join(names)}")
+            for part_name, part in zip(names, parts):
+                _write_sheet(workbook, part_name, neutralise_frame(part), header)
     finally:
         workbook.close()
     return Path(path)
+
+
+def split_sheet(frame: pd.DataFrame) -> list[pd.DataFrame]:
+    """``frame`` in parts that each fit one worksheet: rows first, then columns (the further
+    column parts start with the :data:`KEY_COLUMNS` the table has)."""
+    keys = [c for c in KEY_COLUMNS if c in frame.columns][:1 + (frame.shape[1] > MAX_COLUMNS)]
+    column_parts = [frame.iloc[:, :MAX_COLUMNS]]
+    if frame.shape[1] > MAX_COLUMNS:
+        rest = frame.iloc[:, MAX_COLUMNS:]
+        step = MAX_COLUMNS - len(keys)
+        column_parts += [pd.concat([frame[keys], rest.iloc[:, k:k + step]], axis=1)
+                         for k in range(0, rest.shape[1], step)]
+    rows = MAX_ROWS - 1  # the header takes a row
+    return [part.iloc[start:start + rows] for part in column_parts
+            for start in range(0, max(len(frame), 1), rows)]
+
+
+def _unique(name: str, taken: set[str]) -> str:
+    candidate, n = name, 1
+    while candidate.lower() in taken:  # Excel compares sheet names case-insensitively
+        n += 1
+        suffix = f" ~{n}"
+        candidate = name[:31 - len(suffix)] + suffix
+    taken.add(candidate.lower())
+    return candidate
 
 
 def summary_sheet(results: pd.DataFrame, findings: pd.DataFrame) -> pd.DataFrame:

@@ -1,0 +1,90 @@
+"""The outputs of ``lagaudit run``: one writer per format, each file put in place whole.
+
+:data:`WRITERS` maps a ``--format`` name to its writer; the command line runs the writers of
+the formats asked for, in the registry's order, inside one locked
+:class:`~audit.io.writers.place.OutputFolder`.  A writer takes ``(audit, folder, meta, asked)``
+and returns the paths it wrote; ``html`` and ``pdf`` share one writer (one render of the
+report), which also writes the work-order packs with the PDF.
+"""
+
+from __future__ import annotations
+
+import sys
+from concurrent.futures import ThreadPoolExecutor
+from pathlib import Path
+
+import pandas as pd
+
+from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
+from audit.io.writers.place import OutputFolder
+from audit.progress import printable
+
+
+def _csv(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
+    findings = audit.findings.drop(columns=["row"])
+    jobs = [(audit.results, "results.csv"), (findings, "findings.csv")]
+    # Two threads: much of the writing is numpy formatting and file output, which let go of
+    # the interpreter lock, so the two files overlap.
+    with ThreadPoolExecutor(2) as pool:
+        return list(pool.map(lambda job: _placed(folder, job[1], write_csv, job[0]), jobs))
+
+
+def _json(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
+    return [_placed(folder, "results.json", write_json, audit.results, meta=meta)]
+
+
+def _xlsx(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
+    results, economics = audit.results, audit.economics
+    rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
+    sheets = {"results": results, "findings": audit.findings.drop(columns=["row"]),
+              "rejected": rejected, "summary": summary_sheet(results, audit.findings),
+              "by area": economics.by_area, "by check": economics.by_check,
+              "best paybacks": economics.top_repairs,
+              "assumptions": pd.DataFrame(economics.assumptions)}
+    notes = []
+    written = [_placed(folder, "results.xlsx", write_xlsx, sheets, notes=notes)]
+    for note in notes:  # a split is news: said even with --quiet
+        print(printable(f"lagaudit: note: results.xlsx: {note}; every column and row is also in "
+                        "the CSV outputs"), file=sys.stderr)
+    return written
+
+
+def _reports(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
+    from audit.report import write_reports  # weasyprint loads in ~0.7 s: only when asked
+
+    reports = [f for f in asked if f in ("html", "pdf")]
+    # The work-order packs are PDFs too: they come with the PDF report.
+    return write_reports(audit, folder.root, meta=meta, economics=audit.economics,
+                         formats=reports + (["workorders"] if "pdf" in reports else []))
+
+
+#: ``--format`` name -> writer, in the order they run.
+WRITERS = {"csv": _csv, "json": _json, "xlsx": _xlsx, "html": _reports, "pdf": _reports}
+FORMATS = tuple(WRITERS)
+
+#: The files and folders each format writes into ``--out`` (checked before the audit starts).
+OUTPUT_NAMES = {"csv": ("results.csv", "findings.csv"), "json": ("results.json",),
+                "xlsx": ("results.xlsx",), "html": ("report.html",),
+                "pdf": ("report.pdf", "workorders.csv", "workorders/")}
+
+
+def check_outputs(folder: OutputFolder, formats) -> None:
+    """Refuse now, before minutes of work, an ``--out`` whose output names are links."""
+    for name in dict.fromkeys(n for f in formats for n in OUTPUT_NAMES[f]):
+        folder.check(name + "probe" if name.endswith("/") else name, create=False)
+
+
+def write_outputs(audit, folder: OutputFolder, formats, meta: dict, advance=lambda n: None) -> list[Path]:
+    """Run the writers of ``formats`` into ``folder``; the paths written.  ``advance(n)`` is
+    called with the number of formats each writer finished (for a progress bar)."""
+    written = []
+    for writer in dict.fromkeys(WRITERS[f] for f in formats):
+        written += writer(audit, folder, meta, formats)
+        advance(sum(WRITERS[f] is writer for f in formats))
+    return written
+
+
+def _placed(folder: OutputFolder, name: str, writer, *args, **kwargs) -> Path:
+    with folder.writing(name) as temporary:
+        writer(*args, temporary, **kwargs)
+    return folder.root / name
