@@ -13,7 +13,8 @@ import pandas as pd
 from audit.checks import check_kinds, run_checks, summarise_per_row, validate_checks
 from audit.checks.base import CheckContext
 from audit.checks.remedy import fill_remedies
-from audit.economics import Economics, EconomicRules, compute_economics, load_economic_rules
+from audit.economics import Economics, EconomicRules, compute_economics
+from audit.economics import economic_rules as economic_rules_of
 from audit.io.readers import read_register
 from audit.results import build_results
 from audit.rules import Rules, load_rules
@@ -42,18 +43,19 @@ def audit_register(registers, *, rules_dirs=(), sheets=None, surface_model="corr
     """
     rules = load_rules(rules_dirs) if rules is None else rules
     params = validate_checks(rules)
-    economic_rules = load_economic_rules(rules_dirs)
+    economics = economic_rules_of(rules)
     table = resolve_names(read_register(registers, sheets=sheets, aliases=rules.aliases or None), rules)
     return audit_table(table, rules, surface_model=surface_model, params=params,
-                       economic_rules=economic_rules, fuel_price=fuel_price, hours=hours)
+                       economic_rules=economics, fuel_price=fuel_price, hours=hours)
 
 
 def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlations",
                 params=None, economic_rules: EconomicRules | None = None, fuel_price=None,
                 hours=None) -> Audit:
-    """Run the audit on an item table whose names are already resolved."""
+    """Run the audit on an item table whose names are already resolved; the economic rules
+    are those the rules carry unless given."""
     params = validate_checks(rules) if params is None else params
-    economic_rules = load_economic_rules(()) if economic_rules is None else economic_rules
+    economic_rules = economic_rules_of(rules) if economic_rules is None else economic_rules
     # pandas deep-copies ``attrs`` (the reader's summary) into every table an operation makes;
     # the audit does not read it, and thousands of copies add up.
     table = table.copy(deep=False)

@@ -2,8 +2,9 @@
 pays back, and the economic insulation thickness.
 
 ``compute_economics`` runs after the checks on the audit's :class:`CheckContext`; the economic
-inputs come from ``load_economic_rules`` (``rules/economics/economics.toml`` layered with the
-``[economics]`` tables of each ``--rules`` folder, see :mod:`audit.economics.rules`).
+inputs come from ``economic_rules(rules)`` (``rules/economics/economics.toml`` layered with the
+``[economics]`` tables of each ``--rules`` folder by the main loader, see
+:mod:`audit.economics.rules`).
 
 Conditions: the heat is the engine's under the energy site, which is the site of the check
 named by ``energy_check`` in the economic rules (``heat-loss-limit`` in the shipped file) when
@@ -21,13 +22,14 @@ import pandas as pd
 from audit.economics import totals
 from audit.economics.energy import yearly
 from audit.economics.repair import payback_years, plan_repairs, repair_cost
-from audit.economics.rules import EconomicRules, load_economic_rules
+from audit.economics.rules import EconomicRules, economic_rules, load_economic_rules
 from audit.economics.thickness import annuity_factor, economic_thickness
 from audit.errors import RuleError
 from audit.repeats import per_distinct
 from audit.thermal import prepared_states
 
-__all__ = ["Economics", "EconomicRules", "compute_economics", "energy_site", "load_economic_rules"]
+__all__ = ["Economics", "EconomicRules", "compute_economics", "economic_rules", "energy_site",
+           "load_economic_rules"]
 
 #: Per-row columns, in order (the first six are the contract's energy columns):
 #: ``annual_energy [MWh]`` heat lost (or, cold service, gained) in a year of ``hours [h]``;

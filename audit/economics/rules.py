@@ -1,17 +1,16 @@
-"""Reading the economic rules: the ``[economics]`` table of ``economics.toml`` files.
+"""Reading the economic rules: the ``[economics]`` table of the rule files.
 
-Where the files are read from, in order (a later value wins): for the shipped rules folder,
-then each ``--rules DIR`` (the folders of ``audit.rules.loader.rule_folders``), every ``*.toml``
-at the top of the folder that has an ``[economics]`` table, then every ``*.toml`` in its
-``economics/`` subfolder, in name order.  Files are read by the one reader of rule files
-(``audit.rules.files.read_toml``).
+The files are found, read and layered by the main loader (:mod:`audit.rules.loader`): per
+rules folder (shipped, then each ``--rules DIR``), its ``*.toml`` then its ``economics/*.toml``,
+in name order, a later value winning.  :func:`economic_rules` validates and builds what
+:func:`audit.rules.load_rules` layered (``Rules.economics``); :func:`load_economic_rules` does
+the same from rule folders, reading only the ``[economics]`` tables.
 
 Layering is the one rule of every section (:mod:`audit.rules.schema`): a key of
 ``[economics]`` (``currency``, ``hours``, ...) replaces the earlier value; a sub-table
 (``[economics.heat]``, ``[economics.cold]``, ``[economics.finance]``, ``[economics.repair]``)
-replaces the earlier sub-table whole, as a later ``[material.NAME]`` does.  Other top-level
-sections of a file are left to the main loader; every key is checked by the one validator,
-``audit.rules.schema.convert_keys``.
+replaces the earlier sub-table whole, as a later ``[material.NAME]`` does.  Every key is
+checked by the one validator, ``audit.rules.schema.convert_keys``.
 
 The grammar is documented at the top of the shipped ``rules/economics/economics.toml``.
 Every problem raises :class:`~audit.errors.RuleError` naming the file and the key.
@@ -25,15 +24,13 @@ from pathlib import Path
 
 from audit.errors import Problem, RuleError
 from audit.pipe_sizes import NPS_BY_VALUE
-from audit.rules import shipped_rules_dir
-from audit.rules.files import read_toml
+from audit.rules import Rules, shipped_rules_dir
 from audit.rules.converters import list_of, quantity, text
-from audit.rules.loader import rule_folders
+from audit.rules.loader import ECONOMICS, layered_section, read_rule_file, rule_files
 from audit.rules.schema import convert_keys
 from audit.units import parse_quantity
 
-SECTION = "economics"
-SUBFOLDER = "economics"
+SECTION = SUBFOLDER = ECONOMICS
 
 
 def _energy_unit(value):
@@ -197,39 +194,38 @@ def _checked(value, what, low, high=None) -> float:
 
 
 def economic_rule_files(rule_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> list[Path]:
-    """The files read, in order (see the module docstring)."""
-    files = []
-    for folder in rule_folders(rule_dirs, shipped=shipped):
-        files += [p for p in sorted(folder.glob("*.toml")) if SECTION in _read(p)]
-        files += sorted((folder / SUBFOLDER).glob("*.toml"))
-    return files
+    """The rule files that hold an ``[economics]`` table, in the order layered."""
+    return [p for p in rule_files(rule_dirs, shipped=shipped) if SECTION in read_rule_file(p)]
 
 
 def load_economic_rules(rule_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> EconomicRules:
-    """Read and layer the ``[economics]`` tables; :class:`RuleError` naming file and key."""
-    files = economic_rule_files(rule_dirs, shipped=shipped)
-    merged: dict[str, tuple[object, str]] = {}    # key or sub-table -> (raw value, file)
-    for path in files:
-        body = _read(path).get(SECTION)
-        if body is None:
-            continue
-        if not isinstance(body, dict):
-            raise RuleError(f"[{SECTION}] is not a table", file=str(path), column=SECTION)
-        for key, value in body.items():
-            if isinstance(value, dict) and (key not in SCHEMA or not key):
-                raise RuleError(f"unknown table [{SECTION}.{key}]", file=str(path),
-                                column=f"{SECTION}.{key}",
-                                expected="one of " + ", ".join(f"[{SECTION}.{s}]" for s in SCHEMA if s))
-            merged[key] = (value, str(path))  # the layering rule of audit.rules.schema
-    if not files:
+    """Read and layer the ``[economics]`` tables of the rule folders (the main loader's files,
+    no other section read); :class:`RuleError` naming file and key."""
+    files = rule_files(rule_dirs, shipped=shipped)
+    return _economic_rules(layered_section(files, SECTION), [str(f) for f in files])
+
+
+def economic_rules(rules: Rules) -> EconomicRules:
+    """The economic rules of rules already loaded (``rules.economics``, layered by
+    :func:`audit.rules.load_rules`); :class:`RuleError` naming file and key."""
+    return _economic_rules(rules.economics, rules.files)
+
+
+def _economic_rules(merged: dict, order) -> EconomicRules:
+    """Validated and built from the layered table (key or sub-table -> (raw value, file)) of
+    the rule files ``order``."""
+    if not merged:
         raise RuleError("no economic rules found", file=str(shipped_rules_dir() / SUBFOLDER),
                         expected=f"an [{SECTION}] table in {SUBFOLDER}/economics.toml")
+    for key, (value, path) in merged.items():
+        if isinstance(value, dict) and (key not in SCHEMA or not key):
+            raise RuleError(f"unknown table [{SECTION}.{key}]", file=path,
+                            column=f"{SECTION}.{key}",
+                            expected="one of " + ", ".join(f"[{SECTION}.{s}]" for s in SCHEMA if s))
+    holding = {path for _, path in merged.values()}
+    files = tuple(f for f in order if f in holding)
     values = _validate(merged, files)
-    return _build(values, merged, tuple(str(f) for f in files))
-
-
-def _read(path: Path) -> dict:
-    return read_toml(path, "TOML as described at the top of the shipped economics.toml")
+    return _build(values, merged, files)
 
 
 def _validate(merged, files) -> dict:

@@ -1,7 +1,8 @@
 """Loading, layering and validating rule files (``rules/*.toml``).
 
 The shipped ``rules/`` folder is read first, then each ``--rules DIR`` in order; every
-``*.toml`` of a folder is read in name order.  A later definition of the same
+``*.toml`` of a folder is read in name order, then every ``*.toml`` of its ``economics/``
+subfolder (:func:`rule_files`, the one discovery).  A later definition of the same
 ``[section.NAME]`` replaces the earlier one whole, so a user adds or changes one material
 without copying the rest.  Alias lists of the same column are joined.
 
@@ -102,6 +103,8 @@ SCHEMA = {
 _PLURAL = {"material": "materials", "jacket": "jackets", "metal": "metals", "site": "sites",
            "fitting": "fittings", "spec": "specs"}
 _TOP_LEVEL = set(SCHEMA) | {"alias", "defaults", "check", "thicknesses", "economics"}
+#: The economic rules' section, and the subfolder of a rules folder that holds their files
+ECONOMICS = "economics"
 #: Keys every [check.NAME] may have; any other key is the check kind's own parameter.
 CHECK_KEYS = ("kind", "enabled", "site", "applies_to", "severity", "source", "description")
 #: [defaults] key -> the section its value names
@@ -126,27 +129,21 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
         A folder that does not exist, a file that is not TOML, an unknown section or key,
         a value of the wrong kind, a missing ``source``, or a reference to an undefined name.
     """
-    folders = rule_folders(extra_dirs, shipped=shipped)
     collected = {section: {} for section in SCHEMA}
     collected["check"] = {}
     collected["thicknesses"] = {}
+    collected["economics"] = {}
     aliases: dict[str, list[str]] = {}
     defaults: dict[str, str] = {}
-    files = []
-    for folder in folders:
-        found = sorted(folder.glob("*.toml"))
-        if not found:
-            others = ", ".join(sorted(p.name for p in folder.iterdir() if p.is_file())[:5]) or "nothing"
-            raise RuleError(f"rules folder {str(folder)!r} holds no *.toml file (found: {others})",
-                            file=str(folder), expected="rule files named *.toml")
-        for path in found:
-            files.append(str(path))
-            _read_file(path, collected, aliases, defaults)
+    files = rule_files(extra_dirs, shipped=shipped)
+    for path in files:
+        _read_file(path, collected, aliases, defaults)
     thicknesses = collected["thicknesses"]
     rules = Rules(**{_PLURAL[s]: collected[s] for s in SCHEMA}, checks=collected["check"],
                   thicknesses=thicknesses.get("standard", ()),
                   thicknesses_source=thicknesses.get("source", ""), aliases=aliases,
-                  defaults=defaults, files=tuple(files))
+                  defaults=defaults, files=tuple(str(f) for f in files),
+                  economics=collected["economics"])
     _check_references(rules)
     return rules
 
@@ -162,8 +159,50 @@ def rule_folders(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True)
     return folders
 
 
+def rule_files(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> list[Path]:
+    """Every rule file, in the order read (later wins): per folder of :func:`rule_folders`,
+    its ``*.toml`` then its ``economics/*.toml``, each in name order; RuleError for a folder
+    that holds none."""
+    files = []
+    for folder in rule_folders(extra_dirs, shipped=shipped):
+        found = sorted(folder.glob("*.toml")) + sorted((folder / ECONOMICS).glob("*.toml"))
+        if not found:
+            others = ", ".join(sorted(p.name for p in folder.iterdir() if p.is_file())[:5]) or "nothing"
+            raise RuleError(f"rules folder {str(folder)!r} holds no *.toml file (found: {others})",
+                            file=str(folder), expected="rule files named *.toml")
+        files += found
+    return files
+
+
+def read_rule_file(path: Path) -> dict:
+    """One rule file parsed (:func:`audit.rules.files.read_toml`)."""
+    return read_toml(path, "TOML as described in the comment at the top of the shipped rule files")
+
+
+def layer_keys(layered: dict, body: dict, path: Path) -> None:
+    """The one layering rule for a section read key by key (``[economics]``): each key, or
+    sub-table whole, replaces the earlier one; ``layered`` maps it to (raw value, file)."""
+    for key, value in body.items():
+        layered[key] = (value, str(path))
+
+
+def layered_section(files: Iterable[Path], section: str) -> dict:
+    """One key-by-key section of ``files`` alone, read and layered as :func:`load_rules` does
+    (for a reader of that section that needs nothing else, such as the economic rules')."""
+    layered: dict = {}
+    for path in files:
+        body = read_rule_file(path).get(section)
+        if body is None:
+            continue
+        if not isinstance(body, dict):
+            raise RuleError(f"[{section}] is not a table", file=str(path), column=section,
+                            value=body)
+        layer_keys(layered, body, path)
+    return layered
+
+
 def _read_file(path: Path, collected, aliases, defaults) -> None:
-    data = read_toml(path, "TOML as described in the comment at the top of the shipped rule files")
+    data = read_rule_file(path)
     problems: list[Problem] = []
     for section, body in data.items():
         if section not in _TOP_LEVEL:
@@ -174,8 +213,9 @@ def _read_file(path: Path, collected, aliases, defaults) -> None:
             problems.append(Problem(f"[{section}] is not a table", file=str(path), column=section,
                                     value=body))
             continue
-        if section == "economics":
-            continue  # read and validated by audit.economics.rules
+        if section == ECONOMICS:
+            layer_keys(collected[ECONOMICS], body, path)  # validated by audit.economics.rules
+            continue
         if section == "alias":
             for column, names in body.items():
                 if not (isinstance(names, list) and all(isinstance(n, str) for n in names)):

@@ -121,6 +121,9 @@ class Rules:
     aliases: dict = field(default_factory=dict)   #: column -> list of alias headers
     defaults: dict = field(default_factory=dict)  #: e.g. {"site": "outdoor-annual-mean"}
     files: tuple = ()                             #: rule files read, in order
+    #: the [economics] table as layered: key or sub-table -> (raw value, file); validated and
+    #: built by :func:`audit.economics.rules.economic_rules`
+    economics: dict = field(default_factory=dict)
 
     def default_site(self) -> Site:
         return self.sites[self.defaults["site"]]

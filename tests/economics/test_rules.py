@@ -3,7 +3,7 @@ errors that name the file and the key."""
 
 import pytest
 
-from audit.economics.rules import economic_rule_files, load_economic_rules
+from audit.economics.rules import economic_rule_files, economic_rules, load_economic_rules
 from audit.errors import RuleError
 from audit.rules import load_rules, shipped_rules_dir
 
@@ -21,7 +21,7 @@ def shipped():
 
 def test_shipped_file_is_read_and_does_not_disturb_the_main_loader(shipped):
     assert [str(p) for p in economic_rule_files()] == [str(shipped_rules_dir() / "economics" / "economics.toml")]
-    load_rules()  # the subfolder is invisible to the main loader: no unknown [economics] section
+    load_rules()  # the main loader reads the subfolder too and layers its [economics] section
     assert shipped.currency == "EUR"
     assert shipped.energy_check == "heat-loss-limit"
 
@@ -124,3 +124,29 @@ def test_not_toml_names_the_file(tmp_path):
     with pytest.raises(RuleError) as caught:
         load_economic_rules([folder])
     assert caught.value.file.endswith("bad.toml")
+
+
+def test_the_main_loader_layers_the_economics_too(tmp_path, shipped):
+    # One discovery, reading and layering: the Rules object carries the [economics] table as
+    # layered, and the economic rules built from it are those read from the folders alone.
+    folder = write(tmp_path / "plant", "money.toml", '[economics]\nhours = 7000\n')
+    write(folder / "economics", "more.toml", '[economics]\ncurrency = "USD"\n')
+    rules = load_rules([folder])
+    assert str(shipped_rules_dir() / "economics" / "economics.toml") in rules.files
+    assert rules.files[-2:] == (str(folder / "money.toml"), str(folder / "economics" / "more.toml"))
+    assert rules.economics["hours"] == (7000, str(folder / "money.toml"))
+    built = economic_rules(rules)
+    assert built == load_economic_rules([folder])
+    assert (built.hours, built.currency, built.life) == (7000, "USD", shipped.life)
+    assert built.files[-2:] == rules.files[-2:]
+    assert economic_rules(load_rules()) == shipped
+
+
+def test_economics_not_a_table_names_the_file_in_both_loaders(tmp_path):
+    folder = write(tmp_path / "bad", "bad.toml", 'economics = 3\n')
+    for load in (load_rules, load_economic_rules):
+        with pytest.raises(RuleError) as caught:
+            load([folder])
+        problems = caught.value.problems or [caught.value.problem]
+        assert any(p.message == "[economics] is not a table" and p.file.endswith("bad.toml")
+                   for p in problems), [str(p) for p in problems]
