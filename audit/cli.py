@@ -15,7 +15,7 @@ from audit.cautions import CAUTION
 from audit.digests import sha256_file
 from audit.errors import LagauditError
 from audit.history import History, describe_audits, export_audits
-from audit.history.run import compare_audit, open_history, record_run
+from audit.history.run import HISTORY_OUTPUTS, compare_audit, open_history, record_run
 from audit.io.readers import read_register
 from audit.io.readers.validate import summarise
 from audit.io.writers.place import OutputFolder
@@ -214,7 +214,7 @@ def _audit_and_write(registers, args) -> int:
     # A stream that is not a terminal draws no bar.
     with OutputFolder(args.out) as folder, \
             progress("Auditing", total=1 + len(formats), stream=io.StringIO() if args.quiet else None) as bar:
-        check_outputs(folder, formats)
+        check_outputs(folder, formats, HISTORY_OUTPUTS if history is not None else ())
         audit = audit_register(registers, rules_dirs=args.rules, sheets=args.sheet,
                                surface_model=args.surface_model, fuel_price=args.fuel_price,
                                hours=args.hours)
@@ -224,7 +224,7 @@ def _audit_and_write(registers, args) -> int:
         bar.advance()
         written = write_outputs(audit, folder, formats, _meta(audit, registers, args), bar.advance)
         if history is not None:
-            closed, recorded = record_run(history, audit, registers, args.out,
+            closed, recorded = record_run(history, audit, registers, folder,
                                           surface_model=args.surface_model)
             written += closed
     results, findings = audit.results, audit.findings

@@ -26,11 +26,11 @@ def _csv(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
     # Two threads: much of the writing is numpy formatting and file output, which let go of
     # the interpreter lock, so the two files overlap.
     with ThreadPoolExecutor(2) as pool:
-        return list(pool.map(lambda job: _placed(folder, job[1], write_csv, job[0]), jobs))
+        return list(pool.map(lambda job: placed(folder, job[1], write_csv, job[0]), jobs))
 
 
 def _json(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
-    return [_placed(folder, "results.json", write_json, audit.results, meta=meta)]
+    return [placed(folder, "results.json", write_json, audit.results, meta=meta)]
 
 
 def _xlsx(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
@@ -42,7 +42,7 @@ def _xlsx(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
               "best paybacks": economics.top_repairs,
               "assumptions": pd.DataFrame(economics.assumptions)}
     notes = []
-    written = [_placed(folder, "results.xlsx", write_xlsx, sheets, notes=notes)]
+    written = [placed(folder, "results.xlsx", write_xlsx, sheets, notes=notes)]
     for note in notes:  # a split is news: said even with --quiet
         print(printable(f"lagaudit: note: results.xlsx: {note}; every column and row is also in "
                         "the CSV outputs"), file=sys.stderr)
@@ -68,9 +68,10 @@ OUTPUT_NAMES = {"csv": ("results.csv", "findings.csv"), "json": ("results.json",
                 "pdf": ("report.pdf", "workorders.csv", "workorders/")}
 
 
-def check_outputs(folder: OutputFolder, formats) -> None:
-    """Refuse now, before minutes of work, an ``--out`` whose output names are links."""
-    for name in dict.fromkeys(n for f in formats for n in OUTPUT_NAMES[f]):
+def check_outputs(folder: OutputFolder, formats, extra=()) -> None:
+    """Refuse now, before minutes of work, an ``--out`` whose output names (those of
+    ``formats``, and the ``extra`` names another step writes) are links."""
+    for name in dict.fromkeys([*(n for f in formats for n in OUTPUT_NAMES[f]), *extra]):
         folder.check(name + "probe" if name.endswith("/") else name, create=False)
 
 
@@ -84,7 +85,8 @@ def write_outputs(audit, folder: OutputFolder, formats, meta: dict, advance=lamb
     return written
 
 
-def _placed(folder: OutputFolder, name: str, writer, *args, **kwargs) -> Path:
+def placed(folder: OutputFolder, name: str, writer, *args, **kwargs) -> Path:
+    """``writer(*args, temporary, **kwargs)`` into ``folder`` under ``name``, put in place whole."""
     with folder.writing(name) as temporary:
         writer(*args, temporary, **kwargs)
     return folder.root / name

@@ -10,6 +10,8 @@ from pathlib import Path
 from audit.digests import rules_digest, sha256_file
 from audit.history.since import compare_with_last, plant_name, record_audit, write_closed
 from audit.history.store import History
+from audit.io.writers.place import OutputFolder
+from audit.outputs import placed
 
 
 def open_history(where: str | None) -> History | None:
@@ -25,11 +27,16 @@ def compare_audit(history: History, audit, *, plant: str | None, fallback: str |
     return dataclasses.replace(audit, findings=since.findings, history=since)
 
 
-def record_run(history: History, audit, registers, out_dir, *, surface_model: str) -> tuple[list[Path], str]:
-    """Write ``closed.csv`` and record the audit, then close ``history``; the paths written and
-    a line for the user."""
+#: What ``record_run`` writes into the output folder.
+HISTORY_OUTPUTS = ("closed.csv",)
+
+
+def record_run(history: History, audit, registers, folder: OutputFolder, *,
+               surface_model: str) -> tuple[list[Path], str]:
+    """Write ``closed.csv`` into ``folder`` (put in place whole, as every output) and record the
+    audit, then close ``history``; the paths written and a line for the user."""
     since = audit.history
-    closed = write_closed(since, out_dir)
+    closed = placed(folder, HISTORY_OUTPUTS[0], write_closed, since)
     try:
         audit_id = record_audit(history, audit, since, surface_model=surface_model,
                                 registers=[{"file": str(p), "sha256": sha256_file(p)} for p in registers],

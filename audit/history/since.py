@@ -130,9 +130,9 @@ def finding_records(findings: pd.DataFrame) -> pd.DataFrame:
     })
 
 
-def write_closed(since: SinceLast, out_dir) -> Path:
-    """``closed.csv``: the last audit's findings that are gone, with ``why``."""
-    return write_csv(since.closed, Path(out_dir) / "closed.csv")
+def write_closed(since: SinceLast, path) -> Path:
+    """``closed.csv`` at ``path``: the last audit's findings that are gone, with ``why``."""
+    return write_csv(since.closed, Path(path))
 
 
 def _layers_text(materials, thicknesses) -> str:

@@ -12,6 +12,7 @@ import pytest
 from audit.cli import main
 from audit.history import History
 from audit.history.run import compare_audit, record_run
+from audit.io.writers.place import OutputFolder
 from audit.pipeline import audit_register
 from audit.report import write_reports
 
@@ -34,7 +35,8 @@ def _audited(tmp_path, db, name, body):
 def test_report_section_trend_and_work_orders(tmp_path):
     db = str(tmp_path / "h.db")
     first, register, out = _audited(tmp_path, db, "s1", SURVEY_1)
-    record_run(History.open(db), first, [register], out, surface_model="correlations")
+    with OutputFolder(out) as folder:
+        record_run(History.open(db), first, [register], folder, surface_model="correlations")
     second, register, out = _audited(tmp_path, db, "s2", SURVEY_2)
     written = write_reports(second, out, meta=META, formats=["html", "workorders"])
     html = (out / "report.html").read_text(encoding="utf-8")
@@ -99,3 +101,21 @@ def test_resurvey_generator_reproduces_the_files(tmp_path):
     for path in module.main(tmp_path):
         if path.suffix == ".csv":  # byte for byte; the XLSX zip bytes depend on xlsxwriter's version
             assert path.read_bytes() == (DATA / path.name).read_bytes(), path.name
+
+
+def test_closed_csv_is_not_written_through_a_link(tmp_path, capsys):
+    # closed.csv goes through the output folder like every output: a link there is refused
+    # before the audit, and the file it points at is left as it was.
+    register = tmp_path / "s1.csv"
+    register.write_text(SURVEY_1, encoding="utf-8")
+    outside = tmp_path / "elsewhere.txt"
+    outside.write_text("keep me", encoding="utf-8")
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "closed.csv").symlink_to(outside)
+    code = main(["run", str(register), "--history", str(tmp_path / "h.db"), "--out", str(out),
+                 "--format", "csv", "-q"])
+    assert code == 2
+    assert "closed.csv" in capsys.readouterr().err
+    assert outside.read_text(encoding="utf-8") == "keep me"
+    assert not (out / "results.csv").exists()
