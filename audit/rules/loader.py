@@ -132,7 +132,7 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
     collected = {section: {} for section in SCHEMA}
     collected["check"] = {}
     collected["thicknesses"] = {}
-    collected["economics"] = {}
+    collected[ECONOMICS] = {}
     aliases: dict[str, list[str]] = {}
     defaults: dict[str, str] = {}
     files = rule_files(extra_dirs, shipped=shipped)
@@ -143,7 +143,7 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
                   thicknesses=thicknesses.get("standard", ()),
                   thicknesses_source=thicknesses.get("source", ""), aliases=aliases,
                   defaults=defaults, files=tuple(str(f) for f in files),
-                  economics=collected["economics"])
+                  economics=collected[ECONOMICS])
     _check_references(rules)
     return rules
 
