@@ -38,7 +38,7 @@ _THREADS = min(4, os.cpu_count() or 1)
 
 _POW10 = 10.0 ** np.arange(23)  # 1 .. 1e22, each exact in float64
 _SPLITTER = 134217729.0  # 2**27 + 1: Dekker's split of a double into two 26-bit halves
-_WIDTH = 24  # the longest repr of a float64, '-1.2345678901234567e-308'
+WIDTH = 24  # the longest repr of a float64, '-1.2345678901234567e-308'
 _TIGHT = 1e-9  # margin in units of the 17th digit: only exact or near ties go to repr
 _E_MIN, _E_MAX = -4, 15  # repr writes 1e-4 <= |x| < 1e16 without an exponent
 
@@ -107,20 +107,20 @@ def _float_block(columns: list[np.ndarray]):
     """
     def texts(start, stop):
         rows = len(columns[0][start:stop])
-        matrix = np.empty((rows, len(columns), _WIDTH + 1), np.uint8)
+        matrix = np.empty((rows, len(columns), WIDTH + 1), np.uint8)
         with ThreadPoolExecutor(_THREADS) as pool:  # numpy lets go of the GIL in its loops
-            list(pool.map(lambda c: _float_into(columns[c][start:stop], matrix[:, c, :_WIDTH]),
+            list(pool.map(lambda c: float_into(columns[c][start:stop], matrix[:, c, :WIDTH]),
                           range(len(columns))))
-        matrix[:, :, _WIDTH] = ord(",")
-        matrix[:, -1, _WIDTH] = ord("\n")
+        matrix[:, :, WIDTH] = ord(",")
+        matrix[:, -1, WIDTH] = ord("\n")
         return matrix.tobytes().translate(None, b"\0").decode("ascii").split("\n")[:-1]
     return texts
 
 
 def float_texts(values: np.ndarray) -> list[str]:
     """The cell texts ``to_csv`` writes for a float64 array: ``repr``, NaN as empty."""
-    chars = np.empty((len(values), _WIDTH), np.uint8)
-    _float_into(np.asarray(values, np.float64), chars)
+    chars = np.empty((len(values), WIDTH), np.uint8)
+    float_into(np.asarray(values, np.float64), chars)
     return [bytes(row).rstrip(b"\0").decode("ascii") for row in chars]
 
 
@@ -180,7 +180,7 @@ def _two_product(a, b):
     return hi, ((ah * bh - hi) + ah * bl + al * bh) + al * bl
 
 
-def _float_into(values: np.ndarray, chars: np.ndarray) -> None:
+def float_into(values: np.ndarray, chars: np.ndarray) -> None:
     """``repr`` of each float64 written into the rows of ``chars`` (n x 24 bytes), NUL-padded;
     NaN as an all-NUL row.
 
@@ -197,7 +197,7 @@ def _float_into(values: np.ndarray, chars: np.ndarray) -> None:
 
 
 def _float_into_each(values: np.ndarray, chars: np.ndarray) -> None:
-    """:func:`_float_into`, value by value.
+    """:func:`float_into`, value by value.
 
     ``|x|`` in [1e-4, 1e16) (printed without an exponent) is done for the whole array at once:
     Dekker's exact product gives ``x * 10**(16 - e)`` as an integer and a fraction, the 15-,
@@ -265,7 +265,7 @@ def _float_into_each(values: np.ndarray, chars: np.ndarray) -> None:
         np.maximum(nd, (digits[:, j] != 0) * np.uint8(j + 1), out=nd)
     digits += ord("0")
     nd = nd.astype(np.int64)
-    text = np.empty((len(e), _WIDTH), np.uint8)
+    text = np.empty((len(e), WIDTH), np.uint8)
     size = np.empty(len(e), np.int64)
     bounds = np.searchsorted(e, np.arange(_E_MIN, _E_MAX + 2))
     for g, lo_, hi_ in zip(range(_E_MIN, _E_MAX + 1), bounds[:-1], bounds[1:]):
@@ -295,7 +295,7 @@ def _float_into_each(values: np.ndarray, chars: np.ndarray) -> None:
     rest &= ~np.isnan(values)
     slow = np.flatnonzero(rest)
     if len(slow):  # ASCII: a float's repr is digits, '.', 'e', '+', '-' or 'inf'
-        texts = [repr(v).encode("ascii").ljust(_WIDTH, b"\0") for v in values[slow].tolist()]
-        chars[slow] = np.frombuffer(b"".join(texts), np.uint8).reshape(-1, _WIDTH)
+        texts = [repr(v).encode("ascii").ljust(WIDTH, b"\0") for v in values[slow].tolist()]
+        chars[slow] = np.frombuffer(b"".join(texts), np.uint8).reshape(-1, WIDTH)
         lengths[slow] = [len(t.rstrip(b"\0")) for t in texts]
-    np.multiply(chars, np.arange(_WIDTH) < lengths[:, None], out=chars)  # NUL after the text
+    np.multiply(chars, np.arange(WIDTH) < lengths[:, None], out=chars)  # NUL after the text

@@ -5,6 +5,7 @@ import math
 import numpy as np
 import openpyxl
 import pandas as pd
+from python_calamine import CalamineWorkbook
 
 from audit.io.writers import summary_sheet, write_xlsx
 
@@ -74,3 +75,77 @@ def test_nullable_columns_leave_empty_cells(tmp_path):
     path = write_xlsx({"s": table}, tmp_path / "n.xlsx")
     rows = list(openpyxl.load_workbook(path)["s"].iter_rows(min_row=2, values_only=True))
     assert rows == [(1, True, "x"), (None, None, None), (3, False, "'=y")]
+
+
+def _calamine(path):
+    book = CalamineWorkbook.from_path(str(path))
+    return {name: book.get_sheet_by_name(name).to_python(skip_empty_area=False)
+            for name in book.sheet_names}
+
+
+def awkward():
+    """Values whose XML or number text is easy to get wrong."""
+    return pd.DataFrame({
+        "tag": ["a<b>&\"c'", "  lead", "x\ry", "\r=1", "_x0041_", "ctrl\x01z", "\uff1dSUM()"],
+        "q [W/m]": [0.1, 1e-5, 1e16, -0.0, 123456789.12345678, np.inf, 5e-324],
+        "n": [-(2**40), 0, 1, 2, 3, 4, 5],
+        "mixed": ["text", 2.5, True, None, 7, "-5", ("p", "q")],
+    })
+
+
+def test_openpyxl_and_calamine_read_the_same_cells(tmp_path):
+    path = write_xlsx({"results": frame(), "odd": awkward()}, tmp_path / "r.xlsx")
+    # calamine (a Rust reader) is independent of openpyxl: both must see every cell alike.
+    calamine = _calamine(path)
+    book = openpyxl.load_workbook(path)
+    assert list(calamine) == book.sheetnames == ["results", "odd"]
+    for name in book.sheetnames:
+        # calamine reads an empty cell as "", as it reads an empty text
+        mine = [[None if c == "" else c for c in r] for r in book[name].iter_rows(values_only=True)]
+        theirs = [[None if c == "" else c for c in r] for r in calamine[name]]
+        if name == "odd":  # openpyxl leaves Excel's _xHHHH_ escape of a control character as is
+            assert (mine[6][0], theirs[6][0]) == ("ctrl_x0001_z", "ctrl\x01z")
+            mine[6][0] = theirs[6][0]
+        assert mine == theirs, name
+    odd = [r for r in book["odd"].iter_rows(min_row=2, values_only=True)]
+    assert [r[0] for r in odd] == ["a<b>&\"c'", "  lead", "x\ry", "'\r=1", "_x0041_", "ctrl_x0001_z",
+                                   "'\uff1dSUM()"]
+    # Numbers round-trip exactly (shortest repr); infinity has no cell value in XLSX: empty.
+    assert [r[1] for r in odd] == [0.1, 1e-5, 1e16, -0.0, 123456789.12345678, None, 5e-324]
+    assert [r[2] for r in odd] == [-(2**40), 0, 1, 2, 3, 4, 5]
+    assert [r[3] for r in odd] == ["text", 2.5, True, None, 7, "-5", "p; q"]
+    assert book["odd"].cell(row=5, column=1).data_type == "s"
+
+
+def test_big_tables_keep_types_and_values(tmp_path):
+    rng = np.random.default_rng(5)
+    n = 45_000  # more than two chunks of rows
+    values = rng.normal(0, 1e3, n) * 10.0 ** rng.integers(-8, 8, n)
+    values[::7] = np.nan
+    table = pd.DataFrame({"tag": [f"=T{i % 97}" if i % 5 == 0 else f"T{i}" for i in range(n)],
+                          "x": values, "y": values[::-1].copy(), "k": np.arange(n),
+                          "ok": np.arange(n) % 3 == 0})
+    path = write_xlsx({"results": table}, tmp_path / "big.xlsx")
+    rows = _calamine(path)["results"]
+    assert rows[0] == ["tag", "x", "y", "k", "ok"] and len(rows) == n + 1
+    got = np.array([np.nan if r[1] == "" else r[1] for r in rows[1:]])
+    assert np.array_equal(got, values, equal_nan=True)  # exact: shortest round-trip text
+    assert [r[3] for r in rows[1:]] == list(range(n))
+    assert [r[4] for r in rows[1:]] == [bool(k % 3 == 0) for k in range(n)]
+    assert all(r[0].startswith("'=") == (i % 5 == 0) for i, r in enumerate(rows[1:]))
+
+
+def test_a_table_beyond_16384_columns_is_split_over_sheets(tmp_path):
+    """The real XLSX limit (ECMA-376; Excel's "specifications and limits"), not a lowered one."""
+    wide = pd.DataFrame(np.arange(3 * 16_500, dtype=float).reshape(3, 16_500),
+                        columns=[f"c{k}" for k in range(16_500)])
+    wide.insert(0, "tag", ["a", "b", "=c"])
+    notes = []
+    path = write_xlsx({"results": wide}, tmp_path / "wide.xlsx", notes=notes)
+    assert "split over sheets results, results (2)" in notes[0]
+    sheets = _calamine(path)
+    first, second = sheets["results"], sheets["results (2)"]
+    assert len(first[0]) == 16_384 and first[0][:2] == ["tag", "c0"]
+    assert second[0] == ["tag"] + [f"c{k}" for k in range(16_383, 16_500)]
+    assert [r[0] for r in second[1:]] == ["a", "b", "'=c"]
+    assert second[1][1:] == [float(k) for k in range(16_383, 16_500)]
