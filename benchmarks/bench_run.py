@@ -2,7 +2,7 @@
 
 For each size, an invented register whose names all exist in the shipped rules is timed
 stage by stage: read, resolve names, thermal states (own conditions), checks, remedies,
-economics, results table, write CSV, write XLSX, render HTML and PDF; then the peak memory,
+economics, results table, write CSV, JSON and XLSX, render HTML and PDF; then the peak memory,
 and the command end to end as a user runs it: ``lagaudit run --format csv`` and the default
 ``lagaudit run`` (every format), each with its wall time and peak memory (the largest resident
 set of the command's process or of any worker it waited for).  Targets (issue 16, 2-core
@@ -72,7 +72,7 @@ def run_size(items: int, folder: Path, *, end_to_end: bool, reports: bool) -> No
     from audit.checks.remedy import fill_remedies
     from audit.economics import compute_economics, load_economic_rules
     from audit.io.readers import read_register
-    from audit.io.writers import write_csv, write_xlsx
+    from audit.io.writers import write_csv, write_json, write_xlsx
     from audit.pipeline import Audit
     from audit.report import write_reports
     from audit.results import build_results
@@ -98,6 +98,7 @@ def run_size(items: int, folder: Path, *, end_to_end: bool, reports: bool) -> No
     out = folder / f"out-{items}"
     out.mkdir()
     timed("write results.csv", write_csv, results, out / "results.csv")
+    timed("write results.json", write_json, results, out / "results.json", meta={})
     timed("write results.xlsx", write_xlsx, {"results": results,
                                              "findings": findings.drop(columns=["row"])},
           out / "results.xlsx")

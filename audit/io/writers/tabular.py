@@ -6,13 +6,13 @@ evaluate is neutralised (:mod:`audit.io.writers.safety`).
 
 from __future__ import annotations
 
-import json
 import math
 from pathlib import Path
 
 import pandas as pd
 
 from audit.io.writers.csv_fast import write_frame_csv
+from audit.io.writers.json_fast import write_records_json
 from audit.io.writers.safety import neutralise_text
 
 
@@ -30,11 +30,14 @@ def write_csv(results: pd.DataFrame, path: Path) -> Path:
 
 
 def write_json(results: pd.DataFrame, path: Path, *, meta: dict | None = None) -> Path:
-    """``{"meta": {...}, "results": [{column: value}, ...]}``; missing numbers are null."""
-    records = [{k: _plain(v) for k, v in row.items()} for row in results.to_dict(orient="records")]
-    with open(path, "w", encoding="utf-8") as handle:
-        json.dump({"meta": meta or {}, "results": records}, handle, ensure_ascii=False, indent=1)
-    return path
+    """``{"meta": {...}, "results": [{column: value}, ...]}``; missing numbers are null.
+
+    The text is what ``json.dump(..., ensure_ascii=False, indent=1)`` writes for the records of
+    ``results.to_dict(orient="records")``, each value made plain (numpy scalars as Python
+    values, NaN and infinities as null); :func:`~audit.io.writers.json_fast.write_records_json`
+    builds it from the columns, which a 100,000-item register needs.
+    """
+    return write_records_json(results, path, meta or {}, _plain)
 
 
 def _plain(value):
