@@ -19,7 +19,7 @@ from audit.history.run import HISTORY_OUTPUTS, compare_audit, open_history, reco
 from audit.io.readers import read_register
 from audit.io.readers.validate import summarise
 from audit.io.writers.place import OutputFolder
-from audit.outputs import FORMATS, check_outputs, write_outputs
+from audit.outputs import FORMATS, MAX_WORKORDER_PAGES, check_outputs, write_outputs
 from audit.pipeline import audit_register
 from audit.progress import printable, progress
 from audit.rules import SEVERITIES, load_rules
@@ -158,6 +158,10 @@ def _audit_options(parser):
                              "the economic rules (shipped: per MWh)")
     parser.add_argument("--hours", type=_positive, metavar="H",
                         help="this run's operating hours per year for rows that give none")
+    parser.add_argument("--workorder-pages", type=_count, metavar="N",
+                        help="most item pages in the work-order PDF packs, the most severe first "
+                             f"(default {MAX_WORKORDER_PAGES}; every work order is in "
+                             "workorders.csv)")
     parser.add_argument("--history", metavar="DB",
                         help="record this audit in DB (SQLite file, or postgresql:// URL) and "
                              "compare it with the plant's last audit there (writes closed.csv)")
@@ -178,6 +182,16 @@ def _positive(text: str) -> float:
         raise argparse.ArgumentTypeError(f"{text!r} is not a number") from None
     if not value > 0 or value != value or value == float("inf"):
         raise argparse.ArgumentTypeError(f"{text!r} must be a number above zero")
+    return value
+
+
+def _count(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"not a whole number: {text!r}") from None
+    if value < 0:
+        raise argparse.ArgumentTypeError(f"must be 0 or more, not {value}")
     return value
 
 
@@ -222,7 +236,8 @@ def _audit_and_write(registers, args) -> int:
             audit = compare_audit(history, audit, plant=args.plant,
                                   fallback=DEMO_PLANT if args.run is _demo else None)
         bar.advance()
-        written = write_outputs(audit, folder, formats, _meta(audit, registers, args), bar.advance)
+        written = write_outputs(audit, folder, formats, _meta(audit, registers, args), bar.advance,
+                                workorder_pages=args.workorder_pages)
         if history is not None:
             closed, recorded = record_run(history, audit, registers, folder,
                                           surface_model=args.surface_model)

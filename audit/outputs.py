@@ -3,8 +3,9 @@
 :data:`WRITERS` maps a ``--format`` name to its writer; the command line runs the writers of
 the formats asked for, in the registry's order, inside one locked
 :class:`~audit.io.writers.place.OutputFolder`.  A writer takes ``(audit, folder, meta, asked)``
-and returns the paths it wrote; ``html`` and ``pdf`` share one writer (one render of the
-report), which also writes the work-order packs with the PDF.
+and returns the paths it wrote (``options``, the run's output settings, come as keywords: a
+writer takes those it uses); ``html`` and ``pdf`` share one writer (one render of the report),
+which also writes the work-order packs with the PDF (``workorder_pages``: their cap on item pages).
 """
 
 from __future__ import annotations
@@ -20,7 +21,7 @@ from audit.io.writers.place import OutputFolder
 from audit.progress import printable
 
 
-def _csv(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
+def _csv(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
     findings = audit.findings.drop(columns=["row"])
     jobs = [(audit.results, "results.csv"), (findings, "findings.csv")]
     # Two threads: much of the writing is numpy formatting and file output, which let go of
@@ -29,11 +30,11 @@ def _csv(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
         return list(pool.map(lambda job: placed(folder, job[1], write_csv, job[0]), jobs))
 
 
-def _json(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
+def _json(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
     return [placed(folder, "results.json", write_json, audit.results, meta=meta)]
 
 
-def _xlsx(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
+def _xlsx(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
     results, economics = audit.results, audit.economics
     rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
     sheets = {"results": results, "findings": audit.findings.drop(columns=["row"]),
@@ -49,14 +50,24 @@ def _xlsx(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
     return written
 
 
-def _reports(audit, folder: OutputFolder, meta: dict, asked) -> list[Path]:
+def _reports(audit, folder: OutputFolder, meta: dict, asked, *, workorder_pages: int | None = None,
+             **options) -> list[Path]:
     from audit.report import write_reports  # weasyprint loads in ~0.7 s: only when asked
 
     reports = [f for f in asked if f in ("html", "pdf")]
     # The work-order packs are PDFs too: they come with the PDF report.
     return write_reports(audit, folder.root, meta=meta, economics=audit.economics,
-                         formats=reports + (["workorders"] if "pdf" in reports else []))
+                         formats=reports + (["workorders"] if "pdf" in reports else []),
+                         max_pages=workorder_pages)
 
+
+#: Most item pages in the work-order PDF packs, the most severe first (``--workorder-pages``
+#: raises or lowers it; every work order is in workorders.csv whatever it is).  A page takes
+#: 0.1 to 0.25 s of a core to lay out, so 1,000 pages were most of a large plant's default run.
+#: 250 is about a year of working days of one crew at one repair a day: the worst items, on
+#: paper for the crews; the planner takes the whole list from workorders.csv into the
+#: maintenance system (README, "Limits").
+MAX_WORKORDER_PAGES = 250
 
 #: ``--format`` name -> writer, in the order they run.
 WRITERS = {"csv": _csv, "json": _json, "xlsx": _xlsx, "html": _reports, "pdf": _reports}
@@ -75,12 +86,14 @@ def check_outputs(folder: OutputFolder, formats, extra=()) -> None:
         folder.check(name + "probe" if name.endswith("/") else name, create=False)
 
 
-def write_outputs(audit, folder: OutputFolder, formats, meta: dict, advance=lambda n: None) -> list[Path]:
-    """Run the writers of ``formats`` into ``folder``; the paths written.  ``advance(n)`` is
-    called with the number of formats each writer finished (for a progress bar)."""
+def write_outputs(audit, folder: OutputFolder, formats, meta: dict, advance=lambda n: None,
+                  **options) -> list[Path]:
+    """Run the writers of ``formats`` into ``folder``, each given ``options``; the paths
+    written.  ``advance(n)`` is called with the number of formats each writer finished (for a
+    progress bar)."""
     written = []
     for writer in dict.fromkeys(WRITERS[f] for f in formats):
-        written += writer(audit, folder, meta, formats)
+        written += writer(audit, folder, meta, formats, **options)
         advance(sum(WRITERS[f] is writer for f in formats))
     return written
 

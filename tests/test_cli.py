@@ -160,3 +160,20 @@ def test_run_reads_the_surroundings_column(tmp_path):
     assert touch.loc["COLD", "surroundings_temp [degC]"] == pytest.approx(-20.0)
     assert touch.loc["AIR", "surroundings_temp [degC]"] == pytest.approx(
         touch.loc["AIR", "air_temp [degC]"])
+
+
+def test_workorder_pages_sets_the_cap_of_the_packs(register, tmp_path, capsys):
+    out = tmp_path / "out"
+    assert main(["run", str(register), "--out", str(out), "--format", "pdf",
+                 "--workorder-pages", "0", "-q"]) == 0
+    orders = pd.read_csv(out / "workorders.csv", keep_default_na=False)
+    assert list(orders["tag"]) == ["L-4"]  # the bare line: the one item to repair
+    assert list(orders["work_order_file"]) == [""]  # listed, not printed
+    assert not list(out.glob("workorders/*.pdf"))
+    assert main(["run", str(register), "--out", str(out), "--format", "pdf", "-q"]) == 0
+    assert list(pd.read_csv(out / "workorders.csv")["work_order_file"]) == ["workorders/no-area.pdf"]
+    for bad in ("-1", "two"):
+        with pytest.raises(SystemExit) as stop:
+            main(["run", str(register), "--out", str(out), "--workorder-pages", bad])
+        assert stop.value.code == 2
+    assert "--workorder-pages" in capsys.readouterr().err

@@ -26,6 +26,7 @@ import pandas as pd
 
 from audit.io.writers import write_csv
 from audit.io.writers.place import OutputFolder, temporary_for
+from audit.outputs import MAX_WORKORDER_PAGES
 from audit.report.context import SEVERITY_RANK, conditions_text, fmt, location_columns, worst_first
 from audit.report.html import render
 from audit.report.pdf import EmbeddedOnlyFetcher, write_pdf
@@ -39,8 +40,6 @@ _UNSAFE_LABEL = re.compile(r"[^A-Za-z0-9 ._-]")  # the area in a CSS string of t
 
 #: Work orders above which the area packs are rendered in parallel processes.
 PARALLEL_FROM = 400
-#: Most item pages rendered into the PDF packs; every work order is in workorders.csv.
-MAX_WORKORDER_PAGES = 1000
 
 PLANNER_FIELDS = ("work order no.", "planned date", "crew / contractor", "permit no.",
                   "scaffold / access", "asbestos survey ref.", "isolation required",
