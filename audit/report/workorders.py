@@ -41,6 +41,11 @@ _UNSAFE_LABEL = re.compile(r"[^A-Za-z0-9 ._-]")  # the area in a CSS string of t
 #: Work orders above which the area packs are rendered in parallel processes.
 PARALLEL_FROM = 400
 
+#: Tags of the orders not printed that a pack's first page names, the most severe first; the
+#: rest are counted (a large plant has thousands: pages of tags took longer to lay out than
+#: the orders themselves, and workorders.csv lists every one).
+NOT_PRINTED_NAMED = 100
+
 PLANNER_FIELDS = ("work order no.", "planned date", "crew / contractor", "permit no.",
                   "scaffold / access", "asbestos survey ref.", "isolation required",
                   "completed by / date", "surface temperature measured after repair [°C]")
@@ -190,7 +195,8 @@ def write_workorders(audit, out_dir, *, caution: str, meta: dict,
                 "area": area or "(no area)", "area_label": _UNSAFE_LABEL.sub("_", area or "none"),
                 "orders": area_orders, "caution": caution, "meta": meta, "bill": _bill(area_orders),
                 "planner_fields": PLANNER_FIELDS, "min_severity": min_severity, "cap": summary,
-                "not_printed_here": [o["tag"] for o in plan.beyond.get(area, [])]}),
+                "not_printed_here": [o["tag"] for o in plan.beyond.get(area, [])[:NOT_PRINTED_NAMED]],
+                "not_printed_count": len(plan.beyond.get(area, []))}),
                 temporary_for(target), name))
         jobs = (os.cpu_count() or 1) if jobs is None else jobs
         workers = min(jobs, len(tasks)) if len(plan.orders) > PARALLEL_FROM else 1

@@ -12,6 +12,7 @@ from hypothesis import strategies as st
 from audit.cli import CAUTION
 from audit.report.context import SEVERITY_RANK, build_context
 from audit.report.html import render
+from audit.report import workorders
 from audit.report.workorders import (RESERVED_NAMES, build_orders, plan_packs, safe_filename,
                                      write_workorders)
 
@@ -127,6 +128,23 @@ def test_more_orders_than_the_cap_across_areas(demo_audit, meta, tmp_path):
         for area, count in summary["beyond_by_area"]:  # the orders beyond, by area
             assert f"{area} {count}" in text
     assert sum(count for _, count in summary["beyond_by_area"]) == len(orders) - cap
+
+
+def test_a_pack_names_its_most_severe_orders_not_printed_and_counts_the_rest(demo_audit, meta,
+                                                                             tmp_path, monkeypatch):
+    monkeypatch.setattr(workorders, "NOT_PRINTED_NAMED", 2)
+    plan = plan_packs(build_orders(demo_audit), 1)
+    (area, printed), = plan.printed.items()
+    left = plan.beyond[area]
+    assert len(left) > 2
+    write_workorders(demo_audit, tmp_path, caution=CAUTION, meta=meta, plan=plan)
+    pack = next((tmp_path / "workorders").iterdir())
+    text = " ".join(" ".join(page.extract_text().split()) for page in pypdf.PdfReader(pack).pages)
+    named = ", ".join(o["tag"] for o in left[:2])
+    assert (f"Not printed, this area ({len(left)}), the 2 most severe named: {named} and "
+            f"{len(left) - 2} more in workorders.csv") in text
+    third = re.escape(left[2]["tag"])  # counted, not named anywhere in the pack
+    assert not re.search(rf"(?<![\w-]){third}(?![\w-])", text)
 
 
 def test_the_report_cover_states_the_cap(demo_audit, meta):
