@@ -211,6 +211,13 @@ def _column_cells(series: pd.Series, strings: _SharedStrings):
         cells = np.array(['<c t="b"><v>0</v></c>', '<c t="b"><v>1</v></c>'], dtype=object)
         flags = series.to_numpy().astype(np.intp)
         return lambda start, stop: cells[flags[start:stop]].tolist()
+    values = series.to_numpy(object)
+    if pd.api.types.infer_dtype(values, skipna=True) in ("string", "empty"):
+        # text or missing only: each distinct text through the table once (factorize would
+        # merge True with 1 in a mixed column, hence only here)
+        codes, uniques = pd.factorize(values)
+        cells = np.array([strings.cell(u) for u in uniques.tolist()] + [_EMPTY], dtype=object)
+        return lambda start, stop: cells[codes[start:stop]].tolist()  # code -1: the last
     known: dict = {}
 
     def xml(value):
@@ -220,7 +227,6 @@ def _column_cells(series: pd.Series, strings: _SharedStrings):
             cell = known[key] = _value_xml(value, strings)
         return cell
 
-    values = series.to_numpy(object)
     return lambda start, stop: [xml(_cell(v)) for v in values[start:stop]]
 
 
