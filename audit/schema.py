@@ -62,6 +62,14 @@ def _item(name: str, dtype: str, meaning: str) -> tuple[ItemColumn, ...]:
     return (ItemColumn(name, dtype, meaning),)
 
 
+def _quantity(name: str, item: str, meaning: str, default_unit: str, si_unit: str, what: str,
+              bounds: tuple[float, float, bool], **more) -> RegisterColumn:
+    """A plain number-with-unit column, parsed from its entry alone."""
+    return RegisterColumn(name, _item(item, "float", meaning), parse="quantity",
+                          default_unit=default_unit, si_unit=si_unit, what=what, bounds=bounds,
+                          numeric=True, **more)
+
+
 _POSITIVE = (0.0, math.inf, True)
 _NOT_NEGATIVE = (0.0, math.inf, False)
 _PERCENT = (0.0, 100.0, False)
@@ -133,32 +141,19 @@ SCHEMA: tuple[RegisterColumn, ...] = (
     RegisterColumn("condition", _item("condition", "str", "`intact`, `damaged`, `wet`, "
                                       "`missing`"),
                    words=("intact", "damaged", "wet", "missing"), selectable=True),
-    RegisterColumn("ambient", _item("ambient_K", "float", "air temperature of the item (NaN: "
-                                    "the site's)"),
-                   parse="quantity", default_unit="degC", si_unit="kelvin",
-                   what="a temperature", bounds=_NOT_NEGATIVE, numeric=True),
-    RegisterColumn("wind", _item("wind_m_s", "float", "wind speed at the item (NaN: the "
-                                 "site's)"),
-                   parse="quantity", default_unit="m/s", si_unit="m/s", what="a wind speed",
-                   bounds=_NOT_NEGATIVE, numeric=True),
-    RegisterColumn("rh", _item("rh_pct", "float", "relative humidity at the item (NaN: the "
-                               "site's)"),
-                   parse="quantity", default_unit="percent", si_unit="percent",
-                   what="a relative humidity", bounds=_PERCENT, numeric=True),
-    RegisterColumn("surroundings", _item("surroundings_K", "float", "temperature of the "
-                                         "surfaces it radiates to (NaN: the site's)"),
-                   parse="quantity", default_unit="degC", si_unit="kelvin",
-                   what="a temperature", bounds=_NOT_NEGATIVE, numeric=True),
-    RegisterColumn("damaged", _item("damaged_pct", "float", "share of the length bare when "
-                                    "damaged"),
-                   parse="quantity", default_unit="percent", si_unit="percent",
-                   what="a share of the length", bounds=_PERCENT, numeric=True,
-                   selectable=True),
-    RegisterColumn("hours", _item("hours_h", "float", "operating hours per year (NaN if not "
-                                  "given)"),
-                   parse="quantity", default_unit="h", si_unit="h", what="hours per year",
-                   bounds=(0.0, 8784.0, False), numeric=True, selectable=True,
-                   calc_flag=False),
+    _quantity("ambient", "ambient_K", "air temperature of the item (NaN: the site's)",
+              "degC", "kelvin", "a temperature", _NOT_NEGATIVE),
+    _quantity("wind", "wind_m_s", "wind speed at the item (NaN: the site's)",
+              "m/s", "m/s", "a wind speed", _NOT_NEGATIVE),
+    _quantity("rh", "rh_pct", "relative humidity at the item (NaN: the site's)",
+              "percent", "percent", "a relative humidity", _PERCENT),
+    _quantity("surroundings", "surroundings_K", "temperature of the surfaces it radiates to "
+              "(NaN: the site's)", "degC", "kelvin", "a temperature", _NOT_NEGATIVE),
+    _quantity("damaged", "damaged_pct", "share of the length bare when damaged",
+              "percent", "percent", "a share of the length", _PERCENT, selectable=True),
+    _quantity("hours", "hours_h", "operating hours per year (NaN if not given)",
+              "h", "h", "hours per year", (0.0, 8784.0, False), selectable=True,
+              calc_flag=False),
     RegisterColumn("accessible", _item("accessible", "bool", "within the personnel reach "
                                        "zone"), parse="yes_no", selectable=True),
     RegisterColumn("valves", _item("valves", "int", "uninsulated valves on the run"),
