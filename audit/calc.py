@@ -29,14 +29,12 @@ from audit.errors import LagauditError
 from audit.io.readers import read_rows
 from audit.pipeline import audit_table
 from audit.rules import Rules, load_rules
+from audit.schema import BY_NAME, SCHEMA
 from audit.thermal import ZERO_CELSIUS, resolve_names
 from audit.units import ureg
 
-#: Flag -> register column, in the order of the one-row register.
-FLAG_COLUMNS = ("shape", "nps", "od", "length", "area", "heads", "orientation", "temp", "layers",
-                "jacket", "emissivity", "location", "ambient", "wind", "rh", "surroundings",
-                "accessible",
-                "condition", "damaged", "service", "material", "valves", "flanges")
+#: Flag -> register column, in the order of the one-row register: the schema's calc flags.
+FLAG_COLUMNS = tuple(c.name for c in SCHEMA if c.calc_flag)
 
 #: Display unit of each quantity kind: (SI, US customary), as pint units.
 DISPLAY_UNITS = {
@@ -139,6 +137,10 @@ def add_calc_arguments(parser: argparse.ArgumentParser) -> None:
     air.add_argument("--surroundings",
                      help="temperature of the surfaces the item radiates to (degC if no unit; "
                           "default: the site's, else the air temperature)")
+    declared = {action.dest for action in parser._actions}
+    for column in FLAG_COLUMNS:  # a schema column without a hand-written flag gets a plain one
+        if column not in declared:
+            what.add_argument(f"--{column}", help=_flag_help(BY_NAME[column]))
     parser.add_argument("--rules", action="append", default=[], metavar="DIR",
                         help="layer this folder's *.toml over the shipped rules (repeatable)")
     parser.add_argument("--units", choices=("si", "us"), default="si",
@@ -147,6 +149,13 @@ def add_calc_arguments(parser: argparse.ArgumentParser) -> None:
                         help="outer-surface model: correlations (default) or iso12241-simplified")
     parser.add_argument("--explain", action="store_true",
                         help="also print the methods and references the figures come from")
+
+
+def _flag_help(column) -> str:
+    """Help of a flag declared only in the schema: its meaning, and its unit if it has one."""
+    unit = f" ({column.default_unit} if no unit)" if column.default_unit else ""
+    meaning = column.item[0].meaning if column.item else column.name
+    return f"{meaning}{unit}".replace("%", "%%")
 
 
 def calc_item(*, rules: Rules | None = None, rules_dirs=(), surface_model: str = "correlations",

@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from audit.io.readers.table import ITEM_COLUMNS
+from audit.schema import ITEM_COLUMNS
 from audit.thermal import ZERO_CELSIUS
 
 #: Leading columns fixed by the contract, in order.

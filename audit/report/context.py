@@ -16,7 +16,7 @@ from markupsafe import Markup
 
 from audit import methods
 from audit.digests import rules_digest, sha256_file
-from audit.io.readers.table import ITEM_COLUMNS
+from audit.schema import ITEM_COLUMNS
 from audit.report import charts
 from audit.rules import SEVERITIES
 

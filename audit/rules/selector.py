@@ -33,31 +33,12 @@ import numpy as np
 import pandas as pd
 
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
+from audit.schema import SCHEMA
 from audit.units import UnitParseError, parse_quantity, parse_temperature
 
-#: column -> (item-table column, kind, default unit, SI unit)
-COLUMNS = {
-    "tag": ("tag", "text", None, None),
-    "shape": ("shape", "text", None, None),
-    "service": ("service", "text", None, None),
-    "material": ("material", "text", None, None),
-    "condition": ("condition", "text", None, None),
-    "area_code": ("area_code", "text", None, None),
-    "location": ("location", "text", None, None),
-    "jacket": ("jacket", "text", None, None),
-    "heads": ("heads", "text", None, None),
-    "orientation": ("orientation", "text", None, None),
-    "accessible": ("accessible", "bool", None, None),
-    "temp": ("temp_K", "temperature", "degC", "kelvin"),
-    "od": ("od_m", "number", "mm", "m"),
-    "nps": ("od_m", "number", "inch", "m"),  # compared by outside diameter: see _nps_value
-    "length": ("length_m", "number", "m", "m"),
-    "area": ("area_m2", "number", "m**2", "m**2"),
-    "damaged": ("damaged_pct", "number", "percent", "percent"),
-    "valves": ("valves", "number", "dimensionless", "dimensionless"),
-    "flanges": ("flanges", "number", "dimensionless", "dimensionless"),
-    "hours": ("hours_h", "number", "hour", "hour"),
-}
+#: column -> (item-table column, kind, default unit, SI unit): the schema's selectable columns
+COLUMNS = {c.name: (c.select_by or c.item[0].name, c.select_kind, c.default_unit, c.si_unit)
+           for c in SCHEMA if c.selectable}
 _TOKEN = re.compile(r"""\s*(?:(?P<op><=|>=|==|!=|<|>)|(?P<punct>[()\[\],])|'(?P<sq>[^']*)'|"(?P<dq>[^"]*)"|(?P<word>[^\s()\[\],<>=!'"]+))""")
 MAX_DEPTH = 32
 MAX_COMPARISONS = 256
@@ -298,7 +279,7 @@ def _convert(column, text, parser):
             return parse_temperature(text, default_unit)
         if column == "nps":
             return _nps_value(text)
-        return parse_quantity(text, default_unit, si_unit)
+        return parse_quantity(text, default_unit or "dimensionless", si_unit or "dimensionless")
     except (UnitParseError, ValueError) as exc:
         parser.pos -= 1
         parser.fail(f"a number with an optional unit for {column!r} ({exc})")

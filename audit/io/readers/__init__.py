@@ -31,7 +31,8 @@ from audit.errors import RegisterError
 from audit.io.readers.files import read_raw
 from audit.io.readers.headers import Lookup, load_aliases, merge_aliases
 from audit.io.readers.sheet import RawSheet, finish
-from audit.io.readers.table import ITEM_COLUMNS, build_sheet
+from audit.io.readers.table import build_sheet
+from audit.schema import ITEM_COLUMNS
 
 __all__ = ["read_register", "read_rows", "load_aliases", "merge_aliases"]
 

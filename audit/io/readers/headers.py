@@ -16,15 +16,11 @@ import pint
 
 from audit.errors import LagauditError, RuleError
 from audit.rules.files import read_toml
+from audit.schema import REGISTER_COLUMNS
 from audit.shipped import shipped_dir
 from audit.units import _normalise, _unit
 
-COLUMNS: tuple[str, ...] = (
-    "tag", "shape", "nps", "od", "length", "area", "heads", "orientation", "temp", "layers",
-    "insulation", "thickness", "jacket", "emissivity", "location", "ambient", "wind", "rh",
-    "surroundings", "accessible", "condition", "damaged", "service", "material", "area_code", "valves",
-    "flanges", "hours",
-)
+COLUMNS = REGISTER_COLUMNS  # the register columns, declared in audit/schema.py
 DN_UNIT = "DN"  # nominal diameter: not a pint unit, a size designation
 
 _IGNORED = re.compile(r"[\s_\-.]+")

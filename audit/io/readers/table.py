@@ -19,15 +19,14 @@ from audit.errors import RegisterError
 from audit.io.readers import cells
 from audit.io.readers.column import Column, RowNotes
 from audit.io.readers.sheet import MAX_CELL_CHARS, RawSheet
-from audit.io.readers.headers import COLUMNS, DN_UNIT, HeaderMap, Lookup, match_headers
+from audit.io.readers.headers import DN_UNIT, HeaderMap, Lookup, match_headers
 from audit.io.readers.insulation import insulation_layers
 from audit.pipe_sizes import OD_MM_BY_NPS
+from audit.schema import BY_NAME, ITEM_COLUMNS, REGISTER_COLUMNS, SCHEMA, STRING_COLUMNS
 from audit.units import UnitParseError, _describe, parse_quantity
 
-SHAPES = ("pipe", "vertical-vessel", "horizontal-vessel", "sphere", "flat")
-HEADS = ("hemispherical", "ellipsoidal", "flat", "none")
-ORIENTATIONS = ("horizontal", "vertical", "up", "down")
-CONDITIONS = ("intact", "damaged", "wet", "missing")
+SHAPES, HEADS = BY_NAME["shape"].words, BY_NAME["heads"].words
+ORIENTATIONS, CONDITIONS = BY_NAME["orientation"].words, BY_NAME["condition"].words
 _SHAPE_SYNONYMS = (("piping", "pipe"), ("line", "pipe"), ("vessel-vertical", "vertical-vessel"),
                    ("vessel-horizontal", "horizontal-vessel"), ("plate", "flat"))
 _HEADS_SYNONYMS = (("hemispheric", "hemispherical"), ("hemi", "hemispherical"),
@@ -39,24 +38,13 @@ VESSELS = ("vertical-vessel", "horizontal-vessel")
 SMALLEST_OD_M = OD_MM_BY_NPS["1/8"] / 1000.0
 SIZED = ("pipe", *VESSELS, "sphere")
 
-# column -> (default unit, target unit, what, low, high, low excluded)
-QUANTITIES = {
-    "od": ("mm", "m", "a diameter", 0.0, math.inf, True),
-    "length": ("m", "m", "a length", 0.0, math.inf, True),
-    "area": ("m**2", "m**2", "an area", 0.0, math.inf, True),
-    "emissivity": ("dimensionless", "dimensionless", "an emissivity", 0.0, 1.0, True),
-    "ambient": ("degC", "kelvin", "a temperature", 0.0, math.inf, False),
-    "surroundings": ("degC", "kelvin", "a temperature", 0.0, math.inf, False),
-    "wind": ("m/s", "m/s", "a wind speed", 0.0, math.inf, False),
-    "rh": ("percent", "percent", "a relative humidity", 0.0, 100.0, False),
-    "damaged": ("percent", "percent", "a share of the length", 0.0, 100.0, False),
-    "hours": ("h", "h", "hours per year", 0.0, 8784.0, False),
-}
+# column -> (default unit, target unit, what, low, high, low excluded): the schema's quantities
+QUANTITIES = {c.name: (c.default_unit, c.si_unit, c.what, *c.bounds) for c in SCHEMA if c.what}
 # Columns whose header unit is checked against this target, and their default unit.
-UNIT_TARGETS = {**{c: (q[0], q[1]) for c, q in QUANTITIES.items()},
-                "temp": ("degC", "kelvin"), "thickness": ("mm", "m"), "layers": ("mm", "m")}
-NUMERIC = frozenset({*QUANTITIES, "nps", "temp", "thickness", "layers", "jacket", "valves",
-                     "flanges"})
+UNIT_TARGETS = {c.name: (c.default_unit, c.si_unit) for c in SCHEMA if c.si_unit}
+NUMERIC = frozenset(c.name for c in SCHEMA if c.numeric)
+# The columns parsed from the schema alone, in its order (the order of their reasons).
+PLAIN = tuple(c.name for c in SCHEMA if c.parse != "special")
 _PER_YEAR = ("yr", "year", "a", "annum")
 
 
@@ -71,17 +59,6 @@ def _per_year_stripped(text: str) -> str:
             if head.endswith("/"):
                 return head[:-1].rstrip()
     return text
-
-ITEM_COLUMNS = (
-    "tag", "source", "status", "reason", "warnings", "shape", "od_m", "nps", "length_m",
-    "area_m2", "heads", "orientation", "temp_K", "temp_is_ambient", "temp_max_K",
-    "layer_materials", "layer_thicknesses_m", "jacket", "emissivity", "location", "ambient_K",
-    "wind_m_s", "rh_pct", "surroundings_K", "accessible", "condition", "damaged_pct", "service", "material",
-    "area_code", "valves", "flanges", "hours_h",
-)
-STRING_COLUMNS = ("tag", "source", "status", "reason", "warnings", "shape", "nps", "heads",
-                  "orientation", "jacket", "location", "condition", "service", "material",
-                  "area_code")
 
 
 @dataclass
@@ -139,7 +116,7 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     col = {c: Column(c, raw.stripped[header_map.columns[c]] if c in header_map.columns else None,
                       n,
                       header_map.units.get(c), raw.decimal_comma and c in NUMERIC)
-           for c in COLUMNS}
+           for c in REGISTER_COLUMNS}
     notes = RowNotes(n)
     blank = raw.blank
     out: dict[str, object] = {}
@@ -167,22 +144,10 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     out["condition"] = condition
     out["layer_materials"], out["layer_thicknesses_m"] = insulation_layers(col, condition, notes)
     _surface(col, notes, out, info)
-    for c, key in (("ambient", "ambient_K"), ("wind", "wind_m_s"), ("rh", "rh_pct"),
-                   ("surroundings", "surroundings_K"), ("damaged", "damaged_pct"),
-                   ("hours", "hours_h")):
-        out[key] = _quantity(col[c], notes, everyone, info)
+    for c in PLAIN:
+        out[BY_NAME[c].item[0].name] = _plain(col[c], BY_NAME[c].parse, notes, info)
     notes.warn((condition == "damaged") & ~col["damaged"].given,
                "damaged: empty for a damaged item; share of the length bare not known")
-    for c in ("location", "service", "material"):
-        out[c] = col[c].spread(col[c].parse(cells.name, empty=""))
-    out["area_code"] = col["area_code"].uniques[col["area_code"].codes]
-    answers = col["accessible"].parse(cells.yes_no, empty=(False, None))
-    out["accessible"] = col["accessible"].spread(answers, 0, dtype=bool)
-    notes.reject(everyone, col["accessible"].messages([a[1] for a in answers]))
-    for c in ("valves", "flanges"):
-        answers = col[c].parse(cells.count, empty=(0, None))
-        out[c] = col[c].spread(answers, 0, dtype=np.int64)
-        notes.reject(everyone, col[c].messages([a[1] for a in answers]))
 
     # A blank row in the middle of a sheet stays an (empty) input row: rejected, one reason.
     notes.reason[blank] = "row is blank"
@@ -204,6 +169,22 @@ def _words(mask: np.ndarray, yes: str, no: str) -> np.ndarray:
     """``yes`` where ``mask``, else ``no``, as an object array sharing the two strings (a
     fixed-width text array would become one new string per row of a million-row register)."""
     return np.array([no, yes], dtype=object)[mask.astype(np.intp)]
+
+
+def _plain(column: Column, parse: str, notes: RowNotes, info: SheetInfo) -> np.ndarray:
+    """A column parsed from its schema entry alone; a bad cell rejects its row."""
+    everyone = np.ones(len(column.codes), dtype=bool)
+    if parse == "quantity":
+        return _quantity(column, notes, everyone, info)
+    if parse == "name":
+        return column.spread(column.parse(cells.name, empty=""))
+    if parse == "text":
+        return column.uniques[column.codes]
+    parser, empty, dtype = {"yes_no": (cells.yes_no, (False, None), bool),
+                            "count": (cells.count, (0, None), np.int64)}[parse]
+    answers = column.parse(parser, empty=empty)
+    notes.reject(everyone, column.messages([a[1] for a in answers]))
+    return column.spread(answers, 0, dtype=dtype)
 
 
 def _choice(column: Column, allowed, synonyms, default, notes: RowNotes, applies) -> np.ndarray:
