@@ -169,7 +169,7 @@ def test_an_older_schema_is_upgraded_step_by_step(db, monkeypatch):
 
 def test_a_run_that_fails_before_its_outputs_records_nothing(db, tmp_path, monkeypatch):
     register = _register(tmp_path, "s1.csv", SURVEY_1)
-    monkeypatch.setattr("audit.cli.write_outputs", lambda *a: (_ for _ in ()).throw(OSError("disk full")))
+    monkeypatch.setattr("audit.cli.write_outputs", lambda *a, **k: (_ for _ in ()).throw(OSError("disk full")))
     with pytest.raises(OSError, match="disk full"):
         main(["run", str(register), "--history", db, "--out", str(tmp_path / "o"), "-q"])
     assert History.open(db).audits().empty
