@@ -84,19 +84,33 @@ def quote(text: str) -> str:
 def _segments(frame: pd.DataFrame, text=None) -> list:
     """Functions ``(start, stop) -> list of texts``, one per run of float64 columns (the texts
     of several cells, comma-joined) or per other column, in column order."""
+    return column_segments(frame, lambda j, series: series.to_numpy() if _is_float64(series) else None,
+                           _float_block, lambda j, series: _column_texts(series, text))
+
+
+def column_segments(frame: pd.DataFrame, float_values, float_block, other) -> list:
+    """Functions ``(start, stop) -> list of texts`` in column order: one per run of adjacent
+    columns that ``float_values(j, series)`` turns into something (not None), made by
+    ``float_block(list of those)``, and one per other column, ``other(j, series)``.  The
+    writers of CSV, JSON and XLSX format runs of float columns as whole arrays this way."""
     segments, run = [], []
     for j in range(frame.shape[1]):
         series = frame.iloc[:, j]
-        if isinstance(series.dtype, np.dtype) and series.dtype == np.float64:
-            run.append(series.to_numpy())
+        values = float_values(j, series)
+        if values is not None:
+            run.append(values)
             continue
         if run:
-            segments.append(_float_block(run))
+            segments.append(float_block(run))
             run = []
-        segments.append(_column_texts(series, text))
+        segments.append(other(j, series))
     if run:
-        segments.append(_float_block(run))
+        segments.append(float_block(run))
     return segments
+
+
+def _is_float64(series: pd.Series) -> bool:
+    return isinstance(series.dtype, np.dtype) and series.dtype == np.float64
 
 
 def _float_block(columns: list[np.ndarray]):

@@ -17,7 +17,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from audit.io.writers.csv_fast import WIDTH, float_into
+from audit.io.writers.csv_fast import WIDTH, column_segments, float_into
 
 #: Rows encoded and written at once: bounds the memory held by the texts.
 CHUNK_ROWS = 20_000
@@ -50,19 +50,11 @@ def write_records_json(frame: pd.DataFrame, path: Path, meta: dict, plain) -> Pa
 def _segments(frame: pd.DataFrame, keys: list[str], plain) -> list:
     """Functions ``(start, stop) -> list of texts`` (a record's fields of one column, or of a
     run of float64 columns), in column order."""
-    segments, run = [], []
-    for j in range(frame.shape[1]):
-        series = frame.iloc[:, j]
-        if isinstance(series.dtype, np.dtype) and series.dtype == np.float64:
-            run.append((keys[j], series.to_numpy()))
-            continue
-        if run:
-            segments.append(_float_block(run))
-            run = []
-        segments.append(_column_fields(series, keys[j], plain))
-    if run:
-        segments.append(_float_block(run))
-    return segments
+    def floats(j, series):
+        is_float = isinstance(series.dtype, np.dtype) and series.dtype == np.float64
+        return (keys[j], series.to_numpy()) if is_float else None
+    return column_segments(frame, floats, _float_block,
+                           lambda j, series: _column_fields(series, keys[j], plain))
 
 
 def _float_block(run: list[tuple[str, np.ndarray]]):

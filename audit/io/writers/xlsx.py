@@ -22,7 +22,7 @@ import numpy as np
 import pandas as pd
 
 from audit.io.writers import xlsx_package as package
-from audit.io.writers.csv_fast import WIDTH, float_into
+from audit.io.writers.csv_fast import WIDTH, column_segments, float_into
 from audit.io.writers.safety import neutralise_frame
 
 #: Widest column set by the writer [characters]; longer text stays whole in the cell.
@@ -153,21 +153,12 @@ def _write_sheet(archive, number: int, frame: pd.DataFrame, strings: _SharedStri
 
 
 def _segments(frame: pd.DataFrame, strings: _SharedStrings) -> list:
-    """Functions ``(start, stop) -> list of texts``, one per run of float columns (the XML of
+    """Functions ``(start, stop) -> list of texts``, one per run of number columns (the XML of
     several cells, joined) or per other column, in column order."""
-    segments, run = [], []
-    for j in range(frame.shape[1]):
-        series = frame.iloc[:, j]
-        if _is_number(series):
-            run.append(series.to_numpy(dtype=np.float64, na_value=np.nan))
-            continue
-        if run:
-            segments.append(_number_block(run))
-            run = []
-        segments.append(_column_cells(series, strings))
-    if run:
-        segments.append(_number_block(run))
-    return segments
+    return column_segments(
+        frame, lambda j, series: series.to_numpy(dtype=np.float64, na_value=np.nan)
+        if _is_number(series) else None,
+        _number_block, lambda j, series: _column_cells(series, strings))
 
 
 def _is_number(series: pd.Series) -> bool:
