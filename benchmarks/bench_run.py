@@ -70,7 +70,7 @@ def run_size(items: int, folder: Path, *, end_to_end: bool, reports: bool) -> No
     from audit.checks import check_kinds, run_checks, summarise_per_row, validate_checks
     from audit.checks.base import CheckContext
     from audit.checks.remedy import fill_remedies
-    from audit.economics import compute_economics, load_economic_rules
+    from audit.economics import compute_economics, economic_rules
     from audit.io.readers import read_register
     from audit.io.writers import write_csv, write_json, write_xlsx
     from audit.pipeline import Audit
@@ -91,7 +91,7 @@ def run_size(items: int, folder: Path, *, end_to_end: bool, reports: bool) -> No
     findings = timed("checks (all scenarios)", run_checks, context, params)
     findings = timed("remedies", fill_remedies, context, findings, check_kinds(), params)
     economics = timed("economics", compute_economics, context, findings, rules,
-                      economic_rules=load_economic_rules(()))
+                      economic_rules=economic_rules(rules))
     names, worst = summarise_per_row(findings, len(table))
     results = timed("results table", build_results, table, states, findings=names,
                     severity=worst, extra=economics.per_row)
@@ -103,7 +103,7 @@ def run_size(items: int, folder: Path, *, end_to_end: bool, reports: bool) -> No
                                              "findings": findings.drop(columns=["row"])},
           out / "results.xlsx")
     if reports:
-        audit = Audit(rules, table, results, findings, economics)
+        audit = Audit(rules, table, results, findings, economics, states)
         meta = {"tool": "lagaudit benchmark", "run_at": "", "registers": [], "surface_model": ""}
         timed("render report.html", write_reports, audit, out, meta=meta, formats=["html"],
               economics=economics)
