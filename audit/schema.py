@@ -5,7 +5,7 @@ Header matching (:mod:`audit.io.readers.headers`), the reader's parsing of plain
 ``calc`` flags (:mod:`audit.calc`) and the item table's column list all read :data:`SCHEMA`.
 Adding a plain column (a name, a number with a unit, a count, yes/no, free text) is one entry
 here; a column that needs its own parsing also needs a few lines in the reader (see
-DEVELOPERS.md, "Adding things").  (The rule files' schema is another: audit/rules/schema.py.)
+DEVELOPERS.md, "Adding things").  (The rule files' keys are checked by audit/rules/keys.py.)
 
 The order of :data:`SCHEMA` is the order of the item table's columns, and, for the plain
 columns, the order in which the reader parses them, hence the order of a row's reasons.

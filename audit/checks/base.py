@@ -21,7 +21,7 @@ from audit.errors import Problem, RuleError
 from audit.repeats import per_distinct
 from audit.rules import Check, Rules
 from audit.rules.loader import CHECK_KEYS
-from audit.rules.schema import convert_keys
+from audit.rules.keys import convert_keys
 from audit.thermal import (ZERO_CELSIUS, PreparedItems, conductivity_tables, has_layers,
                            prepare_items, thermal_states)
 

@@ -6,11 +6,11 @@ in name order, a later value winning.  :func:`economic_rules` validates and buil
 :func:`audit.rules.load_rules` layered (``Rules.economics``); :func:`load_economic_rules` does
 the same from rule folders, reading only the ``[economics]`` tables.
 
-Layering is the one rule of every section (:mod:`audit.rules.schema`): a key of
+Layering is the one rule of every section (:mod:`audit.rules.keys`): a key of
 ``[economics]`` (``currency``, ``hours``, ...) replaces the earlier value; a sub-table
 (``[economics.heat]``, ``[economics.cold]``, ``[economics.finance]``, ``[economics.repair]``)
 replaces the earlier sub-table whole, as a later ``[material.NAME]`` does.  Every key is
-checked by the one validator, ``audit.rules.schema.convert_keys``.
+checked by the one validator, ``audit.rules.keys.convert_keys``.
 
 The grammar is documented at the top of the shipped ``rules/economics/economics.toml``.
 Every problem raises :class:`~audit.errors.RuleError` naming the file and the key.
@@ -27,7 +27,7 @@ from audit.pipe_sizes import NPS_BY_VALUE
 from audit.rules import Rules, shipped_rules_dir
 from audit.rules.converters import list_of, quantity, text
 from audit.rules.loader import ECONOMICS, layered_section, read_rule_file, rule_files
-from audit.rules.schema import convert_keys
+from audit.rules.keys import convert_keys
 from audit.units import parse_quantity
 
 SECTION = SUBFOLDER = ECONOMICS

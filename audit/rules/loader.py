@@ -23,7 +23,7 @@ from audit.rules.files import read_toml
 from audit.rules.converters import boolean, choice, list_of, quantity, rows, temperature, text
 from audit.rules.model import (SEVERITIES, Check, Fitting, Jacket, Material, Metal, Rules, Site,
                                Spec)
-from audit.rules.schema import convert_keys
+from audit.rules.keys import convert_keys
 from audit.rules.selector import SelectorError, parse_selector
 from audit.shipped import shipped_dir
 from audit.units import UnitParseError

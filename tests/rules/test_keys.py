@@ -1,4 +1,4 @@
-"""The one validator of every rule section (audit/rules/schema.py)."""
+"""The one validator of every rule section (audit/rules/keys.py)."""
 
 import pytest
 
@@ -6,7 +6,7 @@ from audit.economics.rules import load_economic_rules
 from audit.errors import RuleError
 from audit.rules import load_rules
 from audit.rules.converters import quantity, text
-from audit.rules.schema import convert_keys
+from audit.rules.keys import convert_keys
 
 KEYS = {"thickness": (quantity("mm", "m", low=0.0), True), "source": (text, True),
         "note": (text, False)}
