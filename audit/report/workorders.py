@@ -248,8 +248,11 @@ def _place(folder: OutputFolder, task) -> Path:
 
 def _die_with_parent() -> None:
     """In a worker: be sent SIGTERM when the parent process dies (Linux ``prctl``), and let
-    SIGINT to the whole group be the parent's to handle."""
+    SIGINT to the whole group be the parent's to handle.  SIGTERM gets its default action back:
+    a forked worker inherits the command line's handler, which would raise in the worker (and
+    print its traceback) when the pool is terminated at its end."""
     signal.signal(signal.SIGINT, signal.SIG_IGN)
+    signal.signal(signal.SIGTERM, signal.SIG_DFL)
     try:
         libc = ctypes.CDLL(None, use_errno=True)
         libc.prctl(1, signal.SIGTERM)  # PR_SET_PDEATHSIG
