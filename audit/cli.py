@@ -166,8 +166,8 @@ def _audit_options(parser):
                         help="record this audit in DB (SQLite file, or postgresql:// URL) and "
                              "compare it with the plant's last audit there (writes closed.csv)")
     parser.add_argument("--plant", metavar="NAME",
-                        help="the plant's name in the history (default: the rules' "
-                             "[defaults] plant)")
+                        help="the plant's name in the history, with --history (default: the "
+                             "rules' [defaults] plant)")
     talk = parser.add_mutually_exclusive_group()
     talk.add_argument("-q", "--quiet", action="store_true",
                       help="print nothing but errors (the exit code still tells)")
@@ -223,6 +223,9 @@ def _demo(args) -> int:
 
 def _audit_and_write(registers, args) -> int:
     formats = _formats(args.format)
+    if args.plant is not None and not args.history:  # it would name nothing: say so, do not drop it
+        raise LagauditError("--plant names the plant in the audit history; it needs --history DB",
+                            value=args.plant, expected="--history DB beside --plant, or no --plant")
     say = (lambda *_: None) if args.quiet else (lambda text: print(printable(text)))
     history = open_history(args.history)  # a database that cannot be used stops the run here
     # A stream that is not a terminal draws no bar.

@@ -177,3 +177,11 @@ def test_workorder_pages_sets_the_cap_of_the_packs(register, tmp_path, capsys):
             main(["run", str(register), "--out", str(out), "--workorder-pages", bad])
         assert stop.value.code == 2
     assert "--workorder-pages" in capsys.readouterr().err
+
+
+def test_plant_without_history_is_a_usage_error(tmp_path, capsys):
+    # --plant only names the plant an audit is recorded under: alone it would be dropped silently.
+    code = main(["demo", "--plant", "North works", "--out", str(tmp_path / "out"), "--format", "csv"])
+    assert code == 2
+    assert "--history" in capsys.readouterr().err
+    assert not (tmp_path / "out").exists()
