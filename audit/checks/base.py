@@ -29,7 +29,8 @@ from audit.thermal import (ZERO_CELSIUS, PreparedItems, conductivity_tables, has
 FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value", "limit", "unit",
                    "site", "air_temp [degC]", "wind [m/s]", "rh [%]", "surroundings_temp [degC]",
                    "limit_source", "message",
-                   "remedy", "fixable_by_insulation", "remedy_thickness [mm]", "remedy_material"]
+                   "remedy", "remedy_action", "fixable_by_insulation", "remedy_thickness [mm]",
+                   "remedy_material"]
 
 
 @dataclass
@@ -166,6 +167,7 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
         "limit_source": check.source,
         "message": spread(message),
         "remedy": spread(remedy),
+        "remedy_action": "",
         "fixable_by_insulation": spread(fixable, bool),
         "remedy_thickness [mm]": np.nan,
         "remedy_material": "",
