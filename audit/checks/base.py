@@ -192,6 +192,15 @@ def validated_params(check: Check, kind: CheckKind) -> dict:
     return values
 
 
+def cold_service(context: CheckContext) -> np.ndarray:
+    """Per row: in cold service (declared ``cold``, or its process below the air at its own
+    conditions), where a cover or a layer needs a vapour seal."""
+    states = context.states("")
+    with np.errstate(invalid="ignore"):
+        return ((states["process_temp_K"].to_numpy(float) < states["air_temp_K"].to_numpy(float))
+                | (context.table["service"].fillna("").to_numpy(object) == "cold"))
+
+
 def bare_parts(table: pd.DataFrame) -> np.ndarray:
     """Per row of the item table: its bare metal parts in words ("" where it has none; which
     rows have some is :func:`audit.thermal.table_surfaces`' rule, and these words follow it)."""

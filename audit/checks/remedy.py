@@ -37,7 +37,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckContext
+from audit.checks.base import CheckContext, cold_service
 from audit.checks.below_spec import requirement
 from audit.repeats import map_values, per_distinct
 from audit.thermal import has_layers
@@ -139,15 +139,13 @@ class _Facts:
             lambda m, t: " + ".join(f"{a} {b * 1000:.0f} mm" for a, b in zip(m, t))
             if isinstance(m, tuple) and m else "", table["layer_materials"].to_numpy(object),
             table["layer_thicknesses_m"].to_numpy(object))
-        # The specification as below-spec judges it (its site), and the cold side as it does.
+        # The specification as below-spec judges it (under its site).
         spec_check = next((c for c in rules.checks.values() if c.enabled and c.kind == "below-spec"),
                           None)
         states = context.states(spec_check.site if spec_check is not None else "")
-        process = states["process_temp_K"].to_numpy(float)
-        air = states["air_temp_K"].to_numpy(float)
-        self.need = requirement(table, rules, process, air)
-        with np.errstate(invalid="ignore"):
-            self.cold = (process < air) | (table["service"].fillna("").to_numpy(object) == "cold")
+        self.need = requirement(table, rules, states["process_temp_K"].to_numpy(float),
+                                states["air_temp_K"].to_numpy(float))
+        self.cold = cold_service(context)
         self.material = np.asarray(self.need.material, dtype=object).copy()
         outermost = per_distinct(lambda x: x[-1] if isinstance(x, tuple) and x else "",
                                  table["layer_materials"].to_numpy(object))

@@ -13,7 +13,7 @@ from audit.cli import CAUTION
 from audit.report.context import SEVERITY_RANK, build_context
 from audit.report.html import render
 from audit.report import workorders
-from audit.report.workorders import (RESERVED_NAMES, build_orders, plan_packs, safe_filename,
+from audit.report.workorders import (INSULATE, RESERVED_NAMES, build_orders, plan_packs, safe_filename,
                                      write_workorders)
 
 SAFE = re.compile(r"^[A-Za-z0-9._-]+$")
@@ -71,7 +71,7 @@ def test_packs_of_a_hostile_register(hostile_audit, meta, tmp_path):
 def test_quantities_are_counted_from_the_register(hostile_audit):
     orders = {o["tag"]: o for o in build_orders(hostile_audit)}
     bare = orders["<script>alert(1)</script>"]  # NPS 4, 10 m, bare, 2 flanges in the register
-    insulate = [q for q in bare["quantities"] if q["work"].startswith("insulate (")]
+    insulate = [q for q in bare["quantities"] if q["work"] == INSULATE]
     assert len(insulate) == 1 and insulate[0]["quantity"] == 10.0 and insulate[0]["unit"] == "m"
     assert insulate[0]["size"] == "NPS 4" and insulate[0]["thickness"] != ""
     covers = {q["work"]: q["quantity"] for q in bare["quantities"] if q["unit"] == "pcs"}
