@@ -1,35 +1,36 @@
-"""Remedies that fix the cause, and never thin the insulation.
+"""Remedies of the findings that insulation can fix: fix the cause first, never thin the insulation.
 
-For each finding that insulation can fix (``fixable_by_insulation``), the remedy is found in
-this order, for the whole register at once, one check at a time:
+For every item with such a finding, in this order:
 
-1. **Bare parts.**  An insulated item with uninsulated fittings (pipes), a damaged share, wet
-   insulation or insulation missing is tried as installed, made good: its own listed layers,
-   intact and dry, its fittings covered (``PreparedItems.repaired``).  When the check passes
-   on that trial, the bare parts are the cause, and the remedy names them: removable covers
-   on the fittings (vapour-sealed on cold service), the damaged share reinstated to the
-   installed build-up, wet insulation replaced like for like, missing insulation reinstated.
-   No thickness is ordered.
-2. **The build-up itself fails** (or the item has none): the insulation is brought to the
-   smallest standard thickness of the remedy material that clears *that* check (and the
-   checks every remedy must pass, ``CheckKind.remedy_must_pass``: ``layer-overheat``), never
-   thinner than the installed total nor than the governing specification accepts (the
-   ``below-spec`` rule: its requirement less its tolerance).  Each check is searched on its
-   own, so a check that no standard thickness clears ("engineer a solution") does not spill
-   into the remedy of another check on the same item.  The search bisects the standard list
-   from that floor: about log2(n) rounds, then one round at the thickest standard thickness
-   for the items that end there.  (Below the critical radius heat loss can rise with
-   thickness; the heat-loss remedy is then the smallest thickness at which bisection saw it
-   pass.)
+1. **The repair** (:func:`audit.checks.repairs.plan_repairs`, the same work the repair costs
+   price): bare valves and flanges get removable covers (vapour-sealed on cold service), a
+   damaged share is reinstated to the installed build-up, wet or missing insulation is put back
+   as listed, and an item below its specification is insulated to it.  The checks the item
+   failed are taken again on the repaired item (a trial, ``PreparedItems.repaired``); if they
+   all pass, the repair is the remedy.
+2. **More insulation**, only where the repair does not clear them: the insulation is replaced,
+   in a trial (``PreparedItems.reinsulated``), by one intact layer of the remedy material with
+   the fittings covered, and the smallest standard thickness that passes is found by bisection
+   over the standard list, starting at the thickest of what is installed and what the
+   specification asks: a remedy is never thinner than either.  Thicker insulation only helps
+   the fixable checks, so bisection holds (below the critical radius of insulation, heat loss
+   can rise with thickness; on such small lines the heat-loss check is the one exception, and
+   the remedy found is the smallest thickness at which bisection saw it pass).  Each round
+   re-evaluates only the checks each item failed, plus the checks every remedy must pass
+   (``CheckKind.remedy_must_pass``: the remedy material must stand the temperature).
+3. Where no standard thickness clears all of an item's failed checks together, each of them is
+   searched on its own, so one check's impossibility does not spill into the remedy of another
+   that a standard thickness clears; a check no standard thickness clears says "engineer a
+   solution".
 
-Where a check's rule sets ``guard_allowed``, a personnel guard is offered beside the remedy.
+The remedy material is the material of the specification the item is held to (see
+``below-spec``), else its outermost installed material; an item with neither gets a named
+action without a thickness.  Where the check's rule allows a guard (``guard_allowed``), a
+personnel guard is offered beside insulation.
 
-Each fixable finding gets ``remedy_action``, the ``;``-joined actions its remedy takes
-(:data:`ACTIONS`); the findings of ``condition`` checks get the actions of their flags too.
-The work-order quantities are counted from these actions (audit/report/workorders.py).
-
-The remedy material is the governing specification's material (see ``below-spec``), else the
-outermost installed material; an item with neither gets a named action without a thickness.
+Each remedy also says what it does as data, in ``remedy_action`` (``;``-joined
+:data:`ACTIONS`), and so do the findings of ``condition`` checks: the work-order quantities
+are counted from it (audit/report/workorders.py).
 """
 
 from __future__ import annotations
@@ -37,260 +38,286 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckContext, cold_service
-from audit.checks.below_spec import requirement
+from audit.checks.base import CheckContext
+from audit.checks.below_spec import _EDGE_M, installed_thickness, requirement
+from audit.checks.repairs import plan_repairs
 from audit.repeats import map_values, per_distinct
-from audit.thermal import has_layers
 
-#: Actions a remedy takes, as ``remedy_action`` names them.
+GUARD = "; or fit a personnel guard over the hot surface instead"
+#: What a remedy does, as ``remedy_action`` names it.
 ACTIONS = {
-    "covers": "removable insulation covers on the uninsulated fittings",
+    "covers": "removable covers on the uninsulated fittings (vapour-sealed on cold service)",
     "reinstate-damaged": "the damaged share reinstated to the installed build-up",
-    "replace-wet": "wet insulation replaced with the installed build-up",
-    "reinstate-missing": "missing insulation reinstated to the installed build-up",
-    "insulate": "insulation brought to remedy_thickness of remedy_material over the whole item",
+    "replace-wet": "wet insulation replaced like for like",
+    "reinstate-missing": "missing insulation reinstated as listed",
+    "insulate": "the whole item insulated to remedy_thickness of remedy_material",
     "engineer": "no standard thickness clears the check: a solution to be engineered",
-    "guard": "a personnel guard, offered beside the insulation remedy (burn risk)",
+    "guard": "a personnel guard, offered beside the insulation (burn risk)",
 }
-#: Slack on the thickness floor [m]: 65 mm written in a register and in a rule file meet.
-_EDGE_M = 1e-9
 
 
 def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, params: dict) -> pd.DataFrame:
-    """``findings`` with ``remedy``, ``remedy_action``, ``remedy_thickness [mm]`` and
-    ``remedy_material`` completed for the findings that insulation can fix, and
-    ``remedy_action`` for the ``condition`` findings."""
-    if not len(findings):
+    """``findings`` with ``remedy_thickness [mm]``, ``remedy_material`` and the remedy text
+    completed for the findings that insulation can fix, and ``remedy_action`` for those and
+    the ``condition`` findings."""
+    findings = _condition_actions(context.table, findings, params)
+    if not len(findings) or not findings["fixable_by_insulation"].any() or not context.rules.thicknesses:
         return findings
-    out = findings.copy()
-    facts = _Facts(context, kinds)
-    action = out["remedy_action"].to_numpy(object).copy()
-    kind_of = out["kind"].to_numpy(object)
-    rows_of = out["row"].to_numpy(int)
-    for name in np.unique(out["check"].to_numpy(object)[kind_of == "condition"]):
-        at = np.flatnonzero(out["check"].to_numpy(object) == name)
-        action[at] = facts.condition_actions(rows_of[at], params.get(name, {}).get("flags", ()))
-    out["remedy_action"] = action
-    fixable = out["fixable_by_insulation"].astype(bool).to_numpy()
-    if not fixable.any():
-        return out
-    at = np.flatnonzero(fixable)
-    checks = out["check"].to_numpy(object)[at]
-    rows = rows_of[at]
-    # 1. Bare parts: does the installed build-up, made good, clear the check?
-    cause_bare = np.zeros(at.size, bool)
-    for name in np.unique(checks):
-        mine = np.flatnonzero((checks == name) & facts.bare_parts[rows])
-        if mine.size:
-            check = context.rules.checks[name]
-            trial = context.trial(context.prepared().take(rows[mine]).repaired(
-                np.ones(mine.size, bool), np.zeros(mine.size, bool), np.full(mine.size, ""),
-                np.full(mine.size, np.nan), np.ones(mine.size, bool)))
-            verdict = kinds[check.kind].evaluate(trial, check, params[name])
-            ok = trial.states(check.site)["computed"].to_numpy(bool).copy()
-            ok[verdict.rows] = False
-            cause_bare[mine] = ok
-    # 2. The build-up fails: the smallest standard thickness clearing that check.
-    search = np.flatnonzero(~cause_bare)
-    thickness = np.full(at.size, np.nan)
-    if search.size and context.rules.thicknesses:
-        thickness[search] = _search(context, kinds, params, rows[search], checks[search],
-                                    facts)
-    guard = np.array([bool(params.get(c, {}).get("guard_allowed", False)) for c in checks]) \
-        if at.size else np.zeros(0, bool)
+    rules, table = context.rules, context.table
+    fixable_findings = findings[findings["fixable_by_insulation"].astype(bool)]
+    rows = np.unique(fixable_findings["row"].astype(int))
+    recheck = [c for c in rules.checks.values() if c.enabled and
+               (kinds[c.kind].fixable_by_insulation or kinds[c.kind].remedy_must_pass)]
+    must_pass = {c.name for c in recheck if kinds[c.kind].remedy_must_pass}
+    # Per check, which of the rows failed it (only those are re-checked), or all of them for
+    # the checks every remedy must pass.
+    failed = {c.name: np.ones(rows.size, bool) if c.name in must_pass else
+              np.isin(rows, fixable_findings.loc[fixable_findings["check"] == c.name, "row"])
+              for c in recheck}
+    search = _Search(context, kinds, params, rows, recheck)
 
+    spec_check = rules.checks.get("below-spec")
+    spec_states = context.states(spec_check.site if spec_check else "")
+    plan = plan_repairs(table, rules, spec_states)
+    need = requirement(table, rules, spec_states["process_temp_K"].to_numpy(float),
+                       spec_states["air_temp_K"].to_numpy(float))
+
+    # 1. The repair, where there is one to make.
+    repairable = np.flatnonzero(plan.needed[rows])
+    repaired = np.zeros(rows.size, bool)
+    if repairable.size:
+        def repaired_trial(sub):
+            items = rows[repairable[sub]]
+            return context.prepared().take(items).repaired(
+                plan.insulate[items], plan.to_spec[items], plan.spec_material[items],
+                plan.thickness_m[items], plan.covers[items] > 0)
+        repaired[repairable] = search.passes(repairable, failed, repaired_trial)
+
+    # 2. More insulation, never thinner than installed or specified.
+    material = _remedy_material(table, need.material, rows)
+    material_index = map_values(material, context.tables()[1], -1, dtype=int)
+    floor = np.maximum(installed_thickness(table)[rows], need.thickness_m[rows])
+    standard = np.asarray(rules.thicknesses, float)
+    start = np.searchsorted(standard, floor - _EDGE_M, side="left")
+    insulate = np.flatnonzero(~repaired & (material != ""))
+    thickness = np.full(rows.size, np.nan)
+    thickness[insulate] = search.smallest(insulate, failed, start, material_index)
+
+    # 3. Each failed check on its own where none clears them together.
+    own = {}
+    stuck = insulate[np.isnan(thickness[insulate])]
+    for check in recheck:
+        if check.name in must_pass:
+            continue
+        alone = stuck[failed[check.name][stuck]]
+        if alone.size:
+            only = {c.name: failed[c.name] if c.name in must_pass or c.name == check.name
+                    else np.zeros(rows.size, bool) for c in recheck}
+            own[check.name] = dict(zip(alone.tolist(), search.smallest(
+                alone, only, start, material_index).tolist()))
+
+    out = findings.copy()
+    fixable = out["fixable_by_insulation"].astype(bool).to_numpy()
+    at = np.flatnonzero(fixable)
+    i = np.searchsorted(rows, out["row"].to_numpy(int)[at])
+    checks = out["check"].to_numpy(object)[at]
+    mm = thickness[i] * 1000.0
+    for k, (item, check) in enumerate(zip(i.tolist(), checks.tolist())):
+        if item in own.get(check, {}):
+            mm[k] = own[check][item] * 1000.0
+    installed_mm = installed_thickness(table)[rows][i] * 1000.0
+    words_of_repair = _repair_words(table, plan, spec_states, rows[i])
+    biggest = standard[-1] * 1000.0
     remedy = out["remedy"].to_numpy(object).copy()
-    mm = thickness * 1000.0
-    biggest = max(context.rules.thicknesses, default=np.nan) * 1000.0
-    remedy[at], action[at] = _words(facts, rows, checks, cause_bare, mm, guard, biggest)
+
+    def text(base, mat, fixed_by_repair, repair_words, value, have, guard):
+        # The check's own remedy (``base``) already offers a guard where its rule allows one.
+        if fixed_by_repair:
+            said = repair_words
+        elif not mat:
+            return (f"{base}; no remedy material known (no specification for the service and "
+                    "no insulation installed): insulate per the plant specification")
+        elif np.isnan(value):
+            return (f"{base}; no standard thickness of {mat} from {have:.0f} mm (what is "
+                    f"installed or specified) up to {biggest:.0f} mm clears this check: engineer "
+                    "a solution")
+        elif have > 0:
+            said = (f"replace the insulation with {value:.3g} mm of {mat} (installed: "
+                    f"{have:.3g} mm)")
+        else:
+            said = f"insulate with {value:.3g} mm of {mat}"
+        return said + (GUARD if guard else "")
+
+    guard = np.array([bool(params.get(c, {}).get("guard_allowed", False)) for c in checks])
+    floor_mm = floor[i] * 1000.0
+    remedy[at] = per_distinct(text, remedy[at], material[i], repaired[i], words_of_repair, mm,
+                              np.where(np.isnan(mm), floor_mm, installed_mm), guard)
     out["remedy"] = remedy
-    out["remedy_action"] = action
     thick = out["remedy_thickness [mm]"].to_numpy(float).copy()
-    thick[at] = mm
+    thick[at] = np.where(repaired[i], _repair_thickness_mm(plan, rows[i]), mm)
     out["remedy_thickness [mm]"] = thick
     mats = out["remedy_material"].to_numpy(object).copy()
-    mats[at] = np.where(np.isfinite(mm), facts.material[rows], "")
+    mats[at] = np.where(repaired[i], np.where(plan.to_spec[rows[i]], plan.spec_material[rows[i]],
+                                              ""),
+                        np.where(np.isfinite(mm), material[i], ""))
     out["remedy_material"] = mats
+    action = out["remedy_action"].to_numpy(object).copy()
+    action[at] = per_distinct(_actions, *_repair_facts(table, plan, rows[i]), repaired[i],
+                              material[i], np.isfinite(mm), guard)
+    out["remedy_action"] = action
     return out
 
 
-class _Facts:
-    """What the remedies read of each row of the item table (arrays aligned with its rows)."""
-
-    def __init__(self, context: CheckContext, kinds: dict):
-        table, rules = context.table, context.rules
-        self.table = table
-        self.insulated = context.once(has_layers)
-        condition = table["condition"].fillna("").to_numpy(object)
-        self.damaged_pct = np.nan_to_num(table["damaged_pct"].to_numpy(float))
-        self.damaged = self.insulated & (condition == "damaged") & (self.damaged_pct > 0)
-        self.wet = self.insulated & (condition == "wet")
-        self.missing = self.insulated & (condition == "missing")
-        pipe = (table["shape"] == "pipe").to_numpy()
-        self.valves = np.nan_to_num(pd.to_numeric(table["valves"], errors="coerce").to_numpy(float))
-        self.flanges = np.nan_to_num(pd.to_numeric(table["flanges"], errors="coerce").to_numpy(float))
-        self.pipe_fittings = pipe & (self.valves + self.flanges > 0)
-        self.fittings = self.insulated & self.pipe_fittings
-        self.bare_parts = (self.fittings | self.damaged | self.wet | self.missing) & \
-            (table["status"] == "ok").to_numpy()
-        self.listed_m = per_distinct(lambda x: float(sum(x)) if isinstance(x, tuple) else 0.0,
-                                     table["layer_thicknesses_m"].to_numpy(object)).astype(float)
-        self.build_up = per_distinct(
-            lambda m, t: " + ".join(f"{a} {b * 1000:.0f} mm" for a, b in zip(m, t))
-            if isinstance(m, tuple) and m else "", table["layer_materials"].to_numpy(object),
-            table["layer_thicknesses_m"].to_numpy(object))
-        # The specification as below-spec judges it (under its site).
-        spec_check = next((c for c in rules.checks.values() if c.enabled and c.kind == "below-spec"),
-                          None)
-        states = context.states(spec_check.site if spec_check is not None else "")
-        self.need = requirement(table, rules, states["process_temp_K"].to_numpy(float),
-                                states["air_temp_K"].to_numpy(float))
-        self.cold = cold_service(context)
-        self.material = np.asarray(self.need.material, dtype=object).copy()
-        outermost = per_distinct(lambda x: x[-1] if isinstance(x, tuple) and x else "",
-                                 table["layer_materials"].to_numpy(object))
-        self.material[self.material == ""] = outermost[self.material == ""]
-        # Never thinner than installed, nor than the specification accepts.
-        self.floor_m = np.maximum(np.where(self.insulated, self.listed_m, 0.0),
-                                  np.where(self.need.thickness_m > 0,
-                                           self.need.thickness_m - self.need.tolerance_m, 0.0))
-
-    def condition_actions(self, rows: np.ndarray, flags) -> np.ndarray:
-        """Actions of a ``condition`` check's findings on ``rows``, for the ``flags`` it checks."""
-        flags = set(flags)
-        parts = [(self.missing, "missing", "reinstate-missing"),
-                 (self.damaged, "damaged", "reinstate-damaged"),
-                 (self.wet, "wet", "replace-wet"), (self.fittings, "fittings", "covers")]
-        words = [np.where(mask[rows], name, "") for mask, flag, name in parts if flag in flags]
-        return _joined(words, rows.size)
-
-    def fittings_words(self, row: int) -> str:
-        pieces = [f"{n:g} {w}{'' if n == 1 else 's'}" for n, w in
-                  ((self.valves[row], "valve"), (self.flanges[row], "flange")) if n > 0]
-        return " and ".join(pieces)
+def _repair_facts(table: pd.DataFrame, plan, rows: np.ndarray) -> list[np.ndarray]:
+    """Per row of ``rows``: (insulate, to_spec, share, condition, covers) of its repair."""
+    return [plan.insulate[rows], plan.to_spec[rows], plan.share[rows],
+            table["condition"].fillna("").to_numpy(object)[rows], plan.covers[rows] > 0]
 
 
-def _joined(words: list, n: int) -> np.ndarray:
-    """Per position, the non-empty ``words`` joined by ';'."""
-    out = np.full(n, "", dtype=object)
-    for w in words:
-        w = np.asarray(w, dtype=object)
-        out = np.where(w == "", out, np.where(out == "", w, out + ";" + w))
+def _actions(insulate, to_spec, share, condition, covers, by_repair, material, thickness,
+             guard) -> str:
+    """``remedy_action`` of one fixable finding."""
+    done = []
+    if by_repair:
+        if insulate and to_spec:
+            done.append("insulate")
+        elif insulate:
+            done.append("replace-wet" if condition == "wet" else
+                        "reinstate-damaged" if share < 1 else "reinstate-missing")
+        if covers:
+            done.append("covers")
+    else:
+        done.append("insulate" if material and thickness else "engineer")
+    return ";".join(done + ["guard"] * bool(guard))
+
+
+def _condition_actions(table: pd.DataFrame, findings: pd.DataFrame, params: dict) -> pd.DataFrame:
+    """``findings`` with ``remedy_action`` of each ``condition`` finding: the repairs its flags
+    name that its row needs."""
+    at = np.flatnonzero(findings["kind"].to_numpy(object) == "condition") if len(findings) else []
+    if not len(at):
+        return findings
+    rows = findings["row"].to_numpy(int)[at]
+    condition = table["condition"].fillna("").to_numpy(object)[rows]
+    share = np.nan_to_num(table["damaged_pct"].to_numpy(float))[rows]
+    count = sum(np.nan_to_num(pd.to_numeric(table[c], errors="coerce").to_numpy(float))
+                for c in ("valves", "flanges"))
+    fittings = (table["shape"] == "pipe").to_numpy()[rows] & (count[rows] > 0)
+    flags = [frozenset(params.get(c, {}).get("flags", ())) for c in findings["check"].to_numpy(object)[at]]
+    out = findings.copy()
+    action = out["remedy_action"].to_numpy(object).copy()
+    action[at] = [";".join(name for name, hit, flag in (
+        ("reinstate-missing", c == "missing", "missing"),
+        ("reinstate-damaged", c == "damaged" and d > 0, "damaged"),
+        ("replace-wet", c == "wet", "wet"), ("covers", f and c != "missing", "fittings"))
+        if hit and flag in fl) for c, d, f, fl in zip(condition.tolist(), share.tolist(),
+                                                      fittings.tolist(), flags)]
+    out["remedy_action"] = action
     return out
 
 
-def _search(context, kinds, params, rows, checks, facts) -> np.ndarray:
-    """Smallest standard thickness [m] of the row's remedy material, at or above its floor,
-    that clears each (row, check) pair and every must-pass check; NaN where none does."""
-    rules = context.rules
-    standard = np.asarray(rules.thicknesses, float)
-    material_index = map_values(facts.material[rows], context.tables()[1], -1, dtype=int)
-    must_pass = [c for c in rules.checks.values() if c.enabled and kinds[c.kind].remedy_must_pass]
+class _Search:
+    """Re-evaluating the failed checks of ``rows`` on trial items."""
 
-    def passes(at: np.ndarray, index: np.ndarray) -> np.ndarray:
-        """Whether pairs[at] pass their own check and the must-pass ones at standard[index]."""
+    def __init__(self, context, kinds, params, rows, recheck):
+        self.context, self.kinds, self.params = context, kinds, params
+        self.rows, self.recheck = rows, recheck
+
+    def passes(self, at: np.ndarray, failed: dict, trial_of) -> np.ndarray:
+        """Whether rows[at] pass every check they failed (``failed``) on their trial items
+        (``trial_of(sub)``: the trial of rows[at[sub]])."""
         ok = np.ones(at.size, bool)
-        for name in np.unique(checks[at]):
-            sub = np.flatnonzero(checks[at] == name)
-            ok[sub] &= _clears(context, kinds, params, rules.checks[name], rows[at[sub]],
-                               material_index[at[sub]], standard[index[sub]])
-        if must_pass and at.size:
-            # Once per distinct (row, thickness): several checks of a row share the trial.
-            keys = np.stack([rows[at], index])
-            (unique_rows, unique_index), back = np.unique(keys, axis=1, return_inverse=True)
-            first = np.zeros(unique_rows.size, int)
-            first[back.ravel()] = np.arange(at.size)
-            for check in must_pass:
-                good = _clears(context, kinds, params, check, unique_rows,
-                               material_index[at[first]], standard[unique_index])
-                ok &= good[back.ravel()]
+        for check in self.recheck:
+            sub = np.flatnonzero(failed[check.name][at])
+            if sub.size == 0:
+                continue
+            trial_context = self.context.trial(trial_of(sub))
+            verdict = self.kinds[check.kind].evaluate(trial_context, check, self.params[check.name])
+            ok[sub[verdict.rows]] = False
+            ok[sub[~trial_context.states(check.site)["computed"].to_numpy(bool)]] = False
         return ok
 
-    n = rows.size
-    low = np.searchsorted(standard, facts.floor_m[rows] - _EDGE_M, side="left")
-    known = (facts.material[rows] != "") & (low < standard.size)
-    candidates = np.flatnonzero(known)
-    low = low[candidates]
-    high = np.full(candidates.size, standard.size - 1)
-    while (low < high).any():
-        open_ = low < high
-        mid = (low + high) // 2
-        ok = passes(candidates[open_], mid[open_])
-        high[np.flatnonzero(open_)[ok]] = mid[open_][ok]
-        low[np.flatnonzero(open_)[~ok]] = mid[open_][~ok] + 1
-    # The thickest standard thickness is never tried by the bisection (mid < high): the
-    # pairs that end there are tried at it last, and have no remedy if they fail it.
-    top = np.flatnonzero(high == standard.size - 1)
-    solvable = np.ones(candidates.size, bool)
-    solvable[top] = passes(candidates[top], high[top])
-    out = np.full(n, np.nan)
-    out[candidates[solvable]] = standard[high[solvable]]
+    def smallest(self, items: np.ndarray, failed: dict, start: np.ndarray,
+                 material_index: np.ndarray) -> np.ndarray:
+        """The smallest standard thickness [m], from ``start`` (an index into the standard
+        list) up, at which each of ``items`` (positions in ``rows``) passes; NaN for none."""
+        standard = np.asarray(self.context.rules.thicknesses, float)
+
+        def passes_at(at, index):
+            return self.passes(at, failed, lambda sub: self.context.prepared().take(
+                self.rows[at[sub]]).reinsulated(material_index[at[sub]], standard[index[sub]]))
+
+        low = start[items].copy()
+        high = np.full(items.size, standard.size - 1)
+        out = np.full(items.size, np.nan)
+        searchable = low <= high  # an item thicker than every standard one has none
+        candidates, low, high = items[searchable], low[searchable], high[searchable]
+        while candidates.size and (low < high).any():
+            open_ = low < high
+            mid = (low + high) // 2
+            ok = passes_at(candidates[open_], mid[open_])
+            high[np.flatnonzero(open_)[ok]] = mid[open_][ok]
+            low[np.flatnonzero(open_)[~ok]] = mid[open_][~ok] + 1
+        # The thickest standard thickness is never tried by the bisection (mid < high): the
+        # items that end there are tried at it last, and have no remedy if they fail it.
+        top = np.flatnonzero(high == standard.size - 1)
+        solvable = np.ones(candidates.size, bool)
+        solvable[top] = passes_at(candidates[top], high[top])
+        found = np.full(candidates.size, np.nan)
+        found[solvable] = standard[high[solvable]]
+        out[np.flatnonzero(searchable)] = found
+        return out
+
+
+def _remedy_material(table: pd.DataFrame, spec_material: np.ndarray, rows: np.ndarray) -> np.ndarray:
+    """The governing specification's material (below-spec's choice of spec, so an item with no
+    declared service gets the spec it would be held to), else the outermost installed one."""
+    layers = table["layer_materials"].to_numpy(object)[rows]
+    out = np.asarray(spec_material, dtype=object)[rows].copy()
+    for i, installed in enumerate(layers):
+        if not out[i] and isinstance(installed, tuple) and installed:
+            out[i] = installed[-1]
     return out
 
 
-def _clears(context, kinds, params, check, rows, material_index, thickness) -> np.ndarray:
-    """Whether ``check`` passes on ``rows`` re-insulated with one intact layer each (fittings
-    covered) and computed under its site."""
-    trial = context.trial(context.prepared().take(rows).reinsulated(material_index, thickness))
-    verdict = kinds[check.kind].evaluate(trial, check, params[check.name])
-    ok = trial.states(check.site)["computed"].to_numpy(bool).copy()
-    ok[verdict.rows] = False
-    return ok
+def _repair_thickness_mm(plan, rows: np.ndarray) -> np.ndarray:
+    """The thickness a repair orders [mm]: the specification's where it insulates to it; NaN
+    for a repair that puts back what is installed (no new thickness)."""
+    return np.where(plan.to_spec[rows], plan.thickness_m[rows] * 1000.0, np.nan)
 
 
-def _words(facts, rows, checks, cause_bare, mm, guard, biggest) -> tuple[np.ndarray, np.ndarray]:
-    """(remedy text, remedy_action) of each fixable finding."""
-    texts, actions = [], []
-    need_mm = facts.need.thickness_m * 1000.0
-    for row, check, bare, t, offer in zip(rows.tolist(), checks.tolist(), cause_bare.tolist(),
-                                          mm.tolist(), guard.tolist()):
-        build = facts.build_up[row]
-        cold = bool(facts.cold[row])
-        done, did = [], []
-        if bare:
-            if facts.fittings[row]:
-                done.append(f"fit removable {'vapour-sealed ' if cold else ''}insulation covers "
-                            f"on the {facts.fittings_words(row)}")
-                did.append("covers")
-            if facts.missing[row]:
-                done.append(f"reinstate the missing insulation to the installed build-up ({build})")
-                did.append("reinstate-missing")
-            if facts.damaged[row]:
-                done.append(f"reinstate the damaged share ({facts.damaged_pct[row]:g} %) to the "
-                            f"installed build-up ({build})")
-                did.append("reinstate-damaged")
-            if facts.wet[row]:
-                done.append(f"replace the wet insulation with the installed build-up ({build}) "
-                            "and stop the water entry")
-                did.append("replace-wet")
-            text = "; ".join(done) + f" (the installed build-up then clears {check})"
-            if offer:
-                text += "; or fit a personnel guard over the bare parts"
+def _repair_words(table: pd.DataFrame, plan, states: pd.DataFrame, rows: np.ndarray) -> np.ndarray:
+    """The repair of each row in words, for a crew."""
+    cold = (states["process_temp_K"].to_numpy(float) < states["air_temp_K"].to_numpy(float))[rows]
+    valves = np.nan_to_num(pd.to_numeric(table["valves"], errors="coerce").to_numpy(float))[rows]
+    flanges = np.nan_to_num(pd.to_numeric(table["flanges"], errors="coerce").to_numpy(float))[rows]
+    condition = table["condition"].fillna("").to_numpy(object)[rows]
+    return per_distinct(
+        _one_repair, plan.insulate[rows], plan.to_spec[rows], plan.share[rows],
+        np.round(plan.thickness_m[rows] * 1000.0, 6), plan.spec_material[rows],
+        table["layer_materials"].to_numpy(object)[rows],
+        table["layer_thicknesses_m"].to_numpy(object)[rows], condition,
+        (plan.covers[rows] > 0), valves, flanges, cold)
+
+
+def _one_repair(insulate, to_spec, share, thickness_mm, spec_material, materials, thicknesses,
+                condition, covers, valves, flanges, cold) -> str:
+    parts = []
+    if insulate and to_spec:
+        parts.append(f"insulate to the specification: {thickness_mm:.3g} mm of {spec_material}")
+    elif insulate:
+        build_up = " + ".join(f"{m} {t * 1000:.3g} mm" for m, t in zip(materials, thicknesses))
+        if condition == "wet":
+            parts.append(f"replace the wet insulation like for like ({build_up}) and stop the "
+                         "water getting in")
+        elif share < 1:
+            parts.append(f"reinstate the damaged {share * 100:.3g} % of the length to the "
+                         f"installed build-up ({build_up})")
         else:
-            material = facts.material[row]
-            installed = (f"installed {facts.listed_m[row] * 1000:.0f} mm" if facts.insulated[row]
-                         else "none installed")
-            spec = (f", {facts.need.spec[row]} specification {need_mm[row]:.0f} mm"
-                    if need_mm[row] > 0 else "")
-            if not material:
-                text = ("no remedy material known (no specification for the service and no "
-                        f"insulation installed): insulate per the plant specification to clear {check}")
-                did.append("engineer")
-            elif np.isnan(t):
-                floor = facts.floor_m[row] * 1000.0
-                text = (f"no standard thickness of {material} from {floor:.0f} mm ({installed}{spec}) "
-                        f"up to {biggest:.0f} mm clears {check}: engineer a solution")
-                did.append("engineer")
-            else:
-                text = (f"bring the insulation to {t:.3g} mm of {material} over the whole item "
-                        f"({installed}{spec})" + (", with a sealed vapour retarder" if cold else "")
-                        + (f", and cover the {facts.fittings_words(row)}" if facts.pipe_fittings[row]
-                           else "") + f" to clear {check}")
-                did.append("insulate")
-            if offer:
-                text += "; or fit a personnel guard over the hot surface"
-        if offer:
-            did.append("guard")
-        texts.append(text)
-        actions.append(";".join(did))
-    return np.array(texts, dtype=object), np.array(actions, dtype=object)
+            parts.append(f"reinstate the missing insulation as listed ({build_up})")
+    if covers:
+        fittings = " and ".join(f"{n:g} {what}{'s' if n != 1 else ''}" for n, what in
+                                ((valves, "valve"), (flanges, "flange")) if n > 0)
+        kind = "vapour-sealed insulated covers" if cold else "removable insulated covers"
+        parts.append(f"fit {kind} to the bare fittings ({fittings})")
+    return "; ".join(parts)

@@ -64,7 +64,7 @@ def test_bare_flanges_on_an_insulated_steam_line_get_covers(trap):
     touch = found["touch-temperature"]
     assert touch["remedy_action"] == "covers;guard"
     assert np.isnan(touch["remedy_thickness [mm]"]) and touch["remedy_material"] == ""
-    assert "covers on the 2 flanges" in touch["remedy"] and "guard" in touch["remedy"]
+    assert "covers to the bare fittings (2 flanges)" in touch["remedy"] and "guard" in touch["remedy"]
     assert "replac" not in touch["remedy"]
     bill = quantities_of(trap, "ST-FLANGED")
     assert bill["removable insulation cover, flange"]["quantity"] == 2
@@ -88,15 +88,15 @@ def test_a_damaged_share_is_reinstated_to_the_installed_build_up(trap):
 
 
 def test_below_specification_is_insulated_to_the_specification(trap):
-    # Hand statement: NPS 2 at 250 degC asks 50 mm (tolerance 3 mm); 25 mm is installed.
-    # Fix: the smallest standard thickness at or above 47 mm, 2 in = 50.8 mm, whole 15 m.
+    # Hand statement: NPS 2 at 250 degC asks 50 mm of mineral wool; 25 mm is installed.
+    # Fix: insulate the whole 15 m to the specification, 50 mm.
     found = findings_of(trap, "HW-THIN")
     spec = found["below-spec"]
     assert spec["remedy_action"] == "insulate"
-    assert spec["remedy_thickness [mm]"] == pytest.approx(50.8)
+    assert spec["remedy_thickness [mm]"] == pytest.approx(50.0)
     assert spec["remedy_material"] == "mineral-wool"
     insulate = quantities_of(trap, "HW-THIN")[INSULATE]
-    assert insulate["thickness_mm"] == pytest.approx(50.8) and insulate["quantity"] == 15.0
+    assert insulate["thickness_mm"] == pytest.approx(50.0) and insulate["quantity"] == 15.0
 
 
 def test_a_build_up_that_fails_as_installed_is_thickened_never_thinned(trap):
