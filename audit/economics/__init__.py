@@ -120,7 +120,8 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
     computed = states["computed"].to_numpy(bool)
 
     material = np.where(plan.spec_material != "", plan.spec_material, _outermost(table)).astype(object)
-    economic = economic_thickness(context, econ, site=site, hours_h=hours_h, material=material)
+    economic, at_edge = economic_thickness(context, econ, site=site, hours_h=hours_h,
+                                           material=material, edge=True)
 
     def known(values):
         return np.where(computed, values, np.nan)
@@ -148,8 +149,11 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
             (material == "", "no economic thickness: no specification or installed material"),
             ((material != "") & ~np.isfinite(economic),
              "no economic thickness: item at ambient, or no standard thickness could be costed"),
-            (np.isfinite(economic) & (economic >= max(rules.thicknesses, default=np.inf)),
-             "economic thickness is the thickest standard one: the optimum may lie beyond")]),
+            (at_edge & (economic >= max(rules.thicknesses, default=np.inf)),
+             "economic thickness is the thickest standard one: the optimum may lie beyond"),
+            (at_edge & (economic < max(rules.thicknesses, default=np.inf)),
+             "economic thickness is the thickest one the [economics.repair] cost table prices: "
+             "the optimum may lie beyond")]),
     }, index=table.index, columns=COLUMNS)
 
     return Economics(
