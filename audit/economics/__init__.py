@@ -14,7 +14,7 @@ economic rules' default (``--hours`` replaces that default for one run).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
@@ -59,6 +59,7 @@ class Economics:
     top_repairs: pd.DataFrame  #: the 20 repairs with the shortest payback
     assumptions: list          #: [{"what", "value", "source"}] for the report's cover
     site: str                  #: the site condition the energy is reckoned under
+    warnings: list = field(default_factory=list)  #: for the report's cover (currencies)
 
     @property
     def totals(self) -> dict:
@@ -168,7 +169,7 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
              else "economics energy_site"},
             {"what": "annuity factor", "value": f"{float(annuity_factor(econ.interest, econ.life)):.5f} /yr",
              "source": "i(1+i)^n/((1+i)^n-1) of the interest rate and service life (VDI 2055)"}],
-        site=site)
+        site=site, warnings=econ.currency_warnings())
 
 
 def _outermost(table: pd.DataFrame) -> np.ndarray:
