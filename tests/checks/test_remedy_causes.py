@@ -25,7 +25,7 @@ REGISTER = """tag,nps,length,temp,layers,jacket,location,accessible,condition,da
 ST-FLANGED,4,20,180,calcium-silicate 50mm,aluminium-oxidised,outdoor,yes,intact,,heat-conservation,0,2
 ST-DAMAGED,6,30,150,mineral-wool 65mm,aluminium-oxidised,outdoor,yes,damaged,20,heat-conservation,0,0
 HW-THIN,2,15,250,mineral-wool 25mm,aluminium-oxidised,outdoor,no,intact,,heat-conservation,0,0
-HO-ASBUILT,3,12,350,mineral-wool 80mm,aluminium-bright,indoor,yes,intact,,heat-conservation,0,0
+HO-ASBUILT,3,12,350,mineral-wool 80mm,aluminium-bright,outdoor,yes,intact,,heat-conservation,0,0
 CW-FLANGED,2,25,5,elastomeric-foam 50mm,pvc,indoor,no,intact,,cold,0,2
 """
 
