@@ -152,7 +152,7 @@ def recognised_inputs(table: pd.DataFrame) -> dict[str, np.ndarray]:
     def celsius(column):
         return table[column].to_numpy(float) - ZERO_CELSIUS
 
-    layers = per_distinct(_layers_text, table["layer_materials"].to_numpy(object),
+    layers = per_distinct(layers_text, table["layer_materials"].to_numpy(object),
                           table["layer_thicknesses_m"].to_numpy(object))
     return {
         "shape": table["shape"].to_numpy(object),
@@ -170,13 +170,14 @@ def recognised_inputs(table: pd.DataFrame) -> dict[str, np.ndarray]:
     }
 
 
-def _layers_text(materials, thicknesses) -> str:
-    """Layers as the register writes them: ``calcium-silicate 50 mm + mineral-wool 50 mm``."""
+def layers_text(materials, thicknesses) -> str:
+    """Layers as a register writes them: ``calcium-silicate 50mm + mineral-wool 50mm``
+    (``none`` for bare; the history database records them so too)."""
     if not isinstance(materials, tuple):
         return ""
     if not materials:
         return "none"
-    return " + ".join(f"{m} {t * 1000:.6g} mm" for m, t in zip(materials, thicknesses))
+    return " + ".join(f"{m} {t * 1000:g}mm" for m, t in zip(materials, thicknesses))
 
 
 def _extra_columns(table: pd.DataFrame) -> list[str]:

@@ -47,7 +47,7 @@ def test_recognised_inputs_are_echoed_with_units(audit):
     assert r.loc["HOT-BARE", "length [m]"] == 10.0
     assert r.loc["HOT-BARE", "temp [degC]"] == pytest.approx(150.0)
     assert r.loc["HOT-BARE", "layers"] == "none"
-    assert r.loc["FLG-1", "layers"] == "mineral-wool 50 mm + calcium-silicate 25 mm"
+    assert r.loc["FLG-1", "layers"] == "mineral-wool 50mm + calcium-silicate 25mm"
     assert r.loc["FLG-1", "accessible"] == "yes" and r.loc["FLG-1", "location"] == "indoor"
     columns = list(audit.results.columns)
     assert columns.index("service") < columns.index("warnings") < columns.index("Design Temp")
