@@ -31,8 +31,9 @@ import pandas as pd
 
 from audit.engine import solve_items
 from audit.problems import Problem, words
+from audit.results import significant
 from audit.rules import Rules
-from audit.thermal import PreparedItems, conductivity_tables, has_layers, prepare_items, site_batch
+from audit.thermal import ZERO_CELSIUS, PreparedItems, conductivity_tables, has_layers, prepare_items, site_batch
 
 FACTOR_LOW = 0.1      # [-] a tenth of the registered conductivity: better than any insulation
 FACTOR_HIGH = 1000.0  # [-] the layers a thousandfold more conductive: as good as bare metal
@@ -222,3 +223,67 @@ def _condition_factors(solve, measured, hot, judged):
         hi = np.where(above, mid, hi)
         lo = np.where(above, lo, mid)
     return np.exp(0.5 * (lo + hi)), found, note
+
+
+def worst_readings(survey: pd.DataFrame | None, index: pd.Index) -> tuple[np.ndarray, np.ndarray]:
+    """Per item-table row (``index``: the table's labels): the position in ``survey`` of its
+    worst matched reading (-1: none), the one furthest on the side of more heat through the
+    insulation (hotter than predicted on a hot item, colder on a cold one); and its count of
+    matched readings."""
+    n = len(index)
+    worst, count = np.full(n, -1), np.zeros(n, int)
+    if survey is None or not len(survey):
+        return worst, count
+    matched = np.flatnonzero((survey["status"] == "matched").to_numpy())
+    hot = survey["process_temp_K"].to_numpy(float) >= survey["air_temp_K"].to_numpy(float)
+    deviation = np.where(hot, 1.0, -1.0) * (survey["surface_temp_K"].to_numpy(float)
+                                           - survey["predicted_temp_K"].to_numpy(float))
+    np.add.at(count, index.get_indexer(survey["item_row"].to_numpy()[matched]), 1)
+    # Ascending, so that the worst of an item's readings is written last.
+    order = matched[np.argsort(np.nan_to_num(deviation[matched], nan=-np.inf), kind="stable")]
+    worst[index.get_indexer(survey["item_row"].to_numpy()[order])] = order
+    return worst, count
+
+
+#: Results columns of the survey (contract names) -> column of the reconciled survey; kelvin
+#: columns go to degC.
+RESULT_COLUMNS = {"measured_temp [degC]": "surface_temp_K",
+                  "predicted_temp [degC]": "predicted_temp_K",
+                  "measured_heat_loss [W]": "measured_heat_loss_W",
+                  "condition_factor [-]": "condition_factor"}
+
+
+def result_columns(survey: pd.DataFrame | None, index: pd.Index) -> pd.DataFrame:
+    """The survey's results columns per item-table row, from the item's worst reading (NaN
+    for an item without a matched reading)."""
+    worst, _ = worst_readings(survey, index)
+    has = worst >= 0
+    out = {}
+    for name, column in RESULT_COLUMNS.items():
+        values = np.full(len(index), np.nan)
+        if has.any():
+            values[has] = survey[column].to_numpy(float)[worst[has]]
+        out[name] = values - ZERO_CELSIUS if column.endswith("_K") else values
+    return pd.DataFrame(out)
+
+
+def survey_out(survey: pd.DataFrame) -> pd.DataFrame:
+    """``survey.csv``: every reading once, in file order, with its status, reasons and figures
+    under ``name [unit]`` headers."""
+    celsius = lambda column: survey[column].to_numpy(float) - ZERO_CELSIUS  # noqa: E731
+    out = pd.DataFrame({
+        "tag": survey["tag"], "source": survey["source"], "status": survey["status"],
+        "reason": survey["reason"], "warnings": survey["warnings"],
+        "item_source": survey["item_source"], "date": survey["date"],
+        "position": survey["position"], "note": survey["note"],
+        "measured_temp [degC]": celsius("surface_temp_K"),
+        "predicted_temp [degC]": celsius("predicted_temp_K"),
+        "air_temp [degC]": celsius("air_temp_K"),
+        "wind [m/s]": survey["wind_m_s"], "rh [%]": survey["rh_pct"],
+        "emissivity [-]": survey["emissivity"],
+        "condition_factor [-]": survey["condition_factor"],
+        "measured_heat_loss [W]": survey["measured_heat_loss_W"],
+        "predicted_heat_loss [W]": survey["predicted_heat_loss_W"]})
+    for column in out.columns[9:]:
+        out[column] = significant(out[column].to_numpy(float))
+    return out
