@@ -222,6 +222,8 @@ def _demo(args) -> int:
     if args.second_survey:
         return _audit_and_write([folder / "demo_line_list_resurvey.xlsx",
                                  folder / "demo_equipment_resurvey.xlsx"], args)
+    if args.survey is None:  # the demo plant's invented infrared survey
+        args.survey = [folder / "demo_survey.csv"]
     return _audit_and_write([folder / "demo_line_list.xlsx", folder / "demo_equipment.xlsx"], args)
 
 
