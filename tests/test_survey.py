@@ -71,14 +71,6 @@ def test_a_reading_hotter_than_bare_metal_has_no_factor_and_says_so(rules):
     assert f"{FACTOR_HIGH:g} times as conductive" in got.loc[0, "warnings"]
 
 
-def coolprop_air(t_film):
-    """k [W/(m K)], nu [m2/s], Pr [-] of air at 101325 Pa from CoolProp."""
-    k = PropsSI("L", "T", t_film, "P", 101325.0, "Air")
-    nu = PropsSI("V", "T", t_film, "P", 101325.0, "Air") / PropsSI("D", "T", t_film, "P",
-                                                                   101325.0, "Air")
-    return k, nu, PropsSI("PRANDTL", "T", t_film, "P", 101325.0, "Air")
-
-
 @pytest.mark.parametrize("surface, air, wind, eps", [(45.0, 20.0, 3.0, 0.9),
                                                     (70.0, 5.0, 0.5, 0.3),
                                                     (35.0, 30.0, 8.0, 0.95)])
@@ -91,7 +83,9 @@ def test_measured_heat_loss_is_the_surface_balance_at_the_reading(rules, surface
     got = reconcile(survey(("P-1", surface, air, wind, eps)), register(rules, PIPE), rules)
     d, ts, ta = 0.1143 + 2 * 0.050, surface + 273.15, air + 273.15
     tf = 0.5 * (ts + ta)
-    k, nu, pr = coolprop_air(tf)
+    air_at = {name: PropsSI(key, "T", tf, "P", 101325.0, "Air")
+              for name, key in (("k", "L"), ("mu", "V"), ("rho", "D"), ("pr", "PRANDTL"))}
+    k, nu, pr = air_at["k"], air_at["mu"] / air_at["rho"], air_at["pr"]
     gr = G / tf * (ts - ta) * d ** 3 / nu ** 2
     h_n = ht.Nu_horizontal_cylinder_Churchill_Chu(Pr=pr, Gr=gr) * k / d
     h_f = ht.Nu_cylinder_Churchill_Bernstein(Re=wind * d / nu, Pr=pr) * k / d
