@@ -42,6 +42,7 @@ from audit.checks.base import CheckContext
 from audit.checks.below_spec import _EDGE_M, installed_thickness, requirement
 from audit.checks.repairs import plan_repairs
 from audit.repeats import map_values, per_distinct
+from audit.thermal import fittings_of
 
 GUARD = "; or fit a personnel guard over the hot surface instead"
 #: What a remedy does, as ``remedy_action`` names it.
@@ -200,8 +201,7 @@ def _condition_actions(table: pd.DataFrame, findings: pd.DataFrame, params: dict
     rows = findings["row"].to_numpy(int)[at]
     condition = table["condition"].fillna("").to_numpy(object)[rows]
     share = np.nan_to_num(table["damaged_pct"].to_numpy(float))[rows]
-    count = sum(np.nan_to_num(pd.to_numeric(table[c], errors="coerce").to_numpy(float))
-                for c in ("valves", "flanges"))
+    count = fittings_of(table, "valves") + fittings_of(table, "flanges")
     fittings = (table["shape"] == "pipe").to_numpy()[rows] & (count[rows] > 0)
     flags = [frozenset(params.get(c, {}).get("flags", ())) for c in findings["check"].to_numpy(object)[at]]
     out = findings.copy()
@@ -289,8 +289,7 @@ def _repair_thickness_mm(plan, rows: np.ndarray) -> np.ndarray:
 def _repair_words(table: pd.DataFrame, plan, states: pd.DataFrame, rows: np.ndarray) -> np.ndarray:
     """The repair of each row in words, for a crew."""
     cold = (states["process_temp_K"].to_numpy(float) < states["air_temp_K"].to_numpy(float))[rows]
-    valves = np.nan_to_num(pd.to_numeric(table["valves"], errors="coerce").to_numpy(float))[rows]
-    flanges = np.nan_to_num(pd.to_numeric(table["flanges"], errors="coerce").to_numpy(float))[rows]
+    valves, flanges = fittings_of(table, "valves")[rows], fittings_of(table, "flanges")[rows]
     condition = table["condition"].fillna("").to_numpy(object)[rows]
     return per_distinct(
         _one_repair, plan.insulate[rows], plan.to_spec[rows], plan.share[rows],
