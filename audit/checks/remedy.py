@@ -61,7 +61,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     """``findings`` with ``remedy_thickness [mm]``, ``remedy_material`` and the remedy text
     completed for the findings that insulation can fix, and ``remedy_action`` for those and
     the ``condition`` findings."""
-    findings = _condition_actions(context.table, findings, params)
+    findings = _condition_actions(context.table, findings, kinds, params)
     if not len(findings) or not findings["fixable_by_insulation"].any() or not context.rules.thicknesses:
         return findings
     rules, table = context.rules, context.table
@@ -192,10 +192,13 @@ def _actions(insulate, to_spec, share, condition, covers, by_repair, material, t
     return ";".join(done + ["guard"] * bool(guard))
 
 
-def _condition_actions(table: pd.DataFrame, findings: pd.DataFrame, params: dict) -> pd.DataFrame:
-    """``findings`` with ``remedy_action`` of each ``condition`` finding: the repairs its flags
-    name that its row needs."""
-    at = np.flatnonzero(findings["kind"].to_numpy(object) == "condition") if len(findings) else []
+def _condition_actions(table: pd.DataFrame, findings: pd.DataFrame, kinds: dict,
+                       params: dict) -> pd.DataFrame:
+    """``findings`` with ``remedy_action`` of each finding of a kind remedied by repair (the
+    ``condition`` check): the repairs its flags name that its row needs."""
+    by_repair = [name for name, kind in kinds.items() if kind.remedied_by_repair]
+    at = np.flatnonzero(np.isin(findings["kind"].to_numpy(object), by_repair)) \
+        if len(findings) else []
     if not len(at):
         return findings
     rows = findings["row"].to_numpy(int)[at]
