@@ -53,6 +53,7 @@ def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> p
         out["location"].fillna("").to_numpy(object), out["material"].fillna("").to_numpy(object),
         count["valves"], count["flanges"],
         np.isfinite(out["damaged_pct"].to_numpy(float)) | damaged_given, table_surfaces(out)[1])
+    added = _joined(added, _fluid_problems(out, rules))
     if notes:
         _note_defaults(out, rules)
     has = added != ""
@@ -60,6 +61,42 @@ def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> p
         f"{old}; {new}" if old else new for old, new in zip(out.loc[has, "reason"], added[has])]
     out.loc[has, "status"] = "rejected"
     return out
+
+
+def _joined(first: np.ndarray, second: np.ndarray) -> np.ndarray:
+    """Two arrays of "; "-joined texts joined row by row."""
+    both = (first != "") & (second != "")
+    return np.where(both, first + "; " + second, np.where(first != "", first, second))
+
+
+def fluid_column(table: pd.DataFrame) -> np.ndarray:
+    """Per row, the fluid it names ("" if none, or if the table has no fluid column)."""
+    if "fluid" not in table:
+        return np.full(len(table), "", dtype=object)
+    return table["fluid"].fillna("").to_numpy(object)
+
+
+def _fluid_problems(table: pd.DataFrame, rules: Rules) -> np.ndarray:
+    """Per row: a fluid the rules do not define, or a boiling liquid hotter than its boiling
+    point (a liquid at 1 atm cannot be; one under pressure needs a fluid of its own)."""
+    fluid = fluid_column(table)
+    fluids = rules.fluids
+    unknown = per_distinct(
+        lambda name: (f'fluid: "{name}" is not in the rules; expected one of '
+                      f"{_listing(fluids)} (or add a [fluid.{name}] to a rule file)")
+        if name and name not in fluids else "", fluid)
+    boiling = map_values(fluid, {n: f.boiling_point for n, f in fluids.items()
+                                 if f.boiling_liquid}, np.nan).astype(float)
+    temp = table["temp_K"].to_numpy(float)
+    with np.errstate(invalid="ignore"):
+        hotter = temp > boiling
+    hot = np.full(len(table), "", dtype=object)
+    hot[hotter] = [f"temp: {t - ZERO_CELSIUS:.1f} degC is above the boiling point of {name} at "
+                   f"1 atm ({b - ZERO_CELSIUS:.1f} degC), and {name} is a boiling liquid of the "
+                   "rules; expected its temperature at or below that, or a fluid of the rules "
+                   "for the liquid under pressure"
+                   for t, b, name in zip(temp[hotter], boiling[hotter], fluid[hotter])]
+    return _joined(unknown.astype(object), hot)
 
 
 def _name_problems(key, rules: Rules) -> list[str]:
