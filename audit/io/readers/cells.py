@@ -1,9 +1,9 @@
 """Cell parsing: one function per kind of cell, each cached on the distinct text.
 
 Every parser takes the stripped cell text (and the column's unit from its header, if any) and
-returns its value(s) and a *problem*: ``None`` when the cell is good, else the end of a reason,
-``'is not a temperature; expected a number with an optional unit'``, which the table builder
-prefixes with the column name and the quoted raw value.
+returns its value(s) and a *problem*: ``None`` when the cell is good, else a
+:class:`audit.problems.Problem` (a code, and words such as ``'is not a temperature; expected a
+number with an optional unit'``), which the table builder records against the row and column.
 
 Each parser squeezes runs of white space to one space first, and every pattern is anchored and
 unambiguous (one way to match a run of digits), so parsing is linear in the cell's length.  An
@@ -18,6 +18,7 @@ import re
 from functools import lru_cache
 
 from audit.io.readers.headers import DN_UNIT
+from audit.problems import Problem
 from audit.pipe_sizes import NPS_BY_DN, NPS_BY_VALUE, OD_MM_BY_NPS
 from audit.units import NUMBER, UnitParseError, _normalise, parse_quantity, squeeze
 
@@ -45,7 +46,7 @@ _THK = r"(?:\d+ ?[x×*] ?)?(?:\d+(?:\.\d*)?|\.\d+) ?(?:mm|cm|m|in|inch|inches|\"
 _LAYER_MAT_FIRST = re.compile(rf"^(?P<mat>.*?\S) (?P<thk>{_THK})$", re.IGNORECASE)
 _LAYER_THK_FIRST = re.compile(rf"^(?P<thk>{_THK}) (?P<mat>\S.*)$", re.IGNORECASE)
 
-NUMBER_EXPECTED = "expected a number with an optional unit"
+NUMBER_EXPECTED = "a number with an optional unit"
 
 
 def is_bare_number(text: str) -> bool:
@@ -96,12 +97,13 @@ def quantity(text: str, default_unit: str, target_unit: str, what: str,
     try:
         value = _number(text, default_unit, target_unit, what)
     except UnitParseError:
-        return math.nan, f"is not {what}; {NUMBER_EXPECTED} ({default_unit} if none)"
+        return math.nan, Problem("not-a-number", f"is not {what}",
+                                 f"{NUMBER_EXPECTED} ({default_unit} if none)")
     if value < low or (low_open and value == low) or value > high:
         lower = f"above {low:g}" if low_open else f"at least {low:g}"
         bound = lower if math.isinf(high) else f"{lower} and at most {high:g}"
         unit = "" if target_unit == "dimensionless" else f" {target_unit}"
-        return math.nan, f"is out of range; expected {what} {bound}{unit}"
+        return math.nan, Problem("out-of-range", "is out of range", f"{what} {bound}{unit}")
     return value, None
 
 
@@ -126,18 +128,17 @@ def temperature(text: str, default_unit: str):
         if normal is None or max_k is None:
             return math.nan, math.nan, False, _temperature_problem(default_unit), None
         if normal < 0:
-            return (math.nan, math.nan, False,
-                    "is below absolute zero; expected a temperature above -273.15 degC", None)
+            return math.nan, math.nan, False, _BELOW_ZERO, None
         if max_k < normal:
             return (math.nan, math.nan, False,
-                    "has a maximum below the normal temperature; expected normal/max", None)
-        return normal, max_k, False, None, "normal/max given; normal used"
+                    Problem("max-below-normal", "has a maximum below the normal temperature",
+                            "normal/max"), None)
+        return normal, max_k, False, None, Problem("normal-max", "normal/max given; normal used")
     kelvin = _kelvin(text, default_unit)
     if kelvin is None:
         return math.nan, math.nan, False, _temperature_problem(default_unit), None
     if kelvin < 0:
-        return (math.nan, math.nan, False,
-                "is below absolute zero; expected a temperature above -273.15 degC", None)
+        return math.nan, math.nan, False, _BELOW_ZERO, None
     return kelvin, math.nan, False, None, None
 
 
@@ -148,9 +149,13 @@ def _kelvin(text: str, default_unit: str) -> float | None:
         return None
 
 
-def _temperature_problem(default_unit: str) -> str:
-    return (f"is not a temperature; {NUMBER_EXPECTED} ({default_unit} if none), "
-            "AMB, or normal/max")
+_BELOW_ZERO = Problem("below-absolute-zero", "is below absolute zero",
+                      "a temperature above -273.15 degC")
+
+
+def _temperature_problem(default_unit: str) -> Problem:
+    return Problem("not-a-temperature", "is not a temperature",
+                   f"{NUMBER_EXPECTED} ({default_unit} if none), AMB, or normal/max")
 
 
 @lru_cache(maxsize=65536)
@@ -175,8 +180,9 @@ def pipe_size(text: str, header_unit: str | None):
         value = _inches(cleaned)
         nps = NPS_BY_VALUE.get(value) if value is not None else None
     if nps is None:
-        return "", math.nan, ("is not a standard pipe size; expected an NPS of ASME B36.10M "
-                              "(1/8 to 48, e.g. 4, 1-1/2\") or a DN (DN6 to DN1200)")
+        return "", math.nan, Problem("not-a-pipe-size", "is not a standard pipe size",
+                                     "an NPS of ASME B36.10M (1/8 to 48, e.g. 4, 1-1/2\") or a "
+                                     "DN (DN6 to DN1200)")
     return nps, OD_MM_BY_NPS[nps], None
 
 
@@ -210,17 +216,19 @@ def thicknesses(text: str, default_unit: str):
             count = int(digits)
         value, problem = quantity(part, default_unit, "m", "a thickness", 0.0, math.inf, True)
         if problem or count < 1:
-            return (), ("is not a thickness; expected a length per layer (" + default_unit +
-                        " if none), e.g. 50, 2 in, 2x50 or 50+40")
+            return (), Problem("not-a-thickness", "is not a thickness",
+                               f"a length per layer ({default_unit} if none), e.g. 50, 2 in, "
+                               "2x50 or 50+40")
         result.extend([value] * count)
         if len(result) > MAX_LAYERS:
             return (), _too_many_layers(f"more than {MAX_LAYERS}")
     return tuple(result), None
 
 
-def _too_many_layers(count: str) -> str:
+def _too_many_layers(count: str) -> Problem:
     shown = count if len(count) <= 12 else f"more than {MAX_LAYERS}"
-    return f"has {shown} layers; expected at most {MAX_LAYERS} insulation layers per item"
+    return Problem("too-many-layers", f"has {shown} layers",
+                   f"at most {MAX_LAYERS} insulation layers per item")
 
 
 @lru_cache(maxsize=65536)
@@ -241,9 +249,9 @@ def layers(text: str, default_unit: str):
         part = part.strip()
         match = _LAYER_MAT_FIRST.match(part) or _LAYER_THK_FIRST.match(part)
         if not match:
-            return (), (), ("is not a list of layers; expected '<material> <thickness>' joined "
-                            "by '+', innermost first, e.g. calcium-silicate 50mm + "
-                            "mineral-wool 2in, or none")
+            return (), (), Problem("not-layers", "is not a list of layers",
+                                   "'<material> <thickness>' joined by '+', innermost first, "
+                                   "e.g. calcium-silicate 50mm + mineral-wool 2in, or none")
         layer_thk, problem = thicknesses(match.group("thk").strip(), default_unit)
         if problem:
             return (), (), problem
@@ -261,7 +269,7 @@ def choice(text: str, allowed: tuple[str, ...], synonyms: tuple[tuple[str, str],
     key = dict(synonyms).get(key, key)
     if key in allowed:
         return key, None
-    return "", f"is not recognised; expected one of {', '.join(allowed)}"
+    return "", Problem("not-recognised", "is not recognised", f"one of {', '.join(allowed)}")
 
 
 @lru_cache(maxsize=1024)
@@ -272,7 +280,8 @@ def yes_no(text: str):
         return True, None
     if key in _FALSE:
         return False, None
-    return False, "is not yes or no; expected yes, no, y, n, true, false, 1, 0 or x"
+    return False, Problem("not-yes-no", "is not yes or no",
+                          "yes, no, y, n, true, false, 1, 0 or x")
 
 
 @lru_cache(maxsize=4096)
@@ -283,5 +292,5 @@ def count(text: str):
     except ValueError:
         value = math.nan
     if not math.isfinite(value) or value < 0 or value != int(value):
-        return 0, "is not a count; expected a whole number, 0 or more"
+        return 0, Problem("not-a-count", "is not a count", "a whole number, 0 or more")
     return int(value), None
