@@ -18,37 +18,16 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, Verdict, bare_parts
-from audit.checks.touch_temperature import insulated_surface_class
+from audit.checks.base import CheckKind, bare_parts
+from audit.checks.touch_temperature import surface_verdict
 from audit.rules.converters import boolean, quantity, temperature, text
-from audit.thermal import ZERO_CELSIUS, table_surfaces
 
 NAME = "cold-touch"
 
 
 def evaluate(context, check, params):
-    limit_metal, limit_non_metal = params["limit_metal"], params["limit_non_metal"]
-    states = context.states(check.site)
-    selected = context.selected(check)
-    worst = states["surface_temp_K"].to_numpy(float)
-    insulated_temp = states["surface_temp_insulated_K"].to_numpy(float)
-    has_bare = context.once(table_surfaces)[1]
-    kind, assumed = context.once(insulated_surface_class, rules=True)
-    insulated_limit = np.where(kind == "metal", limit_metal, limit_non_metal)
-
-    # The insulated surface: the worst part when nothing is bare, else the main insulated wall.
-    ins_temp = np.where(has_bare, insulated_temp, worst)
-    with np.errstate(invalid="ignore"):
-        ins_short = np.where(np.isfinite(ins_temp), insulated_limit - ins_temp, -np.inf)
-        bare_short = np.where(has_bare & np.isfinite(worst), limit_metal - worst, -np.inf)
-    bare_is_worse = bare_short >= ins_short
-    short = np.maximum(ins_short, bare_short)
-    flagged = np.flatnonzero(selected & (short > 0))
-    return Verdict(
-        flagged, value=np.where(bare_is_worse, worst, ins_temp)[flagged] - ZERO_CELSIUS,
-        limit=np.where(bare_is_worse, limit_metal, insulated_limit)[flagged] - ZERO_CELSIUS,
-        unit="degC", facts={"bare": bare_is_worse[flagged], "surface": kind[flagged],
-                            "assumed": assumed[flagged]})
+    return surface_verdict(context, check, params["limit_metal"], params["limit_non_metal"],
+                           cold=True)
 
 
 def word(context, check, params, verdict):
