@@ -47,12 +47,13 @@ CODES = {
     "duplicate-row": "a row equal to an earlier row in every recognised cell",
     "duplicate-tag": "a tag on several differing rows",
     "blank-row": "a row with no cells",
-    "not-in-rules": "a name (material, jacket, site, metal) the rules do not define",
+    "not-in-rules": "a name (material, jacket, site, metal, fluid) the rules do not define",
     "rules-missing": "the rules lack what the row needs (wet_factor, a fitting, a default)",
     "rules-default": "an empty cell filled from the rules' [defaults]",
     "own-air-surroundings": "the row's own ambient used for radiation too",
     "fittings-not-counted": "fittings given on an item that is not a pipe",
     "beyond-fitting-table": "a pipe size beyond the rules' fitting table",
+    "above-boiling-point": "a boiling liquid of the rules hotter than its boiling point",
 }
 
 SEVERITIES = ("reject", "warning")
