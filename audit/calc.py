@@ -26,7 +26,7 @@ import pandas as pd
 
 from audit import methods
 from audit.errors import LagauditError
-from audit.io.readers import read_rows
+from audit.io.readers import read_rows, reader_options
 from audit.pipeline import audit_table
 from audit.rules import Rules, load_rules
 from audit.schema import BY_NAME, SCHEMA
@@ -210,7 +210,7 @@ def _cell(value) -> str:
 def _read_one(cells: dict[str, str], rules: Rules) -> pd.DataFrame:
     """The cells as a one-row register, read by the register reader (one code path)."""
     return read_rows(["tag", *cells], [["calc", *cells.values()]], name="calc",
-                     aliases=rules.aliases or None)
+                     **reader_options(rules))
 
 
 def _as_flags(reason: str) -> str:

@@ -16,7 +16,7 @@ from audit.digests import sha256_file
 from audit.errors import LagauditError
 from audit.history import History, describe_audits, export_audits
 from audit.history.run import HISTORY_OUTPUTS, compare_audit, open_history, record_run
-from audit.io.readers import read_register
+from audit.io.readers import read_register, reader_options
 from audit.io.readers.validate import summarise
 from audit.io.writers.place import OutputFolder
 from audit.outputs import FORMATS, MAX_WORKORDER_PAGES, check_outputs, write_outputs
@@ -311,7 +311,7 @@ def _history(args) -> int:
 
 def _validate(args) -> int:
     rules = load_rules(args.rules)
-    table = read_register(args.registers, sheets=args.sheet, aliases=rules.aliases or None)
+    table = read_register(args.registers, sheets=args.sheet, **reader_options(rules))
     table = resolve_names(table, rules)
     print(printable(summarise(table)))
     return 0

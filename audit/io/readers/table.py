@@ -21,6 +21,7 @@ from audit.io.readers.column import Column, RowNotes
 from audit.io.readers.sheet import MAX_CELL_CHARS, RawSheet
 from audit.io.readers.headers import DN_UNIT, HeaderMap, Lookup, match_headers
 from audit.io.readers.insulation import insulation_layers
+from audit.io.readers.words import NAME_COLUMNS, Vocabulary, translate_layers, translate_names
 from audit.pipe_sizes import OD_MM_BY_NPS
 from audit.schema import BY_NAME, ITEM_COLUMNS, REGISTER_COLUMNS, SCHEMA, STRING_COLUMNS
 from audit.units import UnitParseError, _describe, parse_quantity
@@ -34,6 +35,9 @@ _HEADS_SYNONYMS = (("hemispheric", "hemispherical"), ("hemi", "hemispherical"),
 _ORIENTATION_SYNONYMS = (("horiz", "horizontal"), ("h", "horizontal"), ("vert", "vertical"),
                          ("v", "vertical"), ("facing-up", "up"), ("facing-down", "down"))
 _CONDITION_SYNONYMS = (("good", "intact"),)
+#: Spellings the reader accepts itself, beside the rules' names (not a plant's words).
+_OWN_SPELLINGS = {c: tuple(k for k, _ in pairs) for c, pairs in (
+    ("shape", _SHAPE_SYNONYMS), ("heads", _HEADS_SYNONYMS), ("condition", _CONDITION_SYNONYMS))}
 VESSELS = ("vertical-vessel", "horizontal-vessel")
 SMALLEST_OD_M = OD_MM_BY_NPS["1/8"] / 1000.0
 SIZED = ("pipe", *VESSELS, "sphere")
@@ -74,6 +78,8 @@ class SheetInfo:
     shadowed: list[tuple[str, str]]
     units_assumed: dict[str, tuple[str, int]] = field(default_factory=dict)
     notes: list[str] = field(default_factory=list)
+    #: plant words: column -> {"mapped": {word: [name, rows]}, "unknown": {text: [hints, rows]}}
+    words: dict = field(default_factory=dict)
 
 
 def _check_header_units(raw: RawSheet, header_map: HeaderMap) -> None:
@@ -102,9 +108,10 @@ def _check_header_units(raw: RawSheet, header_map: HeaderMap) -> None:
                                          "temp [degF], thickness [in], od [mm]") from exc
 
 
-def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[pd.DataFrame,
-                                                                               SheetInfo]:
-    """The item table of one sheet, and what was read, for the summary."""
+def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str],
+                vocabulary: Vocabulary | None = None) -> tuple[pd.DataFrame, SheetInfo]:
+    """The item table of one sheet, and what was read, for the summary; a plant's words
+    (``vocabulary``) translated to the rules' names."""
     header_map = match_headers(raw.header, lookup, raw.groups)
     if "tag" not in header_map.columns:
         raise RegisterError("missing the required tag column", file=raw.path,
@@ -124,6 +131,9 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
                      header_map.shadowed, notes=list(raw.notes))
     everyone = np.ones(n, dtype=bool)
     _long_cells(raw, header_map, notes)
+    for c in NAME_COLUMNS:
+        if c in col:
+            translate_names(col[c], vocabulary, info.words, _OWN_SPELLINGS.get(c, ()))
 
     tag = col["tag"]
     out["tag"] = tag.uniques[tag.codes]
@@ -142,7 +152,8 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     condition = _choice(col["condition"], CONDITIONS, _CONDITION_SYNONYMS, "intact", notes,
                         everyone)
     out["condition"] = condition
-    out["layer_materials"], out["layer_thicknesses_m"] = insulation_layers(col, condition, notes)
+    materials, out["layer_thicknesses_m"] = insulation_layers(col, condition, notes)
+    out["layer_materials"] = translate_layers(materials, "layers", vocabulary, info.words)
     _surface(col, notes, out, info)
     for c in PLAIN:
         out[BY_NAME[c].item[0].name] = _plain(col[c], BY_NAME[c].parse, notes, info)
