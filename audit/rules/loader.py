@@ -113,6 +113,9 @@ CHECK_KEYS = ("kind", "enabled", "site", "applies_to", "severity", "source", "de
 _DEFAULT_KEYS = {"site": "site", "jacket": "jacket", "metal": "metal"}
 #: [defaults] keys whose value is free text: the plant's name, under which --history records
 _DEFAULT_TEXT_KEYS = {"plant"}
+#: [defaults] keys that take one of a few words: a design temperature standing in for the
+#: operating one (used with a warning, or refused), and the units of every output
+DEFAULT_CHOICES = {"design_temp": ("use", "refuse"), "units": ("si", "us")}
 
 
 def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> Rules:
@@ -232,12 +235,16 @@ def _read_file(path: Path, collected, aliases, defaults, words) -> None:
                 aliases[column].extend(n for n in names if n not in aliases[column])
         elif section == "defaults":
             for key, value in body.items():
-                if key not in _DEFAULT_KEYS.keys() | _DEFAULT_TEXT_KEYS or not isinstance(value, str):
+                if key not in _DEFAULT_KEYS.keys() | _DEFAULT_TEXT_KEYS | DEFAULT_CHOICES.keys() \
+                        or not isinstance(value, str) \
+                        or value not in DEFAULT_CHOICES.get(key, (value,)):
                     problems.append(Problem(f"unknown or invalid key defaults.{key}", file=str(path),
                                             column=f"defaults.{key}", value=value,
                                             expected=", ".join([f'{k} = "<name of a [{v}.NAME]>"'
                                                                 for k, v in _DEFAULT_KEYS.items()]
-                                                               + ['plant = "<plant name>"'])))
+                                                               + ['plant = "<plant name>"']
+                                                               + [f'{k} = "{" or ".join(v)}"'
+                                                                  for k, v in DEFAULT_CHOICES.items()])))
                 else:
                     defaults[key] = value
         elif section == "thicknesses":

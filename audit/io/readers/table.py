@@ -17,11 +17,13 @@ import pandas as pd
 
 from audit.errors import RegisterError
 from audit.io.readers import cells
+from audit.io.readers.ambiguous import decide_ambiguous, design_temperature
 from audit.io.readers.column import Column, RowNotes
 from audit.io.readers.sheet import MAX_CELL_CHARS, RawSheet
 from audit.io.readers.headers import DN_UNIT, HeaderMap, Lookup, match_headers
 from audit.io.readers.insulation import insulation_layers
-from audit.io.readers.words import NAME_COLUMNS, Vocabulary, translate_layers, translate_names
+from audit.io.readers.plant import PlantRules
+from audit.io.readers.words import NAME_COLUMNS, translate_layers, translate_names
 from audit.pipe_sizes import OD_MM_BY_NPS
 from audit.schema import BY_NAME, ITEM_COLUMNS, REGISTER_COLUMNS, SCHEMA, STRING_COLUMNS
 from audit.units import UnitParseError, _describe, parse_quantity
@@ -80,6 +82,8 @@ class SheetInfo:
     notes: list[str] = field(default_factory=list)
     #: plant words: column -> {"mapped": {word: [name, rows]}, "unknown": {text: [hints, rows]}}
     words: dict = field(default_factory=dict)
+    #: how headers that could mean two things were read (``Area``, a design temperature)
+    decisions: list[str] = field(default_factory=list)
 
 
 def _check_header_units(raw: RawSheet, header_map: HeaderMap) -> None:
@@ -109,15 +113,16 @@ def _check_header_units(raw: RawSheet, header_map: HeaderMap) -> None:
 
 
 def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str],
-                vocabulary: Vocabulary | None = None) -> tuple[pd.DataFrame, SheetInfo]:
+                plant: PlantRules | None = None) -> tuple[pd.DataFrame, SheetInfo]:
     """The item table of one sheet, and what was read, for the summary; a plant's words
-    (``vocabulary``) translated to the rules' names."""
+    (``plant``) translated to the rules' names."""
     header_map = match_headers(raw.header, lookup, raw.groups)
     if "tag" not in header_map.columns:
         raise RegisterError("missing the required tag column", file=raw.path,
                             sheet=raw.sheet or None, row=raw.header_row,
                             expected="a column named tag or " + ", ".join(tag_aliases))
     _check_header_units(raw, header_map)
+    decisions = decide_ambiguous(raw, header_map, lookup)
     n = len(raw.data)
     data = raw.data
     col = {c: Column(c, raw.stripped[header_map.columns[c]] if c in header_map.columns else None,
@@ -128,12 +133,12 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str],
     blank = raw.blank
     out: dict[str, object] = {}
     info = SheetInfo(raw.file, raw.sheet, raw.header_row, n, dict(header_map.headers), [],
-                     header_map.shadowed, notes=list(raw.notes))
+                     header_map.shadowed, notes=list(raw.notes), decisions=decisions)
     everyone = np.ones(n, dtype=bool)
     _long_cells(raw, header_map, notes)
     for c in NAME_COLUMNS:
         if c in col:
-            translate_names(col[c], vocabulary, info.words, _OWN_SPELLINGS.get(c, ()))
+            translate_names(col[c], plant, info.words, _OWN_SPELLINGS.get(c, ()))
 
     tag = col["tag"]
     out["tag"] = tag.uniques[tag.codes]
@@ -149,11 +154,12 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str],
     heads = _choice(col["heads"], HEADS, _HEADS_SYNONYMS, "", notes, vessel)
     out["heads"] = np.where(heads != "", heads, _words(vessel, "ellipsoidal", "none"))
     _temperature(col["temp"], notes, out, info)
+    _design_temperature(header_map, col["temp"], plant, notes, info)
     condition = _choice(col["condition"], CONDITIONS, _CONDITION_SYNONYMS, "intact", notes,
                         everyone)
     out["condition"] = condition
     materials, out["layer_thicknesses_m"] = insulation_layers(col, condition, notes)
-    out["layer_materials"] = translate_layers(materials, "layers", vocabulary, info.words)
+    out["layer_materials"] = translate_layers(materials, "layers", plant, info.words)
     _surface(col, notes, out, info)
     for c in PLAIN:
         out[BY_NAME[c].item[0].name] = _plain(col[c], BY_NAME[c].parse, notes, info)
@@ -305,6 +311,26 @@ def _temperature(column: Column, notes: RowNotes, out, info: SheetInfo) -> None:
                                 f"({unit} if no unit), AMB or normal/max")
     notes.warn(everyone, column.messages([a[4] for a in answers]))
     _note_units(column, unit, info, notes)
+
+
+def _design_temperature(header_map: HeaderMap, column: Column, plant: PlantRules | None,
+                        notes: RowNotes, info: SheetInfo) -> None:
+    """A design temperature standing in for the operating one: a warning on every row it
+    feeds, or, where the rules refuse it, a reason."""
+    header = design_temperature(header_map)
+    if header is None:
+        return
+    if plant is not None and plant.design_temp == "refuse":
+        info.decisions.append(f"header {header!r} is a design temperature and no operating "
+                              'temperature is given: refused ([defaults] design_temp = "refuse")')
+        notes.reject(np.ones(len(column.codes), dtype=bool),
+                     f'temp: only a design temperature (header "{header}") and the rules refuse '
+                     'it ([defaults] design_temp = "refuse"); expected an operating temperature')
+        return
+    info.decisions.append(f"header {header!r} is a design temperature, read as the operating "
+                          "temperature: no operating temperature is given (a warning on each row)")
+    notes.warn(column.given, f'temp: design temperature (header "{header}") used as the '
+                             "operating temperature; the register gives no operating temperature")
 
 
 def _surface(col, notes: RowNotes, out, info: SheetInfo) -> None:

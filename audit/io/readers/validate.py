@@ -81,6 +81,8 @@ def summarise(table: pd.DataFrame, examples: int = 3) -> str:
         for header, column in sheet["shadowed"]:
             lines.append(f"    {header!r} also names {column}; "
                          f"{sheet['recognised'].get(column, '')!r} was used")
+        for decision in sheet.get("decisions", ()):
+            lines.append(f"    {decision}")
         for column, (unit, count) in sheet["units_assumed"].items():
             lines.append(f"    units assumed by default: {column} in {unit} "
                          f"({count} cell{'s' if count != 1 else ''} without a unit)")

@@ -1,7 +1,7 @@
 """A plant's words in the register: cells translated to the rules' names, once per distinct text.
 
 The rules' ``[words.COLUMN]`` tables (:mod:`audit.rules.words`) and the names each column may
-hold come in as a :class:`Vocabulary`.  A cell whose text is a word (ignoring case, spaces,
+hold come in as a :class:`~audit.io.readers.plant.PlantRules`.  A cell whose text is a word (ignoring case, spaces,
 hyphens and underscores) becomes the word's name before it is parsed; the materials inside
 ``layers``/``insulation`` after.  Each sheet records which words it mapped (word -> name,
 rows) and which texts it could not place, with the closest defined names as a hint, for
@@ -10,73 +10,43 @@ rows) and which texts it could not place, with the closest defined names as a hi
 
 from __future__ import annotations
 
-import difflib
-from dataclasses import dataclass, field
-
 import numpy as np
 
 from audit.io.readers.cells import BARE_WORDS, is_bare_number, name
 from audit.io.readers.column import Column
-from audit.rules.words import WORD_COLUMNS, defined_names, table_of, word_key
+from audit.io.readers.plant import PlantRules
 
 #: Columns whose cells are one name each (translated before parsing).
 NAME_COLUMNS = ("shape", "heads", "condition", "jacket", "material", "service", "fluid")
-HINTS = 3  # closest defined names shown for a word that is not placed
 
 
-@dataclass(frozen=True)
-class Vocabulary:
-    """What the reader needs from the rules to read names: the words and the defined names."""
-
-    words: dict = field(default_factory=dict)   #: table -> {key: (name, word as written)}
-    names: dict = field(default_factory=dict)   #: column -> frozenset of defined names
-
-    @classmethod
-    def from_rules(cls, rules) -> "Vocabulary":
-        words = {table: {key: (name, word) for key, (name, word, _) in entries.items()}
-                 for table, entries in rules.words.items()}
-        return cls(words, {column: defined_names(rules, column) for column in WORD_COLUMNS})
-
-    def name_of(self, column: str, text: str) -> tuple[str, str] | None:
-        """``(name, word)`` when ``text`` is one of the column's words, else None."""
-        return self.words.get(table_of(column), {}).get(word_key(text))
-
-    def hints(self, column: str, text: str) -> list[str]:
-        """The closest defined names of the column (by spelling), a hint for a person."""
-        names = {word_key(n): n for n in sorted(self.names.get(column, ()))}
-        key = word_key(text)
-        holding = [k for k in names if key and (key in k or k in key)]
-        close = difflib.get_close_matches(key, list(names), HINTS, 0.5)
-        return [names[k] for k in dict.fromkeys(holding + close)][:HINTS]
-
-
-def translate_names(column: Column, vocabulary: Vocabulary | None, record: dict,
+def translate_names(column: Column, plant: PlantRules | None, record: dict,
                     known: tuple = ()) -> None:
     """Replace each distinct text of a name column that is a word by the word's name, in place;
     what was mapped and what is left unplaced (neither a defined name, a word, nor one of
     ``known``, the reader's own spellings) goes into ``record`` (see :func:`note`)."""
-    if not column.present or vocabulary is None:
+    if not column.present or plant is None:
         return
     rows = np.bincount(column.codes, minlength=len(column.uniques))
     uniques = column.uniques.copy()
     for i, text in enumerate(column.uniques):
         if text == "":
             continue
-        hit = vocabulary.name_of(column.name, text)
+        hit = plant.name_of(column.name, text)
         if hit is not None:
             uniques[i] = hit[0]
             note(record, column.name, "mapped", hit[1], hit[0], rows[i])
-        elif column.name in vocabulary.names and name(text) not in known \
-                and not _placed(vocabulary, column.name, text):
-            note(record, column.name, "unknown", text, vocabulary.hints(column.name, text), rows[i])
+        elif column.name in plant.names and name(text) not in known \
+                and not _placed(plant, column.name, text):
+            note(record, column.name, "unknown", text, plant.hints(column.name, text), rows[i])
     column.uniques = uniques
 
 
-def translate_layers(materials: np.ndarray, column: str, vocabulary: Vocabulary | None,
+def translate_layers(materials: np.ndarray, column: str, plant: PlantRules | None,
                      record: dict) -> np.ndarray:
     """Each row's tuple of layer materials with words replaced by their names (one look-up per
     distinct tuple); mapped and unplaced materials go into ``record``."""
-    if vocabulary is None or not len(materials):
+    if plant is None or not len(materials):
         return materials
     distinct: dict = {}
     codes = np.empty(len(materials), dtype=np.intp)
@@ -90,21 +60,21 @@ def translate_layers(materials: np.ndarray, column: str, vocabulary: Vocabulary 
             continue
         named = []
         for material in value:
-            hit = vocabulary.name_of(column, material)
+            hit = plant.name_of(column, material)
             if hit is not None:
                 note(record, column, "mapped", hit[1], hit[0], rows[k])
-            elif not _placed(vocabulary, column, material):
-                note(record, column, "unknown", material, vocabulary.hints(column, material),
+            elif not _placed(plant, column, material):
+                note(record, column, "unknown", material, plant.hints(column, material),
                      rows[k])
             named.append(hit[0] if hit is not None else material)
         out[k] = tuple(named)
     return out[codes]
 
 
-def _placed(vocabulary: Vocabulary, column: str, text: str) -> bool:
+def _placed(plant: PlantRules, column: str, text: str) -> bool:
     """A text is placed when it is a defined name as the reader normalises names, or a word
     the reader itself knows (``none``, an emissivity in ``jacket``)."""
-    return (name(text) in vocabulary.names[column] or text.lower() in BARE_WORDS
+    return (name(text) in plant.names[column] or text.lower() in BARE_WORDS
             or is_bare_number(text))
 
 
