@@ -13,6 +13,7 @@ from audit import __version__
 from audit.calc import add_calc_arguments, run_calc
 from audit.cautions import CAUTION
 from audit.digests import sha256_file
+from audit.display_units import SYSTEMS
 from audit.errors import LagauditError
 from audit.history import History, describe_audits, export_audits
 from audit.history.run import HISTORY_OUTPUTS, compare_audit, open_history, record_run
@@ -168,6 +169,10 @@ def _audit_options(parser):
     parser.add_argument("--plant", metavar="NAME",
                         help="the plant's name in the history, with --history (default: the "
                              "rules' [defaults] plant)")
+    parser.add_argument("--units", choices=SYSTEMS, metavar="SYSTEM",
+                        help="units of every output: si (degC, mm, m, W, W/m, W/m2, kg/h) or us "
+                             "(degF, in, ft, Btu/h, Btu/h/ft, Btu/(h ft2), lb/h); default: the "
+                             "rules' [defaults] units, else si")
     talk = parser.add_mutually_exclusive_group()
     talk.add_argument("-q", "--quiet", action="store_true",
                       help="print nothing but errors (the exit code still tells)")
@@ -240,7 +245,8 @@ def _audit_and_write(registers, args) -> int:
                                   fallback=DEMO_PLANT if args.run is _demo else None)
         bar.advance()
         written = write_outputs(audit, folder, formats, _meta(audit, registers, args), bar.advance,
-                                workorder_pages=args.workorder_pages)
+                                workorder_pages=args.workorder_pages,
+                                units=args.units or audit.rules.defaults.get("units", "si"))
         if history is not None:
             closed, recorded = record_run(history, audit, registers, folder,
                                           surface_model=args.surface_model)

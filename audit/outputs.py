@@ -16,31 +16,43 @@ from pathlib import Path
 
 import pandas as pd
 
+from audit import display_units
 from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
 from audit.io.writers.place import OutputFolder
 from audit.progress import printable
 
 
-def _csv(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
-    findings = audit.findings.drop(columns=["row"])
-    jobs = [(audit.results, "results.csv"), (findings, "findings.csv")]
+def shown(audit, table: pd.DataFrame, units: str = "si") -> pd.DataFrame:
+    """One of the audit's tables as written, in the run's unit system (``units``); the
+    register's carried-through columns are left as the register wrote them."""
+    return display_units.frame(table, units, keep=audit.results.attrs.get("carried", ()))
+
+
+def _csv(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
+         **options) -> list[Path]:
+    findings = shown(audit, audit.findings.drop(columns=["row"]), units)
+    jobs = [(shown(audit, audit.results, units), "results.csv"), (findings, "findings.csv")]
     # Two threads: much of the writing is numpy formatting and file output, which let go of
     # the interpreter lock, so the two files overlap.
     with ThreadPoolExecutor(2) as pool:
         return list(pool.map(lambda job: placed(folder, job[1], write_csv, job[0]), jobs))
 
 
-def _json(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
-    return [placed(folder, "results.json", write_json, audit.results, meta=meta)]
+def _json(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
+          **options) -> list[Path]:
+    return [placed(folder, "results.json", write_json, shown(audit, audit.results, units),
+                   meta={**meta, "units": units})]
 
 
-def _xlsx(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
-    results, economics = audit.results, audit.economics
+def _xlsx(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
+          **options) -> list[Path]:
+    results, economics = shown(audit, audit.results, units), audit.economics
     rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
-    sheets = {"results": results, "findings": audit.findings.drop(columns=["row"]),
+    sheets = {"results": results, "findings": shown(audit, audit.findings.drop(columns=["row"]), units),
               "rejected": rejected, "summary": summary_sheet(results, audit.findings),
-              "by area": economics.by_area, "by check": economics.by_check,
-              "best paybacks": economics.top_repairs,
+              "by area": shown(audit, economics.by_area, units),
+              "by check": shown(audit, economics.by_check, units),
+              "best paybacks": shown(audit, economics.top_repairs, units),
               "assumptions": pd.DataFrame(economics.assumptions)}
     notes = []
     written = [placed(folder, "results.xlsx", write_xlsx, sheets, notes=notes)]
@@ -51,14 +63,14 @@ def _xlsx(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Pat
 
 
 def _reports(audit, folder: OutputFolder, meta: dict, asked, *, workorder_pages: int | None = None,
-             **options) -> list[Path]:
+             units: str = "si", **options) -> list[Path]:
     from audit.report import write_reports  # weasyprint loads in ~0.7 s: only when asked
 
     reports = [f for f in asked if f in ("html", "pdf")]
     # The work-order packs are PDFs too: they come with the PDF report.
     return write_reports(audit, folder.root, meta=meta, economics=audit.economics,
                          formats=reports + (["workorders"] if "pdf" in reports else []),
-                         max_pages=workorder_pages)
+                         max_pages=workorder_pages, units=units)
 
 
 #: Most item pages in the work-order PDF packs, the most severe first (``--workorder-pages``

@@ -73,11 +73,14 @@ def build_results(table: pd.DataFrame, states: pd.DataFrame, *, findings=None,
     out["wind [m/s]"] = states["wind_m_s"].to_numpy(float)
     out["emissivity [-]"] = states["emissivity_used"].to_numpy(float)
     out["warnings"] = ["; ".join(w for w in (a, b) if w) for a, b in zip(warnings, engine_warnings)]
+    carried = []
     for column in _extra_columns(table):
         # An input column that happens to share a result column's name keeps its data.
         name = column if column not in out.columns else f"input:{column}"
         out[name] = table[column].to_numpy(object)
+        carried.append(name)
     out.index = table.index
+    out.attrs["carried"] = tuple(carried)  # the register's own columns: no unit conversion
     return out
 
 
