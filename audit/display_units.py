@@ -56,7 +56,9 @@ US_UNITS = {
 _HEADER = re.compile(r"^(?P<name>.*\S) \[(?P<unit>[^\[\]]+)\]$")
 # A number and a unit of the table inside text; longest units first, each a whole word.
 _IN_TEXT = re.compile(r"(?<![\w.])(?P<number>-?\d+(?:\.(?P<decimals>\d+))?) ?"
-                      r"(?P<unit>degC|W/m2|W/m|W|kg/h|kg/s|mm|m/s|m2|m|MWh|K)(?![\w/²])")
+                      r"(?P<unit>degC|°C|W/m2|W/m|W|kg/h|kg/s|mm|m/s|m2|m²|m|MWh|K)(?![\w/²])")
+#: Units written as symbols in the reports: (the table's SI label, the US symbol)
+_SYMBOLS = {"°C": ("degC", "°F"), "m²": ("m2", "ft²")}
 
 
 def check_system(units: str) -> str:
@@ -144,12 +146,18 @@ def text(message: str) -> str:
 
 
 def _reworded(match: re.Match) -> str:
-    unit = US_UNITS[match["unit"]]
-    value = float(to_us(float(match["number"]), match["unit"]))
+    si_label, label = _SYMBOLS.get(match["unit"], (match["unit"], None))
+    unit = US_UNITS[si_label]
+    value = float(to_us(float(match["number"]), si_label))
     decimals = max(len(match["decimals"] or ""), unit.decimals)
     if not math.isfinite(value):
         return match.group(0)
-    return f"{value:.{decimals}f} {unit.label}"
+    return f"{value:.{decimals}f} {label or unit.label}"
+
+
+def named(name: str, si_label: str, units: str) -> str:
+    """The header of a column of ``name`` whose SI unit is ``si_label``, in ``units``."""
+    return f"{name} [{us_label(si_label, units)}]"
 
 
 def us_label(si_label: str, units: str) -> str:
