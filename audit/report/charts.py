@@ -176,16 +176,17 @@ CHECK_COLOURS = ("#1f4e79", "#c2410c", "#d9a21b", "#5b8c5a", "#7b9ebf", "#8e5572
 
 
 def audit_trend(labels, heat_loss_kw, cost, by_check: pd.DataFrame, currency: str,
-                top: int = MAX_BARS) -> Markup | None:
-    """One row per audit (oldest first, the latest ``top``): plant heat loss, annual cost, and
-    the findings stacked by check.  ``by_check``: one row per audit, one column per check."""
+                top: int = MAX_BARS, power: str = "kW") -> Markup | None:
+    """One row per audit (oldest first, the latest ``top``): plant heat loss (in ``power``:
+    kW, or kBtu/h), annual cost, and the findings stacked by check.  ``by_check``: one row per
+    audit, one column per check."""
     if len(labels) < 1:
         return None
     labels, heat_loss_kw, cost = list(labels)[-top:], np.asarray(heat_loss_kw, float)[-top:], \
         np.asarray(cost, float)[-top:]
     by_check = by_check.iloc[-top:]
     panel = (WIDTH - LABEL - 20) / 3
-    columns = [(LABEL, heat_loss_kw, "plant heat loss [kW]"),
+    columns = [(LABEL, heat_loss_kw, f"plant heat loss [{power}]"),
                (LABEL + panel, cost, f"annual cost [{currency}]")]
     parts = []
     for x0, values, title in columns:

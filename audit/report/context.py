@@ -121,7 +121,7 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "methods": [{name: Markup(methods.to_html(value)) for name, value in m._asdict().items()}
                     for m in methods.METHODS],
         "method_notes": [Markup(methods.to_html(note)) for note in methods.NOTES],
-        "since_last": _since_last(audit, max_rows),
+        "since_last": _since_last(audit, max_rows, units),
         "packs": packs,
     }
     context["charts"] = {
@@ -134,13 +134,13 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
     return context
 
 
-def _since_last(audit, max_rows: int) -> dict | None:
+def _since_last(audit, max_rows: int, units: str = "si") -> dict | None:
     """The "Since the last audit" section, when the audit was compared with its history."""
     if getattr(audit, "history", None) is None:
         return None
     from audit.history.section import since_last_section
 
-    return since_last_section(audit.history, audit, max_rows=max_rows)
+    return since_last_section(audit.history, audit, max_rows=max_rows, units=units)
 
 
 def _meta(audit, meta: dict) -> dict:
