@@ -8,6 +8,7 @@ from dataclasses import dataclass, field
 from audit.rules.words import WORD_COLUMNS, defined_names, table_of, word_key
 
 HINTS = 3  # closest defined names shown for a word that is not placed
+MAX_HINTED_CHARS = 64  # a longer text is no misspelt name: no hint sought
 
 
 @dataclass(frozen=True)
@@ -32,6 +33,8 @@ class PlantRules:
 
     def hints(self, column: str, text: str) -> list[str]:
         """The closest defined names of the column (by spelling), a hint for a person."""
+        if len(text) > MAX_HINTED_CHARS:
+            return []
         names = {word_key(n): n for n in sorted(self.names.get(column, ()))}
         key = word_key(text)
         holding = [k for k in names if key and (key in k or k in key)]

@@ -101,9 +101,13 @@ def plant_words(sheets: list[dict]) -> list[str]:
     """The summary's lines on a plant's words: every word mapped to a rules' name, and every
     name that is neither defined nor a word, with the closest defined names (a hint only)."""
     merged: dict = {}
+    more: dict = {}
     for sheet in sheets:
         for column, kinds in sheet.get("words", {}).items():
             for kind, entries in kinds.items():
+                if kind == "more":
+                    more[column] = [a + b for a, b in zip(more.get(column, [0, 0]), entries)]
+                    continue
                 for text, (detail, rows) in entries.items():
                     entry = merged.setdefault((column, kind), {}).setdefault(text, [detail, 0])
                     entry[1] += rows
@@ -119,6 +123,7 @@ def plant_words(sheets: list[dict]) -> list[str]:
                      for t, (d, r) in e.items())
     lines += [f"  {c}: {t!r} ({_rows(r)}); closest: {', '.join(d) or 'none'}"
               for c, t, d, r in unknown] or ["  none"]
+    lines += [f"  {c}: {n} more names not listed ({_rows(r)})" for c, (n, r) in sorted(more.items())]
     return lines
 
 

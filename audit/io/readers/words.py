@@ -11,11 +11,13 @@ rows) and which texts it could not place, with the closest defined names as a hi
 from __future__ import annotations
 
 import numpy as np
+import pandas as pd
 
 from audit.io.readers.cells import BARE_WORDS, is_bare_number, name
 from audit.io.readers.column import Column
 from audit.io.readers.plant import PlantRules
 
+MAX_LISTED = 50  # names listed per column and kind in the summary; the rest are counted
 #: Columns whose cells are one name each (translated before parsing).
 NAME_COLUMNS = ("shape", "heads", "condition", "jacket", "material", "service", "fluid")
 
@@ -38,7 +40,8 @@ def translate_names(column: Column, plant: PlantRules | None, record: dict,
             note(record, column.name, "mapped", hit[1], hit[0], rows[i])
         elif column.name in plant.names and name(text) not in known \
                 and not _placed(plant, column.name, text):
-            note(record, column.name, "unknown", text, plant.hints(column.name, text), rows[i])
+            note(record, column.name, "unknown", text,
+                 lambda text=text: plant.hints(column.name, text), rows[i])
     column.uniques = uniques
 
 
@@ -48,13 +51,10 @@ def translate_layers(materials: np.ndarray, column: str, plant: PlantRules | Non
     distinct tuple); mapped and unplaced materials go into ``record``."""
     if plant is None or not len(materials):
         return materials
-    distinct: dict = {}
-    codes = np.empty(len(materials), dtype=np.intp)
-    for i, value in enumerate(materials):
-        codes[i] = distinct.setdefault(value, len(distinct))
+    codes, distinct = pd.factorize(materials, use_na_sentinel=False)
     rows = np.bincount(codes, minlength=len(distinct))
     out = np.empty(len(distinct), dtype=object)
-    for value, k in distinct.items():
+    for k, value in enumerate(distinct):
         if not isinstance(value, tuple):
             out[k] = value
             continue
@@ -64,8 +64,8 @@ def translate_layers(materials: np.ndarray, column: str, plant: PlantRules | Non
             if hit is not None:
                 note(record, column, "mapped", hit[1], hit[0], rows[k])
             elif not _placed(plant, column, material):
-                note(record, column, "unknown", material, plant.hints(column, material),
-                     rows[k])
+                note(record, column, "unknown", material,
+                     lambda material=material: plant.hints(column, material), rows[k])
             named.append(hit[0] if hit is not None else material)
         out[k] = tuple(named)
     return out[codes]
@@ -79,6 +79,13 @@ def _placed(plant: PlantRules, column: str, text: str) -> bool:
 
 
 def note(record: dict, column: str, kind: str, text: str, detail, rows) -> None:
-    """``record[column][kind][text] = [detail, rows]``, rows added up over sheets' columns."""
-    entry = record.setdefault(column, {}).setdefault(kind, {}).setdefault(text, [detail, 0])
+    """``record[column][kind][text] = [detail, rows]``, rows added up over sheets' columns;
+    past :data:`MAX_LISTED` texts of a kind, counted under ``more`` instead (a hostile
+    register may hold a million distinct names)."""
+    entries = record.setdefault(column, {}).setdefault(kind, {})
+    if text not in entries and len(entries) >= MAX_LISTED:
+        more = record[column].setdefault("more", [0, 0])
+        more[0], more[1] = more[0] + 1, more[1] + int(rows)
+        return
+    entry = entries.setdefault(text, [detail() if callable(detail) else detail, 0])
     entry[1] += int(rows)

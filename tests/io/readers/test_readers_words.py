@@ -73,3 +73,10 @@ def test_words_are_looked_up_once_per_distinct_text(tmp_path, plant_rules):
     assert (table["status"] == "ok").all()
     assert len({id(t) for t in table["layer_materials"]}) == 1  # one tuple shared by all rows
     assert "layers: 'MW' -> mineral-wool (2000 rows)" in summarise(table)
+
+
+def test_names_not_placed_are_listed_up_to_a_cap_then_counted(tmp_path, plant_rules):
+    rows = "".join(f"L-{i},4,10,250,foam{i:03d} 50,SS,CS,intact,,no\n" for i in range(60))
+    text = summarise(read(tmp_path, plant_rules, REGISTER.splitlines(True)[0] + rows))
+    assert text.count("; closest:") == 50
+    assert "layers: 10 more names not listed (10 rows)" in text
