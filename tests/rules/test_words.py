@@ -44,20 +44,22 @@ def test_insulation_words_are_the_layers_table(tmp_path):
     assert rules.words["layers"]["rw"][0] == "mineral-wool"
 
 
-def test_one_word_to_two_names_in_one_file_names_file_and_key(tmp_path):
-    plant = write(tmp_path / "p", '[words.layers]\n"M-W" = "mineral-wool"\nmw = "cellular-glass"\n')
+def refused(tmp_path, text) -> str:
+    """The RuleError text of a plant file holding ``text``; it names the file."""
     with pytest.raises(RuleError) as info:
-        load_rules([plant])
-    text = str(info.value)
-    assert "plant.toml" in text and "words.layers.mw" in text and "two names" in text
+        load_rules([write(tmp_path / "p", text)])
+    assert "plant.toml" in str(info.value)
+    return str(info.value)
+
+
+def test_one_word_to_two_names_in_one_file_names_file_and_key(tmp_path):
+    text = refused(tmp_path, '[words.layers]\n"M-W" = "mineral-wool"\nmw = "cellular-glass"\n')
+    assert "words.layers.mw" in text and "two names" in text
 
 
 def test_word_to_an_undefined_name_names_file_and_key(tmp_path):
-    plant = write(tmp_path / "p", '[words.jacket]\nAlu = "aluminum"\n')
-    with pytest.raises(RuleError) as info:
-        load_rules([plant])
-    text = str(info.value)
-    assert "plant.toml" in text and "words.jacket.Alu" in text and "not defined" in text
+    text = refused(tmp_path, '[words.jacket]\nAlu = "aluminum"\n')
+    assert "words.jacket.Alu" in text and "not defined" in text
     assert "aluminium-oxidised" in text  # what is defined
 
 
