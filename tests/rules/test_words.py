@@ -1,6 +1,7 @@
 """A plant's words for the rules' names (audit/rules/words.py): loading, layering, bad tables."""
 
 import pytest
+from hypothesis import given, strategies as st
 
 from audit.errors import RuleError
 from audit.rules import load_rules
@@ -84,3 +85,14 @@ def test_fluid_words_are_checked_against_the_fluids_the_rules_define(tmp_path):
     assert WORD_COLUMNS["fluid"] == "fluid"
     with pytest.raises(RuleError, match="words.fluid.LN2"):
         load_rules([write(tmp_path / "p", '[words.fluid]\nLN2 = "no-such-fluid"\n')])
+
+
+@given(st.sampled_from(sorted(load_rules().words["layers"].items())),
+       st.lists(st.sampled_from(["", " ", "-", "_"]), min_size=1, max_size=12),
+       st.booleans())
+def test_any_spelling_of_case_spaces_hyphens_underscores_maps_the_same(entry, fillers, upper):
+    key, (name, word, _) = entry
+    spelt = "".join(ch + fillers[i % len(fillers)] for i, ch in enumerate(word))
+    spelt = spelt.upper() if upper else spelt.lower()
+    assert word_key(spelt) == key
+

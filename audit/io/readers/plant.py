@@ -32,10 +32,13 @@ class PlantRules:
         return self.words.get(table_of(column), {}).get(word_key(text))
 
     def hints(self, column: str, text: str) -> list[str]:
-        """The closest defined names of the column (by spelling), a hint for a person."""
+        """The closest defined names and words of the column (by spelling), a hint for a
+        person: ``calcium-silicate`` or ``calcium-silicate (word CaSi)``."""
         if len(text) > MAX_HINTED_CHARS:
             return []
-        names = {word_key(n): n for n in sorted(self.names.get(column, ()))}
+        words = self.words.get(table_of(column), {})
+        names = {key: f"{name} (word {word})" for key, (name, word) in sorted(words.items())}
+        names.update({word_key(n): n for n in sorted(self.names.get(column, ()))})
         key = word_key(text)
         holding = [k for k in names if key and (key in k or k in key)]
         close = difflib.get_close_matches(key, list(names), HINTS, 0.5)

@@ -80,3 +80,11 @@ def test_names_not_placed_are_listed_up_to_a_cap_then_counted(tmp_path, plant_ru
     text = summarise(read(tmp_path, plant_rules, REGISTER.splitlines(True)[0] + rows))
     assert text.count("; closest:") == 50
     assert "layers: 10 more names not listed (10 rows)" in text
+
+
+def test_a_near_miss_is_hinted_never_applied(tmp_path, plant_rules):
+    table = read(tmp_path, plant_rules, REGISTER.splitlines(True)[0]
+                 + "L-9,4,10,250,CaSj 50,SS,CS,intact,,no\n")
+    assert table.loc[0, "status"] == "rejected"
+    assert table.loc[0, "layer_materials"] == ("casj",)
+    assert "layers: 'casj' (1 row); closest: calcium-silicate (word CaSi)" in summarise(table)
