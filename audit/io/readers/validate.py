@@ -118,7 +118,8 @@ def plant_words(sheets: list[dict]) -> list[str]:
                     for t, (d, r) in e.items())
     lines += [f"  {c}: {t!r} -> {d} ({_rows(r)})" for c, t, d, r in mapped] or ["  none"]
     lines += ["", "Names neither defined nor a plant word (add a [words] entry or a definition "
-                  "to a rule file;", "the closest defined names and words are a hint only, never applied):"]
+                  "to a rule file;",
+              "the closest defined names and words are a hint only, never applied):"]
     unknown = sorted((c, t, d, r) for (c, k), e in merged.items() if k == "unknown"
                      for t, (d, r) in e.items())
     lines += [f"  {c}: {t!r} ({_rows(r)}); closest: {', '.join(d) or 'none'}"
