@@ -141,8 +141,12 @@ def texts(series: pd.Series) -> pd.Series:
 @lru_cache(maxsize=65536)
 def text(message: str) -> str:
     """``message`` with each ``<number> <SI unit>`` of the table written in US units, at the
-    precision it was written in, or the unit's fewest decimals if more."""
-    return _IN_TEXT.sub(_reworded, message)
+    precision it was written in, or the unit's fewest decimals if more.  Text in double
+    quotes is a register cell quoted as written (``thickness: "50 degC" is not ...``) and
+    stays as it is."""
+    parts = message.split('"')
+    return '"'.join(part if k % 2 else _IN_TEXT.sub(_reworded, part)
+                    for k, part in enumerate(parts))
 
 
 def _reworded(match: re.Match) -> str:

@@ -75,6 +75,8 @@ def test_findings_value_and_limit_follow_their_unit():
                                                   "6.7 mph"),
     ("NPS 4 (DN100), 2 valves, 80 % RH", "NPS 4 (DN100), 2 valves, 80 % RH"),
     ("50mm", "1.97 in"),
+    ('length: "5 degC" is not a length; expected a length above 0 m',  # the cell as written
+     'length: "5 degC" is not a length; expected a length above 0 ft'),
 ])
 def test_quantities_in_messages(si, us):
     assert text(si) == us
