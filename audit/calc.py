@@ -28,6 +28,7 @@ from audit import methods
 from audit.errors import LagauditError
 from audit import display_units
 from audit.io.readers import read_rows, reader_options
+from audit.problems import problems_of
 from audit.pipeline import audit_table
 from audit.rules import Rules, load_rules
 from audit.schema import BY_NAME, SCHEMA
@@ -174,7 +175,9 @@ def calc_item(*, rules: Rules | None = None, rules_dirs=(), surface_model: str =
     table = resolve_names(_read_one(cells, rules), rules)
     row = table.iloc[0]
     if row["status"] != "ok":
-        raise LagauditError(f"the item cannot be computed: {_as_flags(row['reason'])}")
+        found = problems_of(table).of_rows(table.index[:1])
+        raise LagauditError("the item cannot be computed: "
+                            + _as_flags(found[found["severity"] == "reject"]))
     audit = audit_table(table, rules, surface_model=surface_model)
     state = audit.states.iloc[0]
     if not bool(state["computed"]):
@@ -197,13 +200,10 @@ def _read_one(cells: dict[str, str], rules: Rules) -> pd.DataFrame:
                      **reader_options(rules))
 
 
-def _as_flags(reason: str) -> str:
-    """A reader reason ('length: "TBA" is not ...') in terms of the flags ('--length ...')."""
-    parts = []
-    for part in reason.split("; "):
-        column, sep, rest = part.partition(": ")
-        parts.append(f"--{column}: {rest}" if sep and column in FLAG_COLUMNS else part)
-    return "; ".join(parts)
+def _as_flags(found: pd.DataFrame) -> str:
+    """The row's problems in terms of the flags (``--length: "TBA" is not ...``)."""
+    return "; ".join(f"--{column}: {text[len(column) + 2:]}" if column in FLAG_COLUMNS else text
+                     for column, text in zip(found["column"], found["text"]))
 
 
 def format_calc(result: CalcResult, units: str = "si") -> str:

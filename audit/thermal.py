@@ -24,6 +24,7 @@ from audit.engine import ConductivityTables, ItemBatch, solve_items
 from audit.engine.batch import surfaces
 from audit.engine.items import HEAD_CODES, ORIENTATION_CODES, SHAPE_CODES
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
+from audit.problems import Problem, append_texts, problems_of, records, words
 from audit.repeats import map_values, per_distinct, tuples_of
 from audit.rules import Rules
 
@@ -34,11 +35,12 @@ _OD_OF_NPS = {value: mm / 1000.0 for _, value, _, mm in NOMINAL_PIPE_SIZES}
 def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> pd.DataFrame:
     """Reject rows whose names the rules do not define, or whose condition lacks data.
 
-    Returns a copy of ``table`` with ``status`` and ``reason`` updated; rows already
-    rejected keep their reasons and gain any new ones.  Each distinct combination of the
-    cells involved is judged once (a register repeats a few hundred of them).  With
-    ``notes``, ``warnings`` also says where a row falls back on a default of the rules (an
-    internal copy that is only solved, never reported, can skip that).
+    Returns a copy of ``table`` with ``status`` and ``reason`` updated, and the problems
+    recorded (:func:`audit.problems.problems_of`); rows already rejected keep their reasons and
+    gain any new ones.  Each distinct combination of the cells involved is judged once (a
+    register repeats a few hundred of them).  With ``notes``, ``warnings`` also says where a
+    row falls back on a default of the rules (an internal copy that is only solved, never
+    reported, can skip that).
     """
     out = table.copy()
     count = {c: pd.to_numeric(out[c], errors="coerce").fillna(0).to_numpy() > 0
@@ -46,82 +48,109 @@ def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> p
     # A damaged share the reader could not read is its reason already, not "empty" here.
     damaged_given = (out["raw:damaged"].fillna("").astype(str).str.strip() != "").to_numpy() \
         if "raw:damaged" in out else np.zeros(len(out), bool)
-    added = per_distinct(
-        lambda *key: "; ".join(_name_problems(key, rules)),
+    found = per_distinct(
+        lambda *key: tuple(_name_problems(key, rules)),
         out["layer_materials"].to_numpy(object), out["condition"].fillna("").to_numpy(object),
         out["jacket"].fillna("").to_numpy(object), np.isfinite(out["emissivity"].to_numpy(float)),
         out["location"].fillna("").to_numpy(object), out["material"].fillna("").to_numpy(object),
         count["valves"], count["flanges"],
         np.isfinite(out["damaged_pct"].to_numpy(float)) | damaged_given, table_surfaces(out)[1])
-    if notes:
-        _note_defaults(out, rules)
-    has = added != ""
-    out.loc[has, "reason"] = [
-        f"{old}; {new}" if old else new for old, new in zip(out.loc[has, "reason"], added[has])]
+    has = np.fromiter((len(f) > 0 for f in found), dtype=bool, count=len(found))
+    rows = np.repeat(np.flatnonzero(has), [len(f) for f in found[has]])
+    parts = [p for f in found[has] for p in f]
+    recorded = [_recorded(out, "reject", rows, parts)]
     out.loc[has, "status"] = "rejected"
+    if notes:
+        recorded += _note_defaults(out, rules)
+    out.attrs["problems"] = problems_of(out).plus(pd.concat(recorded, ignore_index=True))
     return out
 
 
-def _name_problems(key, rules: Rules) -> list[str]:
-    """What is wrong with one combination of a row's names and condition."""
+def _recorded(out: pd.DataFrame, severity: str, rows: np.ndarray,
+              parts: list[tuple]) -> pd.DataFrame:
+    """Add ``(column, value, problem)`` of each of ``rows`` (positions) to its ``reason`` or
+    ``warnings``, and return them as problem records."""
+    texts = np.array([words(*p) for p in parts], dtype=object)
+    column = "reason" if severity == "reject" else "warnings"
+    target = out[column].fillna("").to_numpy(dtype=object, copy=True)
+    append_texts(target, rows, texts)
+    out[column] = pd.Series(target, index=out.index, dtype="str")
+    field = lambda i: np.array([p[i] for p in parts], dtype=object)  # noqa: E731
+    return records(out.index.to_numpy()[rows], field(0), np.array(
+        [p[2].code for p in parts], dtype=object), field(1), np.array(
+        [p[2].expected for p in parts], dtype=object), severity, texts)
+
+
+def _name_problems(key, rules: Rules) -> list[tuple]:
+    """What is wrong with one combination of a row's names and condition: ``(column, value,
+    problem)`` each."""
     layers, condition, jacket, has_eps, location, metal, valves, flanges, has_damage, bare_part = key
     materials, jackets, sites, metals = rules.materials, rules.jackets, rules.sites, rules.metals
     problems = []
     names = layers if isinstance(layers, tuple) else ()
     for name in dict.fromkeys(names):
         if name not in materials:
-            problems.append(f'layers: material "{name}" is not in the rules; expected one of '
-                            f'{_listing(materials)} (or add it to a rule file)')
+            problems.append(("layers", None, Problem(
+                "not-in-rules", f'material "{name}" is not in the rules',
+                f"one of {_listing(materials)} (or add it to a rule file)")))
         elif condition == "wet" and not np.isfinite(materials[name].wet_factor):
-            problems.append(f'condition: "wet" but material "{name}" has no wet_factor in the '
-                            "rules; add wet_factor and wet_source to it")
+            problems.append(("condition", None, Problem(
+                "rules-missing", f'"wet" but material "{name}" has no wet_factor in the rules; '
+                "add wet_factor and wet_source to it")))
     if jacket and jacket not in jackets:
-        problems.append(f'jacket: "{jacket}" is not in the rules; expected one of '
-                        f"{_listing(jackets)}, or give an emissivity (0-1)")
+        problems.append(("jacket", jacket, Problem(
+            "not-in-rules", "is not in the rules",
+            f"one of {_listing(jackets)}, or give an emissivity (0-1)")))
     elif names and not jacket and not has_eps and "jacket" not in rules.defaults:
-        problems.append("jacket: empty and no emissivity on the row; expected a jacket name "
-                        "or an emissivity, or [defaults] jacket in the rules")
+        problems.append(("jacket", None, Problem(
+            "empty", "empty and no emissivity on the row",
+            "a jacket name or an emissivity, or [defaults] jacket in the rules")))
     if location and location not in sites:
-        problems.append(f'location: "{location}" is not a site condition in the rules; '
-                        f"expected one of {_listing(sites)}")
+        problems.append(("location", location, Problem(
+            "not-in-rules", "is not a site condition in the rules", f"one of {_listing(sites)}")))
     if metal and metal not in metals:
-        problems.append(f'material: metal "{metal}" is not in the rules; expected one of '
-                        f"{_listing(metals)}")
+        problems.append(("material", None, Problem(
+            "not-in-rules", f'metal "{metal}" is not in the rules', f"one of {_listing(metals)}")))
     if bare_part and not has_eps and not metal and "metal" not in rules.defaults:
-        problems.append("material: needed for the bare-metal emissivity; expected a metal "
-                        "name, an emissivity on the row, or [defaults] metal in the rules")
+        problems.append(("material", None, Problem(
+            "empty", "needed for the bare-metal emissivity",
+            "a metal name, an emissivity on the row, or [defaults] metal in the rules")))
     for given, column, fitting in ((valves, "valves", "valve"), (flanges, "flanges", "flange")):
         if given and fitting not in rules.fittings:
-            problems.append(f"{column}: uninsulated fittings given but the rules define no "
-                            f"[fitting.{fitting}] equivalent length; add one to a rule file")
+            problems.append((column, None, Problem(
+                "rules-missing", "uninsulated fittings given but the rules define no "
+                f"[fitting.{fitting}] equivalent length; add one to a rule file")))
     if condition == "damaged" and not has_damage:
-        problems.append('damaged: empty but condition is "damaged"; expected the share of the '
-                        "length without insulation, in %")
+        problems.append(("damaged", None, Problem(
+            "empty", 'empty but condition is "damaged"',
+            "the share of the length without insulation, in %")))
     return problems
 
 
-def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
-    """Say in ``warnings`` where a row falls back on a default of the rules."""
+def _note_defaults(table: pd.DataFrame, rules: Rules) -> list[pd.DataFrame]:
+    """Say in ``warnings`` where a row falls back on a default of the rules; the records."""
     insulated, bare_part = table_surfaces(table)
     no_eps = ~np.isfinite(table["emissivity"].to_numpy(float))
     notes = []
-    if "jacket" in rules.defaults:
-        notes.append((insulated & (table["jacket"].fillna("") == "") & no_eps,
-                      f'jacket: empty, "{rules.defaults["jacket"]}" assumed (rules default)'))
-    if "metal" in rules.defaults:
-        notes.append((bare_part & (table["material"].fillna("") == "") & no_eps,
-                      f'material: empty, "{rules.defaults["metal"]}" assumed for bare metal (rules default)'))
-    if "site" in rules.defaults:
-        notes.append((table["location"].fillna("") == "",
-                      f'location: empty, site "{rules.defaults["site"]}" assumed (rules default)'))
-    notes.append((_own_air_hides_site_surroundings(table, rules),
-                  "surroundings: empty; the row's own ambient is used for radiation too, not "
-                  "its site's surroundings (give surroundings to say otherwise)"))
+    defaults = rules.defaults
+    if "jacket" in defaults:
+        notes.append((insulated & (table["jacket"].fillna("") == "") & no_eps, "jacket", Problem(
+            "rules-default", f'empty, "{defaults["jacket"]}" assumed (rules default)')))
+    if "metal" in defaults:
+        notes.append((bare_part & (table["material"].fillna("") == "") & no_eps, "material",
+                      Problem("rules-default", f'empty, "{defaults["metal"]}" assumed for bare '
+                              "metal (rules default)")))
+    if "site" in defaults:
+        notes.append((table["location"].fillna("") == "", "location", Problem(
+            "rules-default", f'empty, site "{defaults["site"]}" assumed (rules default)')))
+    notes.append((_own_air_hides_site_surroundings(table, rules), "surroundings", Problem(
+        "own-air-surroundings", "empty; the row's own ambient is used for radiation too, not "
+        "its site's surroundings (give surroundings to say otherwise)")))
     counts = {c: pd.to_numeric(table[c], errors="coerce").fillna(0) for c in ("valves", "flanges")}
     for column, fitting in (("valves", "valve"), ("flanges", "flange")):
         has = counts[column] > 0
-        notes.append((has & (table["shape"] != "pipe"),
-                      f"{column}: counted on pipes only; not included in this item's heat loss"))
+        notes.append((has & (table["shape"] != "pipe"), column, Problem(
+            "fittings-not-counted", "counted on pipes only; not included in this item's heat loss")))
         rule = rules.fittings.get(fitting)
         if rule is None:
             continue
@@ -129,12 +158,14 @@ def _note_defaults(table: pd.DataFrame, rules: Rules) -> None:
         sizes = [x for x in sizes if x is not None]
         od = table["od_m"].astype(float)
         beyond = has & (table["shape"] == "pipe") & ((od < min(sizes)) | (od > max(sizes)))
-        notes.append((beyond, f"{column}: pipe size beyond the fitting table of the rules; "
-                              "its nearest entry used"))
-    for mask, text in notes:
-        mask = mask.to_numpy(bool)
-        old = table.loc[mask, "warnings"].fillna("")
-        table.loc[mask, "warnings"] = np.where(old == "", text, old + "; " + text)
+        notes.append((beyond, column, Problem(
+            "beyond-fitting-table", "pipe size beyond the fitting table of the rules; its "
+            "nearest entry used")))
+    recorded = []
+    for mask, column, problem in notes:
+        rows = np.flatnonzero(np.asarray(mask, dtype=bool))
+        recorded.append(_recorded(table, "warning", rows, [(column, None, problem)] * len(rows)))
+    return recorded
 
 
 def _own_air_hides_site_surroundings(table: pd.DataFrame, rules: Rules) -> pd.Series:

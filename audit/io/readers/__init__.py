@@ -10,11 +10,14 @@ returns one row per input row, in input order, with ``status`` ``ok`` or ``rejec
 name in different folders, its path relative to the folder that holds them all, so that every
 ``source`` is unique.  A file or a sheet named twice is read once.
 
-Duplicate tags are not rejected: each such row gets a ``warnings`` entry
+A row equal to an earlier row in every recognised cell is rejected (``is a duplicate of row
+<source>``); a tag on several differing rows is not: each such row gets a ``warnings`` entry
 ``tag: "P-101" is duplicated (N rows; first at <source>)``.  ``warnings`` also says when a unit
 was assumed for a bare number in a column whose other cells carry units, and when a
 temperature was given as normal/max.  What applies to a whole column (its default unit) is in
-the summary of :mod:`audit.io.readers.validate`, and in ``table.attrs["register"]``.
+the summary of :mod:`audit.io.readers.validate`, and in ``table.attrs["register"]``.  Every
+row problem is also data: :func:`audit.problems.problems_of` (row, column, code, value,
+expected, severity).
 """
 
 from __future__ import annotations
@@ -29,10 +32,12 @@ import pandas as pd
 
 from audit.errors import RegisterError
 from audit.io.readers.files import read_raw
+from audit.io.readers import repeated
 from audit.io.readers.headers import Lookup, load_aliases, merge_aliases
 from audit.io.readers.sheet import RawSheet, finish
 from audit.io.readers.table import build_sheet
 from audit.io.readers.plant import PlantRules
+from audit.problems import Problems
 from audit.schema import ITEM_COLUMNS
 
 __all__ = ["read_register", "read_rows", "load_aliases", "merge_aliases", "PlantRules",
@@ -139,23 +144,30 @@ def _built(raws: list[RawSheet], lookup: Lookup, aliases: Mapping[str, list[str]
            path: Path, plant: PlantRules | None) -> list:
     """``build_sheet`` of each sheet of one register; a register without data rows refused."""
     built = [build_sheet(raw, lookup, aliases.get("tag", []), plant) for raw in raws]
-    if sum(len(t) for t, _ in built) == 0:
+    if sum(len(t) for t, _, _ in built) == 0:
         raise RegisterError("a header row but no data rows", file=str(path),
                             expected="at least one item row below the header")
     return built
 
 
 def _item_table(built: list, skipped: list[str]) -> pd.DataFrame:
-    """The sheets' tables as one item table: extra columns filled, duplicate tags flagged,
-    what was read in ``attrs["register"]``."""
-    tables = [t for t, _ in built]
+    """The sheets' tables as one item table: extra columns filled, repeated rows and tags
+    flagged, what was read in ``attrs["register"]``, the row problems in ``attrs["problems"]``."""
+    tables = [t for t, _, _ in built]
     table = pd.concat(tables, ignore_index=True) if len(tables) > 1 else tables[0]
     for column in table.columns[len(ITEM_COLUMNS):]:
         if table[column].isna().any():
             table[column] = table[column].fillna("")
-    _flag_duplicates(table)
-    table.attrs["register"] = {"sheets": [asdict(i) for _, i in built], "skipped": skipped}
+    found, offset = [], 0
+    for sheet_table, _, sheet_found in built:
+        found.append(sheet_found.assign(row=sheet_found["row"] + offset))
+        offset += len(sheet_table)
+    problems = Problems().plus(pd.concat(found, ignore_index=True))
+    problems = problems.plus(repeated.flag(table))
+    table.attrs["register"] = {"sheets": [asdict(i) for _, i, _ in built], "skipped": skipped}
+    table.attrs["problems"] = problems
     return table
+
 
 def source_labels(paths: list[Path]) -> list[str]:
     """The ``file`` part of ``source`` for each register: its name, or, for names that two
@@ -168,17 +180,3 @@ def source_labels(paths: list[Path]) -> list[str]:
     common = Path(os.path.commonpath([a.parent for a, n in zip(absolute, names) if n in shared]))
     return [a.relative_to(common).as_posix() if n in shared else n
             for a, n in zip(absolute, names)]
-
-
-def _flag_duplicates(table: pd.DataFrame) -> None:
-    tags = table["tag"]
-    dup = (tags != "") & tags.duplicated(keep=False)
-    if not dup.any():
-        return
-    groups = table.loc[dup].groupby("tag", sort=False)["source"]
-    count, first = groups.transform("size"), groups.transform("first")
-    texts = [f'tag: "{t}" is duplicated ({c} rows; first at {f})'
-             for t, c, f in zip(table.loc[dup, "tag"], count, first)]
-    current = table.loc[dup, "warnings"].to_numpy(dtype=object)
-    joined = np.where(current == "", texts, current + "; " + np.array(texts, dtype=object))
-    table.loc[dup, "warnings"] = joined.astype(str)

@@ -1,9 +1,9 @@
 """Cell parsing: one function per kind of cell, each cached on the distinct text.
 
 Every parser takes the stripped cell text (and the column's unit from its header, if any) and
-returns its value(s) and a *problem*: ``None`` when the cell is good, else the end of a reason,
-``'is not a temperature; expected a number with an optional unit'``, which the table builder
-prefixes with the column name and the quoted raw value.
+returns its value(s) and a *problem*: ``None`` when the cell is good, else a
+:class:`audit.problems.Problem` (a code, and words such as ``'is not a temperature; expected a
+number with an optional unit'``), which the table builder records against the row and column.
 
 Each parser squeezes runs of white space to one space first, and every pattern is anchored and
 unambiguous (one way to match a run of digits), so parsing is linear in the cell's length.  An
@@ -19,6 +19,7 @@ from functools import lru_cache
 
 from audit.io.readers.headers import DN_UNIT
 from audit.io.readers.thickness import decimal, split_layer
+from audit.problems import Problem
 from audit.pipe_sizes import NPS_BY_DN, NPS_BY_VALUE, OD_MM_BY_NPS
 from audit.units import NUMBER, UnitParseError, _normalise, parse_quantity, squeeze
 
@@ -42,7 +43,7 @@ _DEG_SPACE = re.compile(r"\bdeg\.?\s+([CFcf])\b")  # "300 deg F" -> "300 degF"
 _REPEAT = re.compile(r"^(\d+) ?[x×*] ?([\d.].*)$", re.IGNORECASE)  # "2x50", "2 x 1.5in"
 _NAME_SPACE = re.compile(r"[\s_]+")
 
-NUMBER_EXPECTED = "expected a number with an optional unit"
+NUMBER_EXPECTED = "a number with an optional unit"
 
 
 def is_bare_number(text: str) -> bool:
@@ -93,12 +94,13 @@ def quantity(text: str, default_unit: str, target_unit: str, what: str,
     try:
         value = _number(text, default_unit, target_unit, what)
     except UnitParseError:
-        return math.nan, f"is not {what}; {NUMBER_EXPECTED} ({default_unit} if none)"
+        return math.nan, Problem("not-a-number", f"is not {what}",
+                                 f"{NUMBER_EXPECTED} ({default_unit} if none)")
     if value < low or (low_open and value == low) or value > high:
         lower = f"above {low:g}" if low_open else f"at least {low:g}"
         bound = lower if math.isinf(high) else f"{lower} and at most {high:g}"
         unit = "" if target_unit == "dimensionless" else f" {target_unit}"
-        return math.nan, f"is out of range; expected {what} {bound}{unit}"
+        return math.nan, Problem("out-of-range", "is out of range", f"{what} {bound}{unit}")
     return value, None
 
 
@@ -123,18 +125,17 @@ def temperature(text: str, default_unit: str):
         if normal is None or max_k is None:
             return math.nan, math.nan, False, _temperature_problem(default_unit), None
         if normal < 0:
-            return (math.nan, math.nan, False,
-                    "is below absolute zero; expected a temperature above -273.15 degC", None)
+            return math.nan, math.nan, False, _BELOW_ZERO, None
         if max_k < normal:
             return (math.nan, math.nan, False,
-                    "has a maximum below the normal temperature; expected normal/max", None)
-        return normal, max_k, False, None, "normal/max given; normal used"
+                    Problem("max-below-normal", "has a maximum below the normal temperature",
+                            "normal/max"), None)
+        return normal, max_k, False, None, Problem("normal-max", "normal/max given; normal used")
     kelvin = _kelvin(text, default_unit)
     if kelvin is None:
         return math.nan, math.nan, False, _temperature_problem(default_unit), None
     if kelvin < 0:
-        return (math.nan, math.nan, False,
-                "is below absolute zero; expected a temperature above -273.15 degC", None)
+        return math.nan, math.nan, False, _BELOW_ZERO, None
     return kelvin, math.nan, False, None, None
 
 
@@ -145,9 +146,13 @@ def _kelvin(text: str, default_unit: str) -> float | None:
         return None
 
 
-def _temperature_problem(default_unit: str) -> str:
-    return (f"is not a temperature; {NUMBER_EXPECTED} ({default_unit} if none), "
-            "AMB, or normal/max")
+_BELOW_ZERO = Problem("below-absolute-zero", "is below absolute zero",
+                      "a temperature above -273.15 degC")
+
+
+def _temperature_problem(default_unit: str) -> Problem:
+    return Problem("not-a-temperature", "is not a temperature",
+                   f"{NUMBER_EXPECTED} ({default_unit} if none), AMB, or normal/max")
 
 
 @lru_cache(maxsize=65536)
@@ -172,8 +177,9 @@ def pipe_size(text: str, header_unit: str | None):
         value = _inches(cleaned)
         nps = NPS_BY_VALUE.get(value) if value is not None else None
     if nps is None:
-        return "", math.nan, ("is not a standard pipe size; expected an NPS of ASME B36.10M "
-                              "(1/8 to 48, e.g. 4, 1-1/2\") or a DN (DN6 to DN1200)")
+        return "", math.nan, Problem("not-a-pipe-size", "is not a standard pipe size",
+                                     "an NPS of ASME B36.10M (1/8 to 48, e.g. 4, 1-1/2\") or a "
+                                     "DN (DN6 to DN1200)")
     return nps, OD_MM_BY_NPS[nps], None
 
 
@@ -209,18 +215,22 @@ def thicknesses(text: str, default_unit: str):
         value, problem = quantity(decimal(part), default_unit, "m", "a thickness", 0.0,
                                   math.inf, True)
         if problem or count < 1:
-            kind = " (not a length unit)" if problem and has_unit(part) else ""
-            return (), (f"is not a thickness{kind}; expected a length per layer ({default_unit}"
-                        " if none), e.g. 50, 2 in, 1-1/2 in, 2x50 or 50+40")
+            expected = (f"a length per layer ({default_unit} if none), e.g. 50, 2 in, 1-1/2 in, "
+                        "2x50 or 50+40")
+            if problem and has_unit(part):
+                return (), Problem("not-a-length", "is not a thickness (not a length unit)",
+                                   expected)
+            return (), Problem("not-a-thickness", "is not a thickness", expected)
         result.extend([value] * count)
         if len(result) > MAX_LAYERS:
             return (), _too_many_layers(f"more than {MAX_LAYERS}")
     return tuple(result), None
 
 
-def _too_many_layers(count: str) -> str:
+def _too_many_layers(count: str) -> Problem:
     shown = count if len(count) <= 12 else f"more than {MAX_LAYERS}"
-    return f"has {shown} layers; expected at most {MAX_LAYERS} insulation layers per item"
+    return Problem("too-many-layers", f"has {shown} layers",
+                   f"at most {MAX_LAYERS} insulation layers per item")
 
 
 @lru_cache(maxsize=65536)
@@ -240,9 +250,9 @@ def layers(text: str, default_unit: str):
     for part in parts:
         split = split_layer(part.strip(), lambda t: thicknesses(t, default_unit)[1] is None)
         if split is None or not split[0]:
-            return (), (), ("is not a list of layers; expected '<material> <thickness>' joined "
-                            "by '+', innermost first, e.g. calcium-silicate 50mm + "
-                            "mineral-wool 2in, or none")
+            return (), (), Problem("not-layers", "is not a list of layers",
+                                   "'<material> <thickness>' joined by '+', innermost first, "
+                                   "e.g. calcium-silicate 50mm + mineral-wool 2in, or none")
         layer_thk, problem = thicknesses(split[1], default_unit)
         if problem:
             return (), (), problem
@@ -260,7 +270,7 @@ def choice(text: str, allowed: tuple[str, ...], synonyms: tuple[tuple[str, str],
     key = dict(synonyms).get(key, key)
     if key in allowed:
         return key, None
-    return "", f"is not recognised; expected one of {', '.join(allowed)}"
+    return "", Problem("not-recognised", "is not recognised", f"one of {', '.join(allowed)}")
 
 
 @lru_cache(maxsize=1024)
@@ -271,7 +281,8 @@ def yes_no(text: str):
         return True, None
     if key in _FALSE:
         return False, None
-    return False, "is not yes or no; expected yes, no, y, n, true, false, 1, 0 or x"
+    return False, Problem("not-yes-no", "is not yes or no",
+                          "yes, no, y, n, true, false, 1, 0 or x")
 
 
 @lru_cache(maxsize=4096)
@@ -282,5 +293,5 @@ def count(text: str):
     except ValueError:
         value = math.nan
     if not math.isfinite(value) or value < 0 or value != int(value):
-        return 0, "is not a count; expected a whole number, 0 or more"
+        return 0, Problem("not-a-count", "is not a count", "a whole number, 0 or more")
     return int(value), None

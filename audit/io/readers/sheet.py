@@ -14,7 +14,6 @@ from audit.io.readers.headers import Lookup, score
 MAX_ROWS = 1_048_576  # rows per sheet or CSV file: Excel's own sheet limit
 MAX_COLUMNS = 16_384  # columns per sheet: Excel's own sheet limit
 MAX_CELL_CHARS = 32_767  # characters per cell: Excel's own cell limit
-QUOTE_CHARS = 60  # a raw value quoted in a reason is cut to this many characters
 HEADER_SEARCH_ROWS = 30
 
 

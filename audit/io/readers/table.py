@@ -25,6 +25,7 @@ from audit.io.readers.insulation import insulation_layers
 from audit.io.readers.plant import PlantRules
 from audit.io.readers.words import NAME_COLUMNS, translate_layers, translate_names
 from audit.pipe_sizes import OD_MM_BY_NPS
+from audit.problems import Problem
 from audit.schema import BY_NAME, ITEM_COLUMNS, REGISTER_COLUMNS, SCHEMA, STRING_COLUMNS
 from audit.units import UnitParseError, _describe, parse_quantity
 
@@ -43,6 +44,7 @@ _OWN_SPELLINGS = {c: tuple(k for k, _ in pairs) for c, pairs in (
 VESSELS = ("vertical-vessel", "horizontal-vessel")
 SMALLEST_OD_M = OD_MM_BY_NPS["1/8"] / 1000.0
 SIZED = ("pipe", *VESSELS, "sphere")
+IGNORED_FOR_SHAPE = " (ignored for this shape)"
 
 # column -> (default unit, target unit, what, low, high, low excluded): the schema's quantities
 QUANTITIES = {c.name: (c.default_unit, c.si_unit, c.what, *c.bounds) for c in SCHEMA if c.what}
@@ -113,8 +115,9 @@ def _check_header_units(raw: RawSheet, header_map: HeaderMap) -> None:
 
 
 def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str],
-                plant: PlantRules | None = None) -> tuple[pd.DataFrame, SheetInfo]:
-    """The item table of one sheet, and what was read, for the summary; a plant's words
+                plant: PlantRules | None = None) -> tuple[pd.DataFrame, SheetInfo, pd.DataFrame]:
+    """The item table of one sheet, what was read (for the summary) and its row problems
+    (:mod:`audit.problems`; ``row`` is the position in the sheet's table); a plant's words
     (``plant``) translated to the rules' names."""
     header_map = match_headers(raw.header, lookup, raw.groups)
     if "tag" not in header_map.columns:
@@ -142,7 +145,7 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str],
 
     tag = col["tag"]
     out["tag"] = tag.uniques[tag.codes]
-    notes.reject(~tag.given, "tag: empty; expected an item identifier")
+    notes.reject(~tag.given, "tag", Problem("empty", "empty", "an item identifier"))
 
     shape = _choice(col["shape"], SHAPES, _SHAPE_SYNONYMS, "pipe", notes, everyone)
     out["shape"] = shape
@@ -163,23 +166,25 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str],
     _surface(col, notes, out, info)
     for c in PLAIN:
         out[BY_NAME[c].item[0].name] = _plain(col[c], BY_NAME[c].parse, notes, info)
-    notes.warn((condition == "damaged") & ~col["damaged"].given,
-               "damaged: empty for a damaged item; share of the length bare not known")
+    notes.warn((condition == "damaged") & ~col["damaged"].given, "damaged",
+               Problem("share-unknown",
+                       "empty for a damaged item; share of the length bare not known"))
 
     # A blank row in the middle of a sheet stays an (empty) input row: rejected, one reason.
-    notes.reason[blank] = "row is blank"
-    notes.warning[blank] = ""
+    notes.blank(blank)
+    found = notes.records()
+    reason, warning = notes.texts(found)
     out["source"] = np.char.add(f"{raw.file}:{raw.sheet}:",
                                 raw.row_numbers.astype(str)).astype(object)
-    out["status"] = _words(notes.reason == "", "ok", "rejected")
-    out["reason"], out["warnings"] = notes.reason, notes.warning
+    out["status"] = _words(reason == "", "ok", "rejected")
+    out["reason"], out["warnings"] = reason, warning
     table = pd.DataFrame({c: out[c] for c in ITEM_COLUMNS})
     for c in STRING_COLUMNS:
         table[c] = table[c].astype("str")
     for c, position in header_map.columns.items():
         table[f"raw:{c}"] = data[position].astype("str").to_numpy()
     table = _extras(table, data, header_map, info)
-    return table, info
+    return table, info, found
 
 
 def _words(mask: np.ndarray, yes: str, no: str) -> np.ndarray:
@@ -200,13 +205,13 @@ def _plain(column: Column, parse: str, notes: RowNotes, info: SheetInfo) -> np.n
     parser, empty, dtype = {"yes_no": (cells.yes_no, (False, None), bool),
                             "count": (cells.count, (0, None), np.int64)}[parse]
     answers = column.parse(parser, empty=empty)
-    notes.reject(everyone, column.messages([a[1] for a in answers]))
+    notes.cells("reject", everyone, column, [a[1] for a in answers])
     return column.spread(answers, 0, dtype=dtype)
 
 
 def _choice(column: Column, allowed, synonyms, default, notes: RowNotes, applies) -> np.ndarray:
     answers = column.parse(cells.choice, allowed, synonyms, empty=(default, None))
-    notes.reject(applies, column.messages([a[1] for a in answers]))
+    notes.cells("reject", applies, column, [a[1] for a in answers])
     return column.spread(answers, 0)
 
 
@@ -223,11 +228,10 @@ def _quantity(column: Column, notes: RowNotes, applies, info: SheetInfo,
     else:
         answers = column.parse(cells.quantity, unit, target, what, low, high, low_open,
                                empty=(math.nan, None))
-    messages = column.messages([a[1] for a in answers])
-    notes.reject(applies, messages)
+    problems = [a[1] for a in answers]
+    notes.cells("reject", applies, column, problems)
     if ignored_for is not None:
-        notes.warn(ignored_for, np.where(messages != "", messages + " (ignored for this shape)",
-                                         ""))
+        notes.cells("warning", ignored_for, column, problems, after=IGNORED_FOR_SHAPE)
     _note_units(column, unit, info, notes)
     return column.spread(answers, 0, dtype=float)
 
@@ -242,9 +246,8 @@ def _note_units(column: Column, unit: str, info: SheetInfo, notes: RowNotes) -> 
     if rows.any():
         info.units_assumed[column.name] = (unit, int(rows.sum()))
     if bare.any() and with_unit.any():
-        texts = np.array([f'{column.name}: "{u}" has no unit; {unit} assumed' if b else ""
-                          for u, b in zip(column.uniques, bare)], dtype=object)
-        notes.warn(rows, texts[column.codes])
+        assumed = Problem("unit-assumed", f"has no unit; {unit} assumed")
+        notes.cells("warning", rows, column, [assumed if b else None for b in bare])
 
 
 def _geometry(col, shape, sized, lengthy, flat, notes: RowNotes, out, info: SheetInfo) -> None:
@@ -252,27 +255,29 @@ def _geometry(col, shape, sized, lengthy, flat, notes: RowNotes, out, info: Shee
     answers = nps.parse(cells.pipe_size, nps.unit if nps.unit != "mm" else DN_UNIT,
                         empty=("", math.nan, None))
     nps_text, nps_od = nps.spread(answers, 0), nps.spread(answers, 1, dtype=float) / 1000.0
-    nps_messages = nps.messages([a[2] for a in answers])
-    notes.reject(sized, nps_messages)
-    notes.warn(~sized, np.where(nps_messages != "", nps_messages + " (ignored for this shape)",
-                                ""))
+    nps_problems = [a[2] for a in answers]
+    notes.cells("reject", sized, nps, nps_problems)
+    notes.cells("warning", ~sized, nps, nps_problems, after=IGNORED_FOR_SHAPE)
     od_m = _quantity(od, notes, sized, info, ignored_for=~sized)
-    notes.reject(sized & ~nps.given & ~od.given,
-                 "nps: empty; expected a nominal pipe size (nps) or an outside diameter (od)")
+    notes.reject(sized & ~nps.given & ~od.given, "nps", Problem(
+        "empty", "empty", "a nominal pipe size (nps) or an outside diameter (od)"))
     # Inch and metric tables of one size differ by rounding only (273.0 vs 273.1 mm).
     disagree = nps.given & od.given & (np.abs(od_m - nps_od) > 0.01 * nps_od)
-    notes.warn(disagree & sized, "od: differs from the nominal size's outside diameter; od used")
+    notes.warn(disagree & sized, "od", Problem(
+        "od-differs", "differs from the nominal size's outside diameter; od used"))
     # Below the smallest steel pipe (NPS 1/8, 10.3 mm): an NPS in inches written as an od?
-    notes.warn(sized & (od_m < SMALLEST_OD_M), od.messages(
-        ["is smaller than any steel pipe (10.3 mm); an NPS in inches in the od column? "
-         "read as written" for _ in od.uniques]))
+    small = Problem("od-below-smallest-pipe", "is smaller than any steel pipe (10.3 mm); an "
+                    "NPS in inches in the od column? read as written")
+    notes.cells("warning", sized & (od_m < SMALLEST_OD_M), od,
+                [None if u == "" else small for u in od.uniques])
     out["od_m"] = np.where(od.given, od_m, nps_od)
     out["nps"] = nps_text
     out["length_m"] = _quantity(col["length"], notes, lengthy, info, ignored_for=~lengthy)
-    notes.reject(lengthy & ~col["length"].given,
-                 "length: empty; expected the run length or tangent-to-tangent length (m)")
+    notes.reject(lengthy & ~col["length"].given, "length", Problem(
+        "empty", "empty", "the run length or tangent-to-tangent length (m)"))
     out["area_m2"] = _quantity(col["area"], notes, flat, info, ignored_for=~flat)
-    notes.reject(flat & ~col["area"].given, "area: empty; expected the surface area (m2)")
+    notes.reject(flat & ~col["area"].given, "area",
+                 Problem("empty", "empty", "the surface area (m2)"))
 
 
 def _orientation(col, shape, vessel, flat, notes: RowNotes, out) -> None:
@@ -280,20 +285,21 @@ def _orientation(col, shape, vessel, flat, notes: RowNotes, out) -> None:
     answers = column.parse(cells.choice, ORIENTATIONS, _ORIENTATION_SYNONYMS,
                            empty=("", None))
     given = column.spread(answers, 0)
-    notes.reject(np.ones(len(shape), dtype=bool), column.messages([a[1] for a in answers]))
+    notes.cells("reject", np.ones(len(shape), dtype=bool), column, [a[1] for a in answers])
     by_shape = _words(shape == "vertical-vessel", "vertical", "horizontal")
     contradicts = vessel & (given != "") & (given != by_shape)
-    messages = np.full(len(shape), "", dtype=object)
-    messages[contradicts] = [f'orientation: "{g}" contradicts shape {s}; expected {b} or empty'
-                             for g, s, b in zip(given[contradicts], shape[contradicts],
-                                                by_shape[contradicts])]
-    notes.reject(contradicts, messages)
-    notes.reject(~flat & np.isin(given, ("up", "down")),
-                 "orientation: up/down apply to flat items only; expected horizontal or vertical")
-    notes.reject(flat & (given == "horizontal"),
-                 "orientation: \"horizontal\" is ambiguous for a flat item; expected vertical, "
-                 "up (hot face below, heat rising) or down")
-    notes.warn(flat & (given == ""), "orientation: empty for a flat item; vertical assumed")
+    problems = np.full(len(shape), None, dtype=object)
+    problems[contradicts] = [Problem("contradicts-shape", f"contradicts shape {s}",
+                                     f"{b} or empty")
+                             for s, b in zip(shape[contradicts], by_shape[contradicts])]
+    notes.reject(contradicts, "orientation", problems, value=given)
+    notes.reject(~flat & np.isin(given, ("up", "down")), "orientation", Problem(
+        "contradicts-shape", "up/down apply to flat items only", "horizontal or vertical"))
+    notes.reject(flat & (given == "horizontal"), "orientation", Problem(
+        "contradicts-shape", "is ambiguous for a flat item",
+        "vertical, up (hot face below, heat rising) or down"), value="horizontal")
+    notes.warn(flat & (given == ""), "orientation",
+               Problem("orientation-assumed", "empty for a flat item; vertical assumed"))
     default = np.where(flat, _words(flat, "vertical", ""), by_shape)
     out["orientation"] = np.where(given != "", given, default)
 
@@ -306,10 +312,10 @@ def _temperature(column: Column, notes: RowNotes, out, info: SheetInfo) -> None:
     out["temp_max_K"] = column.spread(answers, 1, dtype=float)
     out["temp_is_ambient"] = column.spread(answers, 2, dtype=bool)
     everyone = np.ones(len(column.codes), dtype=bool)
-    notes.reject(everyone, column.messages([a[3] for a in answers]))
-    notes.reject(~column.given, "temp: empty; expected the operating temperature "
-                                f"({unit} if no unit), AMB or normal/max")
-    notes.warn(everyone, column.messages([a[4] for a in answers]))
+    notes.cells("reject", everyone, column, [a[3] for a in answers])
+    notes.reject(~column.given, "temp", Problem(
+        "empty", "empty", f"the operating temperature ({unit} if no unit), AMB or normal/max"))
+    notes.cells("warning", everyone, column, [a[4] for a in answers])
     _note_units(column, unit, info, notes)
 
 
@@ -323,14 +329,15 @@ def _design_temperature(header_map: HeaderMap, column: Column, plant: PlantRules
     if plant is not None and plant.design_temp == "refuse":
         info.decisions.append(f"header {header!r} is a design temperature and no operating "
                               'temperature is given: refused ([defaults] design_temp = "refuse")')
-        notes.reject(np.ones(len(column.codes), dtype=bool),
-                     f'temp: only a design temperature (header "{header}") and the rules refuse '
-                     'it ([defaults] design_temp = "refuse"); expected an operating temperature')
+        notes.reject(np.ones(len(column.codes), dtype=bool), "temp", Problem(
+            "design-temperature-refused", f'only a design temperature (header "{header}") and '
+            'the rules refuse it ([defaults] design_temp = "refuse")', "an operating temperature"))
         return
     info.decisions.append(f"header {header!r} is a design temperature, read as the operating "
                           "temperature: no operating temperature is given (a warning on each row)")
-    notes.warn(column.given, f'temp: design temperature (header "{header}") used as the '
-                             "operating temperature; the register gives no operating temperature")
+    notes.warn(column.given, "temp", Problem(
+        "design-temperature", f'design temperature (header "{header}") used as the operating '
+        "temperature; the register gives no operating temperature"))
 
 
 def _surface(col, notes: RowNotes, out, info: SheetInfo) -> None:
@@ -340,8 +347,8 @@ def _surface(col, notes: RowNotes, out, info: SheetInfo) -> None:
     answers = [cells.quantity(u, "dimensionless", "dimensionless", "an emissivity", 0.0, 1.0,
                               True) if is_number else (math.nan, None)
                for u, is_number in zip(jacket.uniques, numeric)]
-    notes.reject(np.ones(len(jacket.codes), dtype=bool),
-                 jacket.messages([a[1] for a in answers]))
+    notes.cells("reject", np.ones(len(jacket.codes), dtype=bool), jacket,
+                [a[1] for a in answers])
     names = [("" if u.lower() in cells.BARE_WORDS or is_number else cells.name(u))
              for u, is_number in zip(jacket.uniques, numeric)]
     out["jacket"] = jacket.spread(names)
@@ -359,9 +366,10 @@ def _long_cells(raw: RawSheet, header_map: HeaderMap, notes: RowNotes) -> None:
             continue
         label = names.get(position) or raw.header[position] or f"column {position + 1}"
         too_long = lengths[codes] > MAX_CELL_CHARS
-        notes.reject(too_long, np.array([f"{label}: cell of {lengths[c]} characters, above the "
-                                         f"limit of {MAX_CELL_CHARS}; expected at most "
-                                         f"{MAX_CELL_CHARS} characters" for c in codes], dtype=object))
+        problems = np.array([Problem("cell-too-long", f"cell of {n} characters, above the limit "
+                                     f"of {MAX_CELL_CHARS}", f"at most {MAX_CELL_CHARS} characters")
+                             if n > MAX_CELL_CHARS else None for n in lengths], dtype=object)
+        notes.reject(too_long, label, problems[codes])
 
 
 def _extras(table: pd.DataFrame, data: pd.DataFrame, header_map: HeaderMap,

@@ -2,15 +2,11 @@
 
 from __future__ import annotations
 
-import re
-from collections import Counter, defaultdict
 from dataclasses import dataclass, field
 
 import pandas as pd
 
-_SPLIT = re.compile(r"; (?=[a-z_/]+: |row is blank)")
-_RAW = re.compile(r'^([a-z_/]+): ".*" ')
-_DETAIL = re.compile(r" \([^()]*\)$")  # "(3 rows; first at ...)": one kind, many details
+from audit.problems import CODES, problems_of
 
 
 @dataclass
@@ -23,45 +19,44 @@ class Summary:
     warned: int
     sheets: list[dict]
     skipped: list[str]
+    #: ``"column: code"`` -> (problems, example sources), most frequent first
     reasons: dict[str, tuple[int, list[str]]] = field(default_factory=dict)
     warnings: dict[str, tuple[int, list[str]]] = field(default_factory=dict)
 
 
-def reason_kind(reason: str) -> str:
-    """One reason without its raw value, details and 'expected' part: ``temp: "…" is not a``."""
-    head = _DETAIL.sub("", reason.split("; expected", 1)[0])
-    return _RAW.sub(r'\1: "…" ', head)
-
-
-def _group(texts: pd.Series, sources: pd.Series, examples: int):
-    counts: Counter = Counter()
-    where: dict[str, list[str]] = defaultdict(list)
-    for text, source in zip(texts, sources):
-        for part in _SPLIT.split(text):
-            kind = reason_kind(part)
-            counts[kind] += 1
-            if len(where[kind]) < examples:
-                where[kind].append(source)
-    return {k: (c, where[k]) for k, c in counts.most_common()}
+def _group(found: pd.DataFrame, sources: pd.Series, examples: int):
+    """Problems counted by column and code, with the first rows of each as examples."""
+    if not len(found):
+        return {}
+    found = found.sort_values("row", kind="stable")  # examples, and ties, in register order
+    label = (found["column"].where(found["column"] == "", found["column"] + ": ")
+             + found["code"])
+    groups = found.assign(label=label, source=sources.loc[found["row"]].to_numpy()) \
+        .groupby("label", sort=False)["source"]
+    counts = groups.size().sort_values(ascending=False, kind="stable")
+    first = groups.agg(lambda s: list(s.iloc[:examples]))
+    return {k: (int(c), first[k]) for k, c in counts.items()}
 
 
 def summary(table: pd.DataFrame, examples: int = 3) -> Summary:
-    """Count rows, rejections by reason kind and warnings by kind in an item table."""
+    """Count rows, and the problems by column and code (:mod:`audit.problems`)."""
     register = table.attrs.get("register", {"sheets": [], "skipped": []})
+    found = problems_of(table).frame
     rejected = table["status"] == "rejected"
     warned = table["warnings"] != ""
     return Summary(
         rows=len(table), ok=int((~rejected).sum()), rejected=int(rejected.sum()),
         warned=int(warned.sum()), sheets=register["sheets"], skipped=register["skipped"],
-        reasons=_group(table.loc[rejected, "reason"], table.loc[rejected, "source"], examples),
-        warnings=_group(table.loc[warned, "warnings"], table.loc[warned, "source"], examples))
+        reasons=_group(found[found["severity"] == "reject"], table["source"], examples),
+        warnings=_group(found[found["severity"] == "warning"], table["source"], examples))
 
 
 def summarise(table: pd.DataFrame, examples: int = 3) -> str:
     """The data-quality summary of an item table from :func:`audit.io.readers.read_register`.
 
-    Rows read per file and sheet, rejected rows grouped by reason kind (with example rows),
-    warnings by kind, columns recognised and carried through unused, units assumed by default.
+    Rows read per file and sheet, the rows' problems grouped by column and code (with what
+    the code means and example rows), rejections and warnings apart, columns recognised and
+    carried through unused, units assumed by default.
     """
     s = summary(table, examples)
     lines = [f"Rows read: {s.rows} ({s.ok} ok, {s.rejected} rejected, {s.warned} with warnings)",
@@ -87,13 +82,14 @@ def summarise(table: pd.DataFrame, examples: int = 3) -> str:
             lines.append(f"    units assumed by default: {column} in {unit} "
                          f"({count} cell{'s' if count != 1 else ''} without a unit)")
     lines += plant_words(s.sheets)
-    for title, groups in (("Rejected rows by reason:", s.reasons),
-                          ("Warnings:", s.warnings)):
+    for title, groups in (("Rejected rows by reason (column: code):", s.reasons),
+                          ("Warnings (column: code):", s.warnings)):
         lines += ["", title]
         if not groups:
             lines.append("  none")
-        for kind, (count, where) in groups.items():
-            lines.append(f"  {count:6d}  {kind}  (e.g. {', '.join(where)})")
+        for label, (count, where) in groups.items():
+            meaning = CODES[label.rpartition(" ")[2]]
+            lines.append(f"  {count:6d}  {label}: {meaning}  (e.g. {', '.join(where)})")
     return "\n".join(lines)
 
 

@@ -228,9 +228,15 @@ def test_thickness_forms_layers_and_bare():
 
 def test_duplicate_tags_extra_columns_and_shadowed_headers():
     t = read_register(CORPUS / "duplicates_extras.csv")
-    assert list(t["status"]) == ["ok"] * 5  # duplicates are flagged, not rejected
-    dup = 'tag: "D-1" is duplicated (3 rows; first at duplicates_extras.csv::2)'
-    assert list(t["warnings"]) == [dup, "", dup, "", dup]
+    # A tag on differing rows is audited on each and warned; the fifth row repeats the third
+    # in every recognised cell (its carried-through cells differ), so it is rejected: audited
+    # twice it would be ordered and counted twice.
+    assert list(t["status"]) == ["ok"] * 4 + ["rejected"]
+    dup = 'tag: "D-1" is duplicated (2 rows; first at duplicates_extras.csv::2)'
+    assert list(t["warnings"]) == [dup, "", dup, "", ""]
+    assert t["reason"].iloc[4] == (
+        'tag: "D-1" is a duplicate of row duplicates_extras.csv::4 (every recognised cell '
+        "equal); expected one row per item")
     assert list(t["temp_K"]) == [approx(kelvin(150))] * 2 + [approx(kelvin(160))] * 3  # op temp
     assert list(t["Design Temp"]) == ["200"] * 5
     assert list(t["P&ID"]) == ["PID-0301"] * 2 + ["PID-0302"] * 3
