@@ -13,6 +13,7 @@ from audit import __version__
 from audit.calc import add_calc_arguments, run_calc
 from audit.cautions import CAUTION
 from audit.digests import sha256_file
+from audit import display_units
 from audit.display_units import SYSTEMS
 from audit.errors import LagauditError
 from audit.history import History, describe_audits, export_audits
@@ -244,9 +245,9 @@ def _audit_and_write(registers, args) -> int:
             audit = compare_audit(history, audit, plant=args.plant,
                                   fallback=DEMO_PLANT if args.run is _demo else None)
         bar.advance()
+        units = args.units or audit.rules.defaults.get("units", "si")
         written = write_outputs(audit, folder, formats, _meta(audit, registers, args), bar.advance,
-                                workorder_pages=args.workorder_pages,
-                                units=args.units or audit.rules.defaults.get("units", "si"))
+                                workorder_pages=args.workorder_pages, units=units)
         if history is not None:
             closed, recorded = record_run(history, audit, registers, folder,
                                           surface_model=args.surface_model)
@@ -262,7 +263,7 @@ def _audit_and_write(registers, args) -> int:
     if audited < len(results):
         say("See the 'reason' column for each rejected row, or run 'lagaudit validate'.")
     if args.verbose:
-        _details(audit)
+        _details(audit, units)
     say(CAUTION)
     if args.fail_on and len(findings):
         threshold = SEVERITIES.index(args.fail_on)
@@ -271,8 +272,9 @@ def _audit_and_write(registers, args) -> int:
     return 0
 
 
-def _details(audit) -> None:
-    """What --verbose adds: the rules read, the findings by check, the warnings."""
+def _details(audit, units: str = "si") -> None:
+    """What --verbose adds: the rules read, the findings by check, the warnings (their
+    quantities in ``units``)."""
     print("Rule files read:")
     for path in audit.rules.files:
         print(printable(f"  {path}"))
@@ -281,7 +283,8 @@ def _details(audit) -> None:
         counts = audit.findings.groupby(["check", "severity"]).size()
         for (check, severity), count in counts.items():
             print(printable(f"  {check:<26} {severity:<9} {count}"))
-    warnings = audit.results["warnings"].astype(str)
+    warnings = display_units.texts(audit.results["warnings"]) if units == "us" else \
+        audit.results["warnings"].astype(str)
     warned = warnings[warnings != ""]
     print(f"Rows with warnings: {len(warned)}")
     for text, count in warned.str.split("; ").explode().value_counts().head(15).items():
