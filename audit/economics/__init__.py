@@ -21,7 +21,8 @@ import pandas as pd
 
 from audit.economics import totals
 from audit.economics.energy import yearly
-from audit.economics.repair import payback_years, plan_repairs, repair_cost
+from audit.checks.repairs import plan_repairs
+from audit.economics.repair import payback_years, repair_cost
 from audit.economics.rules import EconomicRules, economic_rules, load_economic_rules
 from audit.economics.thickness import annuity_factor, economic_thickness
 from audit.errors import RuleError

@@ -1,16 +1,8 @@
-"""What a repair is, what it costs and what it saves.
+"""What a repair costs and what it saves.
 
-The repaired item is "the same item intact at its specified insulation":
-
-* below specification (the ``below-spec`` requirement, including bare and ``missing`` items the
-  specification asks insulation of): one intact layer of the specification's material at its
-  thickness;
-* otherwise, damaged, wet or missing insulation is restored as installed (its own layers,
-  intact and dry), so a repair never thins an item that is above its specification;
-* uninsulated valves and flanges on pipes get removable covers (the engine then counts them
-  insulated: no bare equivalent length).
-
-An item with none of these has nothing to repair: it saves 0 and has no payback.  The saving
+What a repair is (:func:`audit.checks.repairs.plan_repairs`) is shared with the remedies of
+the findings, so that the money and the work orders speak of the same work.  An item with
+nothing to repair saves 0 and has no payback.  The saving
 is reckoned with the engine on a modified copy of the item table, for the whole register in
 one solve.  Costs come from the rule tables of ``[economics.repair]``: per metre of pipe run
 by size and thickness, per m2 of insulated surface for vessels, spheres, flat items and pipes
@@ -21,20 +13,16 @@ with a note), never the nearest entry.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import has_layers
-from audit.checks.below_spec import installed_thickness, requirement
+from audit.checks.below_spec import _EDGE_M
+from audit.checks.repairs import RepairPlan
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
-from audit.repeats import per_distinct
 
 _OD_OF_NPS = {value: mm / 1000.0 for _, value, _, mm in NOMINAL_PIPE_SIZES}
-#: Thickness [m] and size comparisons carry this slack so that the same number written in the
-#: register and in a rule file meets at a table edge whatever the unit-conversion rounding.
-_EDGE_M = 1e-9
+#: Size comparisons carry this slack so that the same number written in the register and in a
+#: rule file meets at a table edge whatever the unit-conversion rounding.
 _EDGE_REL = 1e-9
 
 
@@ -100,60 +88,6 @@ def cover_cost(repair, od_m, count) -> np.ndarray:
     covers = np.asarray(repair.cover_per_fitting, float)
     each = np.where(row < covers.size, covers[np.minimum(row, covers.size - 1)], np.nan)
     return np.where(count > 0, count * each, 0.0)
-
-
-@dataclass
-class RepairPlan:
-    """What would be repaired on each row of an item table (arrays aligned with its rows)."""
-
-    insulate: np.ndarray         #: insulation work (bool)
-    share: np.ndarray            #: share of the item's insulation re-done, 0 to 1
-    to_spec: np.ndarray          #: insulated to the specification (bool); else restored as installed
-    thickness_m: np.ndarray      #: total thickness after the repair [m]
-    covers: np.ndarray           #: removable fitting covers to fit (pipes)
-    spec_material: np.ndarray    #: the governing specification's material ("" if none)
-    installed_m: np.ndarray      #: installed thickness [m] (0 bare or missing)
-
-    @property
-    def needed(self) -> np.ndarray:
-        return self.insulate | (self.covers > 0)
-
-    def scope(self) -> np.ndarray:
-        """A few words per row: what the repair is."""
-        insulation = np.where(self.to_spec, "insulate to specification",
-                              np.where(self.share < 1, "repair damaged share",
-                                       "restore insulation as installed"))
-        words = np.where(self.insulate, insulation, "")
-        fit = np.where(self.covers > 0, "fit removable covers", "")
-        both = self.insulate & (self.covers > 0)
-        return np.where(both, np.char.add(np.char.add(words.astype(str), "; "), fit.astype(str)),
-                        np.where(self.insulate, words, fit)).astype(object)
-
-
-def plan_repairs(table: pd.DataFrame, rules, spec_states: pd.DataFrame) -> RepairPlan:
-    """The repair of each row; ``spec_states`` are the states the specification is judged
-    under (the ``below-spec`` check's site), which give its process and air temperatures."""
-    need = requirement(table, rules, spec_states["process_temp_K"].to_numpy(float),
-                       spec_states["air_temp_K"].to_numpy(float))
-    have = installed_thickness(table)
-    asked = need.thickness_m > 0
-    below = asked & ((have <= 0) | (have < need.thickness_m - need.tolerance_m - _EDGE_M))
-    condition = table["condition"].fillna("").to_numpy(object)
-    damaged = np.nan_to_num(table["damaged_pct"].to_numpy(float)) / 100.0
-    listed = per_distinct(lambda x: float(sum(x)) if isinstance(x, tuple) else 0.0,
-                          table["layer_thicknesses_m"].to_numpy(object)).astype(float)
-    whole = (condition == "missing") | (condition == "wet")
-    broken = whole | ((condition == "damaged") & (damaged > 0))
-    insulate = below | (broken & has_layers(table))
-    share = np.where(below | whole, 1.0, np.where(insulate, damaged, 0.0))
-    thickness = np.where(below, need.thickness_m, np.where(insulate, listed, have))
-    pipe = (table["shape"] == "pipe").to_numpy()
-    fittings = (np.nan_to_num(pd.to_numeric(table["valves"], errors="coerce").to_numpy(float))
-                + np.nan_to_num(pd.to_numeric(table["flanges"], errors="coerce").to_numpy(float)))
-    ok = (table["status"] == "ok").to_numpy()
-    return RepairPlan(insulate=insulate & ok, share=np.where(ok, share, 0.0), to_spec=below & ok,
-                      thickness_m=thickness, covers=np.where(pipe & ok, fittings, 0.0),
-                      spec_material=need.material, installed_m=have)
 
 
 def repair_cost(repair, table: pd.DataFrame, plan: RepairPlan, repaired_states: pd.DataFrame) -> np.ndarray:

@@ -325,21 +325,24 @@ def _quantities(item, findings: list[dict], outer_area: float) -> list[dict]:
                     "thickness": fmt(max(thickness)), "thickness_mm": max(thickness), "quantity": whole[0], "unit": whole[1]})
         fittings_covered = True
     else:
+        # No new thickness: the remedy is the repair (audit/checks/repairs.py), which puts back
+        # what is installed, whichever check found the item.
         checks = {f["check"] for f in findings}
-        kinds = {f["kind"] for f in findings}
         layers, t = _layers(item), ""
-        if "condition" in kinds and item["condition"] == "damaged":
+        if item["condition"] == "damaged":
             share = float(item["damaged_pct"]) / 100.0
             out.append({"work": "reinstate damaged insulation", "size": size, "material": layers,
                         "thickness": t, "quantity": whole[0] * share, "unit": whole[1]})
-        elif "condition" in kinds and item["condition"] == "wet":
+        elif item["condition"] == "wet":
             out.append({"work": "replace wet insulation", "size": size, "material": layers,
                         "thickness": t, "quantity": whole[0], "unit": whole[1]})
-        elif "condition" in kinds and item["condition"] == "missing":
+        elif item["condition"] == "missing":
             out.append({"work": "insulate to the plant specification", "size": size,
                         "material": "per specification", "thickness": t, "quantity": whole[0],
                         "unit": whole[1]})
-        fittings_covered = "uninsulated-fittings" in checks
+        # Every remedy of a fixable finding covers the bare fittings (repair or new insulation).
+        fittings_covered = ("uninsulated-fittings" in checks
+                            or any(bool(f["fixable_by_insulation"]) for f in findings))
     valves, flanges = int(item["valves"] or 0), int(item["flanges"] or 0)
     if pipe and fittings_covered:
         for count, what in ((valves, "valve"), (flanges, "flange")):

@@ -3,7 +3,8 @@
 import numpy as np
 import pytest
 
-from audit.economics.repair import cover_cost, insulation_cost, payback_years, plan_repairs
+from audit.checks.repairs import plan_repairs
+from audit.economics.repair import cover_cost, insulation_cost, payback_years
 from audit.economics.rules import load_economic_rules
 from audit.io.readers import read_register
 from audit.rules import load_rules
