@@ -54,9 +54,14 @@ US_UNITS = {
     "t": UsUnit("ton", "metric_ton", "short_ton", 1),
 }
 _HEADER = re.compile(r"^(?P<name>.*\S) \[(?P<unit>[^\[\]]+)\]$")
-# A number and a unit of the table inside text; longest units first, each a whole word.
-_IN_TEXT = re.compile(r"(?<![\w.])(?P<number>-?\d+(?:\.(?P<decimals>\d+))?) ?"
-                      r"(?P<unit>degC|°C|W/m2|W/m|W|kg/h|kg/s|mm|m/s|m2|m²|m|MWh|K)(?![\w/²])")
+# A number (or a range: "50 to 175", "50-60") and a unit of the table inside text; longest
+# units first, each a whole word.  A run of digits starts a match at its first digit only (the
+# look-behind), so the optional range costs each run a bounded number of tries: linear.
+_NUMBER = r"-?\d+(?:\.(?P<{}>\d+))?(?:[eE][-+]?\d+)?"
+_IN_TEXT = re.compile(r"(?<![\w.+])(?:(?P<low>" + _NUMBER.format("low_decimals")
+                      + r")(?P<joint> to |-|–))?(?P<number>" + _NUMBER.format("decimals")
+                      + r") ?(?P<unit>degC|°C|W/m2|W/m|W|kg/h|kg/s|mm|m/s|m2|m²|m|MWh|K)"
+                      r"(?![\w/²])")
 #: Units written as symbols in the reports: (the table's SI label, the US symbol)
 _SYMBOLS = {"°C": ("degC", "°F"), "m²": ("m2", "ft²")}
 
@@ -152,11 +157,17 @@ def text(message: str) -> str:
 def _reworded(match: re.Match) -> str:
     si_label, label = _SYMBOLS.get(match["unit"], (match["unit"], None))
     unit = US_UNITS[si_label]
-    value = float(to_us(float(match["number"]), si_label))
-    decimals = max(len(match["decimals"] or ""), unit.decimals)
-    if not math.isfinite(value):
+
+    def shown(number: str, decimals: str | None) -> str | None:
+        value = float(to_us(float(number), si_label))
+        places = max(len(decimals or ""), unit.decimals)
+        return f"{value:.{places}f}" if math.isfinite(value) else None
+
+    high = shown(match["number"], match["decimals"])
+    low = shown(match["low"], match["low_decimals"]) if match["low"] else ""
+    if high is None or low is None:
         return match.group(0)
-    return f"{value:.{decimals}f} {label or unit.label}"
+    return f"{low}{match['joint'] or ''}{high} {label or unit.label}"
 
 
 def named(name: str, si_label: str, units: str) -> str:

@@ -75,6 +75,9 @@ def test_findings_value_and_limit_follow_their_unit():
                                                   "6.7 mph"),
     ("NPS 4 (DN100), 2 valves, 80 % RH", "NPS 4 (DN100), 2 valves, 80 % RH"),
     ("50mm", "1.97 in"),
+    ("window 50 to 175 degC in cyclic service", "window 122 to 347 degF in cyclic service"),
+    ("from -12 to -5 degC; 50-60 degC", "from 10 to 23 degF; 122-140 degF"),
+    ("insulate with 1.5e+03 mm of x", "insulate with 59.06 in of x"),
     ('length: "5 degC" is not a length; expected a length above 0 m',  # the cell as written
      'length: "5 degC" is not a length; expected a length above 0 ft'),
 ])
