@@ -444,7 +444,7 @@ def prepared_states(prepared: PreparedItems, rules: Rules, *, site: str | None =
         out[name] = column
 
     for name, values in conditions.items():
-        put(name, values)
+        put(name, values, "" if values.dtype == object else np.nan)
     if states is None:
         for name in ("surface_temp_K", "surface_temp_insulated_K", "heat_loss_W", "heat_loss_W_per_m",
                      "heat_flux_W_m2", "outer_area_m2", "convective_share", "radiative_share",
@@ -536,13 +536,24 @@ def prepare_items(table: pd.DataFrame, rules: Rules, index: dict[str, int] | Non
 
 def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple[ItemBatch, dict]:
     """The engine batch of the prepared rows under ``site`` (None: each row's own site), and
-    the conditions used (air, surroundings, wind, RH, process temperature, emissivity); the
-    surroundings as the module docstring says."""
-    names, codes = ((site,), np.zeros(prepared.own_site.size, int)) if site else \
-        (prepared.site_names, prepared.own_site)
+    the conditions used (air, surroundings, wind, RH, process temperature, emissivity, and
+    ``conditions_from``: the location whose conditions were used, or ``plant``); the
+    surroundings as the module docstring says.
+
+    Under a design case ``site``, each row takes its location's own case where the location
+    gives one (``[site.LOCATION.design.CASE]``), else the plant-wide ``[site.CASE]``."""
+    codes = prepared.own_site
+    if site:
+        own = [rules.sites[name].design.get(site) if name in rules.sites else None
+               for name in prepared.site_names]
+        conditions = [case or rules.sites.get(site) for case in own]
+        whose = [name if case else "plant" for name, case in zip(prepared.site_names, own)]
+    else:
+        conditions = [rules.sites.get(name) for name in prepared.site_names]
+        whose = list(prepared.site_names)
     site_air, site_wind, site_rh, site_sur = (
-        np.array([getattr(rules.sites[name], a) if name in rules.sites else np.nan
-                  for name in names], dtype=float)[codes]
+        np.array([getattr(c, a) if c is not None else np.nan for c in conditions],
+                 dtype=float)[codes]
         for a in ("ambient", "wind", "rh", "surroundings"))
     row_air = prepared.row_air
     t_air = np.where(np.isfinite(row_air), row_air, site_air)
@@ -557,7 +568,8 @@ def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple
                       **prepared.fixed)
     return batch, {"air_temp_K": t_air, "surroundings_temp_K": t_sur, "wind_m_s": wind,
                    "rh_pct": rh, "process_temp_K": t_process,
-                   "emissivity_used": prepared.fixed["emissivity"]}
+                   "emissivity_used": prepared.fixed["emissivity"],
+                   "conditions_from": np.array(whose + [""], dtype=object)[codes]}
 
 
 def _given(rows: pd.DataFrame, column: str) -> np.ndarray:

@@ -51,11 +51,15 @@ def test_row_values_win_over_the_site_condition(tmp_path, rules):
 
 
 def test_scenario_site_replaces_the_location(tmp_path, rules):
+    # A location without a case of its own takes the plant-wide case; one with its own
+    # (the shipped indoor gives a hot still day of its own) takes that.
     t = table_from(tmp_path, "tag,nps,length,temp,insulation,thickness,jacket,location\n"
-                             "A,4,10,200,mineral-wool,50,aluminium-oxidised,indoor\n", rules)
-    hot = rules.sites["hot-still-day"]
+                             "A,4,10,200,mineral-wool,50,aluminium-oxidised,outdoor\n"
+                             "B,4,10,200,mineral-wool,50,aluminium-oxidised,indoor\n", rules)
+    hot, indoor_hot = rules.sites["hot-still-day"], rules.sites["indoor"].design["hot-still-day"]
     states = thermal_states(t, rules, site="hot-still-day")
-    assert states["air_temp_K"][0] == pytest.approx(hot.ambient)
+    assert states["air_temp_K"].tolist() == pytest.approx([hot.ambient, indoor_hot.ambient])
+    assert list(states["conditions_from"]) == ["plant", "indoor"]
 
 
 def test_wet_insulation_uses_the_material_factor(tmp_path, rules):

@@ -27,7 +27,7 @@ from audit.thermal import (ZERO_CELSIUS, PreparedItems, conductivity_tables, has
 
 #: Columns of a findings table, in order (``row`` indexes the item table).
 FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value", "limit", "unit",
-                   "site", "air_temp [degC]", "wind [m/s]", "rh [%]", "surroundings_temp [degC]",
+                   "site", "conditions_from", "air_temp [degC]", "wind [m/s]", "rh [%]", "surroundings_temp [degC]",
                    "limit_source", "message",
                    "remedy", "fixable_by_insulation", "remedy_thickness [mm]", "remedy_material"]
 
@@ -158,6 +158,7 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
         "limit": spread(limit, float),
         "unit": unit,
         "site": check.site or "own conditions",
+        "conditions_from": states["conditions_from"].to_numpy(object)[rows],
         "air_temp [degC]": states["air_temp_K"].to_numpy(float)[rows] - ZERO_CELSIUS,
         "wind [m/s]": states["wind_m_s"].to_numpy(float)[rows],
         "rh [%]": states["rh_pct"].to_numpy(float)[rows],

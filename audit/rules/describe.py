@@ -30,10 +30,18 @@ def describe_rules(rules: Rules) -> str:
     section("Materials", rules.materials, material)
     section("Jackets", rules.jackets, lambda j: f"emissivity {j.emissivity:g}, {j.surface} surface")
     section("Bare metals", rules.metals, lambda m: f"emissivity {m.emissivity:g}")
-    section("Site conditions", rules.sites,
-            lambda s: f"air {s.ambient - C:.1f} degC, wind {s.wind:g} m/s, RH {s.rh:g} %"
-                      + ("" if math.isnan(s.surroundings) else
-                         f", surroundings {s.surroundings - C:.1f} degC"))
+    def air(s):
+        return (f"air {s.ambient - C:.1f} degC, wind {s.wind:g} m/s, RH {s.rh:g} %"
+                + ("" if math.isnan(s.surroundings) else
+                   f", surroundings {s.surroundings - C:.1f} degC"))
+
+    def site(s):
+        cases = "".join(f"\n      its own {case}: {air(c)}\n          source: "
+                        f"{' '.join(c.source.split())}" for case, c in sorted(s.design.items()))
+        return air(s) + cases
+
+    section("Site conditions (a location's own design cases replace the plant-wide case of "
+            "the same name for its items)", rules.sites, site)
     section("Fittings", rules.fittings,
             lambda f: "bare-pipe equivalent " + ", ".join(f"NPS {n:g}: {m:g} m" for n, m in f.equivalent_length))
     section("Specifications", rules.specs,

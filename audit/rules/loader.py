@@ -270,6 +270,11 @@ def _build(section, name, entry, path, problems):
         problems.append(Problem(f"[{where}] is not a table", file=str(path), column=where, value=entry))
         return None
     before = len(problems)
+    if section == "site" and "design" in entry:
+        entry = dict(entry)
+        design = _design_cases(entry.pop("design"), where, path, problems)
+    else:
+        design = {}
     values = convert_keys(entry, keys, where=where, origin=str(path), problems=problems)
     if section == "material" and "wet_factor" in values and "wet_source" not in values:
         problems.append(Problem("wet_factor needs a wet_source", file=str(path),
@@ -279,7 +284,29 @@ def _build(section, name, entry, path, problems):
         problems.append(Problem("max_temp is not finite", file=str(path), column=f"{where}.max_temp"))
     if len(problems) > before:
         return None
+    if design:
+        values["design"] = design
     return cls(name=name, origin=str(path), **values)
+
+
+def _design_cases(body, where, path, problems) -> dict:
+    """A location's own design conditions, ``[site.LOCATION.design.CASE]``: each a whole site
+    condition of its own (ambient, wind, rh and source required, as for any site); nothing is
+    taken from the plant-wide case of the same name."""
+    if not isinstance(body, dict) or not all(isinstance(v, dict) for v in body.values()):
+        problems.append(Problem(f"[{where}.design] is not a table of design cases", file=str(path),
+                                column=f"{where}.design", value=body,
+                                expected=f"[{where}.design.CASE] tables with ambient, wind, rh "
+                                         "and source"))
+        return {}
+    cases = {}
+    for case, entry in body.items():
+        before = len(problems)
+        values = convert_keys(entry, SCHEMA["site"][1], where=f"{where}.design.{case}",
+                              origin=str(path), problems=problems)
+        if len(problems) == before:
+            cases[case] = Site(name=case, origin=str(path), **values)
+    return cases
 
 
 def _thicknesses(body, path, problems) -> dict:
@@ -302,6 +329,21 @@ def _thicknesses(body, path, problems) -> dict:
     if out and "source" not in out:
         problems.append(Problem("missing key 'source'", file=str(path), column="thicknesses"))
     return out
+
+
+def _check_design_cases(rules: Rules) -> None:
+    """A location's own design case must be one that a check (or the economics' energy site)
+    is evaluated under: any other would be read and never used."""
+    energy = rules.economics.get("energy_site", ("", ""))[0]
+    used = {c.site for c in rules.checks.values() if c.enabled and c.site} | {energy} - {""}
+    for site in rules.sites.values():
+        for case in site.design:
+            if case not in used:
+                raise RuleError(f"site {site.name!r} gives design case {case!r}, which no enabled "
+                                "check is evaluated under", file=site.origin,
+                                column=f"site.{site.name}.design.{case}", value=case,
+                                expected="one of " + (", ".join(sorted(used)) or "(none: no check "
+                                                      "names a site)"))
 
 
 def _site_name(value):
@@ -361,6 +403,7 @@ def _check_references(rules: Rules) -> None:
             raise RuleError(f"check {check.name!r} names site {check.site!r}, which is not defined",
                             file=check.origin, column=f"check.{check.name}.site", value=check.site,
                             expected="one of " + ", ".join(sorted(rules.sites)))
+    _check_design_cases(rules)
     for spec in rules.specs.values():
         if spec.material not in rules.materials:
             raise RuleError(f"spec {spec.name!r} names material {spec.material!r}, which is not "

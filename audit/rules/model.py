@@ -58,6 +58,8 @@ class Site:
     surroundings: float = float("nan")  #: radiant surroundings [K]; NaN: the air temperature
     description: str = ""
     origin: str = ""
+    #: the location's own design conditions: case name -> Site (``[site.NAME.design.CASE]``)
+    design: dict = field(default_factory=dict, hash=False)
 
 
 @dataclass(frozen=True)

@@ -22,7 +22,8 @@ def audit(tmp_path_factory):
     rules = load_rules()
     touch = rules.checks["touch-temperature"].params["limit_metal"]               # 60 degC
     foam_max = rules.materials["elastomeric-foam"].max_temp - C                      # 104 degC
-    humid = rules.sites[rules.checks["condensation"].site]
+    case = rules.checks["condensation"].site  # these items are indoors: its own case if any
+    humid = rules.sites["indoor"].design.get(case) or rules.sites[case]
     margin = rules.checks["condensation"].params.get("margin", 1.0)
     dew = float(dew_point_hyland_wexler(np.array([humid.ambient]), np.array([humid.rh]))[0]) - C
     cui_low = rules.checks["cui-window"].params["windows"]["carbon-steel"][0][0]      # -12 degC
