@@ -223,7 +223,11 @@ def format_calc(result: CalcResult, units: str = "si") -> str:
                  + (f" (overridden: {', '.join(own)})" if own else ""))
     lines.append(f"  air              {air:.1f} {air_unit}, wind {wind:.3g} {wind_unit}, "
                  f"RH {state['rh_pct']:.0f} %, surroundings {surroundings:.1f} {air_unit}")
-    lines.append(f"  emissivity       {state['emissivity_used']:.2f} (outer surface)")
+    insulated = math.isfinite(state["surface_temp_insulated_K"])
+    bare_worst = not insulated or state["surface_temp_K"] != state["surface_temp_insulated_K"]
+    parts = ([f"{state['emissivity_used']:.2f} (insulated surface)"] if insulated else []) + \
+        ([f"{state['bare_emissivity_used']:.2f} (bare metal)"] if bare_worst else [])
+    lines.append(f"  emissivity       {', '.join(parts)}")
     lines.append("")
 
     rows = []

@@ -14,24 +14,37 @@ import sys
 from concurrent.futures import ThreadPoolExecutor
 from pathlib import Path
 
+import numpy as np
 import pandas as pd
 
 from audit import display_units
 from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
 from audit.io.writers.place import OutputFolder
+from audit.io.writers.safety import as_number
 from audit.progress import printable
+from audit.results import carried_columns, findings_out, significant
 
 
 def shown(audit, table: pd.DataFrame, units: str = "si") -> pd.DataFrame:
     """One of the audit's tables as written, in the run's unit system (``units``); the
     register's carried-through columns are left as the register wrote them."""
-    return display_units.frame(table, units, keep=audit.results.attrs.get("carried", ()))
+    return display_units.frame(table, units, keep=carried_columns(audit.results))
+
+
+def _findings(audit, units: str) -> pd.DataFrame:
+    """The findings as written (:func:`~audit.results.findings_out`), in ``units``; the
+    converted figures rounded again, as the SI ones are."""
+    out = shown(audit, findings_out(audit.findings), units)
+    if units != "si":
+        for column in ("value", "limit", display_units.named("remedy_thickness", "mm", units)):
+            out[column] = significant(out[column].to_numpy(float))
+    return out
 
 
 def _csv(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
          **options) -> list[Path]:
-    findings = shown(audit, audit.findings.drop(columns=["row"]), units)
-    jobs = [(shown(audit, audit.results, units), "results.csv"), (findings, "findings.csv")]
+    jobs = [(shown(audit, audit.results, units), "results.csv"),
+            (_findings(audit, units), "findings.csv")]
     # Two threads: much of the writing is numpy formatting and file output, which let go of
     # the interpreter lock, so the two files overlap.
     with ThreadPoolExecutor(2) as pool:
@@ -48,7 +61,7 @@ def _xlsx(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
           **options) -> list[Path]:
     results, economics = shown(audit, audit.results, units), audit.economics
     rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
-    sheets = {"results": results, "findings": shown(audit, audit.findings.drop(columns=["row"]), units),
+    sheets = {"results": _register_numbers(results), "findings": _findings(audit, units),
               "rejected": rejected, "summary": summary_sheet(results, audit.findings),
               "by area": shown(audit, economics.by_area, units),
               "by check": shown(audit, economics.by_check, units),
@@ -60,6 +73,18 @@ def _xlsx(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
         print(printable(f"lagaudit: note: results.xlsx: {note}; every column and row is also in "
                         "the CSV outputs"), file=sys.stderr)
     return written
+
+
+def _register_numbers(results: pd.DataFrame) -> pd.DataFrame:
+    """``results`` with the numbers of the register's carried-through columns as numbers, so
+    that a planner's sorts and sums work in the workbook (the CSV keeps the register's text)."""
+    out = results.copy(deep=False)
+    for column in carried_columns(results):
+        codes, uniques = pd.factorize(out[column].to_numpy(object))
+        converted = np.array([as_number(u) for u in uniques] + [""], dtype=object)
+        if any(isinstance(v, float) for v in converted):
+            out[column] = converted[codes]
+    return out
 
 
 def _reports(audit, folder: OutputFolder, meta: dict, asked, *, workorder_pages: int | None = None,

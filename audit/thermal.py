@@ -569,6 +569,7 @@ def site_batch(prepared: PreparedItems, rules: Rules, site: str | None) -> tuple
     return batch, {"air_temp_K": t_air, "surroundings_temp_K": t_sur, "wind_m_s": wind,
                    "rh_pct": rh, "process_temp_K": t_process,
                    "emissivity_used": prepared.fixed["emissivity"],
+                   "bare_emissivity_used": prepared.fixed["bare_emissivity"],
                    "conditions_from": np.array(whose + [""], dtype=object)[codes]}
 
 

@@ -18,6 +18,7 @@ from markupsafe import Markup
 from audit import display_units, methods
 from audit.display_units import named
 from audit.digests import rules_digest, sha256_file
+from audit.results import carried_columns
 from audit.schema import ITEM_COLUMNS
 from audit.report import charts
 from audit.rules import SEVERITIES
@@ -89,7 +90,7 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
     (:mod:`audit.display_units`), and every number and label follows.
     """
     table = audit.table
-    carried = audit.results.attrs.get("carried", ())
+    carried = carried_columns(audit.results)
     results = display_units.frame(audit.results, units, keep=carried)
     findings = display_units.frame(audit.findings, units)
     economics = shown_economics(economics, units)
@@ -117,6 +118,7 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "rejected": _rejected(results, max_rows),
         "assumptions": [display_units.text(line) if units == "us" else line
                         for line in _assumptions(audit, meta, economics)],
+        "cover_warnings": list(getattr(economics, "warnings", None) or []),
         "economics": _economics(audit, area, economics, max_rows, units),
         "methods": [{name: Markup(methods.to_html(value)) for name, value in m._asdict().items()}
                     for m in methods.METHODS],

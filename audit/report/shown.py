@@ -22,16 +22,26 @@ def thickness_label(units: str) -> str:
 
 
 def shown_order(order: dict, units: str) -> dict:
-    """One work order's printed fields in ``units`` (the order itself in SI)."""
+    """One work order's printed fields in ``units`` (the order itself in SI): its own, and
+    those of each register row (``parts``) it lists."""
     if units == "si":
         return order
-    words = display_units.text
-    return {**order,
-            "description": [(label, words(value)) for label, value in order["description"]],
-            "findings": [{**f, "found": words(f["found"]), "conditions": words(f["conditions"]),
-                          "message": words(f["message"])} for f in order["findings"]],
-            "remedies": [words(r) for r in order["remedies"]],
+    return {**_shown_fields(order),
+            "remedies": [display_units.text(r) for r in order["remedies"]],
+            "parts": [{**_shown_fields(p), "quantities": [shown_quantity(q, units)
+                                                          for q in p["quantities"]]}
+                      for p in order.get("parts", ())],
             "quantities": [shown_quantity(q, units) for q in order["quantities"]]}
+
+
+def _shown_fields(record: dict) -> dict:
+    """A work order's or a row's description and findings, their quantities in US units."""
+    words = display_units.text
+    return {**record,
+            "description": [(label, words(value)) for label, value in record["description"]],
+            "findings": [{**f, "found": words(f["found"]), "conditions": words(f["conditions"]),
+                          "message": words(f["message"]), "remedy": words(f.get("remedy", ""))}
+                         for f in record["findings"]]}
 
 
 def shown_quantity(row: dict, units: str) -> dict:
