@@ -78,6 +78,12 @@ class CalcResult:
     rules: Rules
 
 
+def flag_of(column: str) -> str:
+    """The ``calc`` flag of a register column: ``--area-code`` for ``area_code``, as the
+    command line spells its other flags."""
+    return "--" + column.replace("_", "-")
+
+
 def add_calc_arguments(parser: argparse.ArgumentParser) -> None:
     """The ``calc`` flags: one per register column, plus ``--rules`` and ``--units``."""
     what = parser.add_argument_group("the item (register notation; a unit may follow the number)")
@@ -124,7 +130,7 @@ def add_calc_arguments(parser: argparse.ArgumentParser) -> None:
     declared = {action.dest for action in parser._actions}
     for column in FLAG_COLUMNS:  # a schema column without a hand-written flag gets a plain one
         if column not in declared:
-            what.add_argument(f"--{column}", help=_flag_help(BY_NAME[column]))
+            what.add_argument(flag_of(column), dest=column, help=_flag_help(BY_NAME[column]))
     parser.add_argument("--rules", action="append", default=[], metavar="DIR",
                         help="layer this folder's *.toml over the shipped rules (repeatable)")
     parser.add_argument("--units", choices=display_units.SYSTEMS,
@@ -202,7 +208,8 @@ def _read_one(cells: dict[str, str], rules: Rules) -> pd.DataFrame:
 
 def _as_flags(found: pd.DataFrame) -> str:
     """The row's problems in terms of the flags (``--length: "TBA" is not ...``)."""
-    return "; ".join(f"--{column}: {text[len(column) + 2:]}" if column in FLAG_COLUMNS else text
+    return "; ".join(f"{flag_of(column)}: {text[len(column) + 2:]}" if column in FLAG_COLUMNS
+                     else text
                      for column, text in zip(found["column"], found["text"]))
 
 
