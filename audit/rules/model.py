@@ -158,6 +158,8 @@ class Rules:
     #: the [economics] table as layered: key or sub-table -> (raw value, file); validated and
     #: built by :func:`audit.economics.rules.economic_rules`
     economics: dict = field(default_factory=dict)
+    #: a plant's words: words table -> {normalised word: (rule name, word as written, file)}
+    words: dict = field(default_factory=dict)
 
     def default_site(self) -> Site:
         return self.sites[self.defaults["site"]]
