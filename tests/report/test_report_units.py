@@ -38,7 +38,9 @@ def us_report(demo_audit):
 
 def test_report_labels_and_axes_in_us_units(us_report):
     text = visible_text(us_report)
-    assert "kBtu/h (sum of heat_loss [Btu/h] in results.csv)" in " ".join(text.split())
+    # Heat lost and gained apart (never netted), in the run's units.
+    assert "kBtu/h (sums of the positive and of the negative heat_loss [Btu/h] in results.csv" \
+        in " ".join(text.split())
     assert "MMBtu" in text and "°F</text>" in us_report  # a chart axis in degF
 
 
