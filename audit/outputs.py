@@ -14,16 +14,18 @@ import sys
 from concurrent.futures import ThreadPoolExecutor
 from pathlib import Path
 
+import numpy as np
 import pandas as pd
 
 from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
 from audit.io.writers.place import OutputFolder
+from audit.io.writers.safety import as_number
 from audit.progress import printable
+from audit.results import carried_columns, findings_out
 
 
 def _csv(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
-    findings = audit.findings.drop(columns=["row"])
-    jobs = [(audit.results, "results.csv"), (findings, "findings.csv")]
+    jobs = [(audit.results, "results.csv"), (findings_out(audit.findings), "findings.csv")]
     # Two threads: much of the writing is numpy formatting and file output, which let go of
     # the interpreter lock, so the two files overlap.
     with ThreadPoolExecutor(2) as pool:
@@ -37,7 +39,7 @@ def _json(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Pat
 def _xlsx(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
     results, economics = audit.results, audit.economics
     rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
-    sheets = {"results": results, "findings": audit.findings.drop(columns=["row"]),
+    sheets = {"results": _register_numbers(results), "findings": findings_out(audit.findings),
               "rejected": rejected, "summary": summary_sheet(results, audit.findings),
               "by area": economics.by_area, "by check": economics.by_check,
               "best paybacks": economics.top_repairs,
@@ -48,6 +50,18 @@ def _xlsx(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Pat
         print(printable(f"lagaudit: note: results.xlsx: {note}; every column and row is also in "
                         "the CSV outputs"), file=sys.stderr)
     return written
+
+
+def _register_numbers(results: pd.DataFrame) -> pd.DataFrame:
+    """``results`` with the numbers of the register's carried-through columns as numbers, so
+    that a planner's sorts and sums work in the workbook (the CSV keeps the register's text)."""
+    out = results.copy(deep=False)
+    for column in carried_columns(results):
+        codes, uniques = pd.factorize(out[column].to_numpy(object))
+        converted = np.array([as_number(u) for u in uniques] + [""], dtype=object)
+        if any(isinstance(v, float) for v in converted):
+            out[column] = converted[codes]
+    return out
 
 
 def _reports(audit, folder: OutputFolder, meta: dict, asked, *, workorder_pages: int | None = None,

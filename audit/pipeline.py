@@ -67,6 +67,8 @@ def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlation
                                   fuel_price=fuel_price, hours=hours)
     names, worst = summarise_per_row(findings, len(table))
     states = context.states("")
+    cases = dict.fromkeys(c.site for c in rules.checks.values() if c.enabled and c.site)
     results = build_results(table, states, findings=names, severity=worst,
-                            extra=economics.per_row)
+                            extra=economics.per_row,
+                            judged={case: context.states(case) for case in cases})
     return Audit(rules, table, results, findings, economics, states)

@@ -1,7 +1,16 @@
 """The results table: one row per input row, in input order, with the contract's columns.
 
 Built from the item table and the thermal states; holds no physics and writes no files.
-Column headers follow the register convention ``name [unit]``.
+Column headers follow the register convention ``name [unit]``.  After the computed columns
+come the values each check judged (``surface_temp@CASE [degC]``: the worst surface under each
+design case a check evaluated), the recognised inputs as the audit understood them (under their
+register names, with units), the warnings, then the register's own extra columns.
+
+``surface_temp [degC]`` is the item's worst outer surface at its own conditions and
+``surface_part`` says which part that is (``insulated``, or ``bare metal`` for a bare item, a bare
+share of damaged insulation or bare fittings); ``emissivity [-]`` is that part's.
+``heat_flux [W/m2]`` is at the main surface, the insulated one where there is one
+(``surface_temp_insulated [degC]`` is its temperature).
 """
 
 from __future__ import annotations
@@ -9,6 +18,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
+from audit.repeats import per_distinct
 from audit.schema import ITEM_COLUMNS
 from audit.thermal import ZERO_CELSIUS
 
@@ -18,11 +28,13 @@ CONTRACT_COLUMNS = ["tag", "source", "status", "reason", "surface_temp [degC]", 
 
 
 def build_results(table: pd.DataFrame, states: pd.DataFrame, *, findings=None,
-                  severity=None, extra: pd.DataFrame | None = None) -> pd.DataFrame:
+                  severity=None, extra: pd.DataFrame | None = None,
+                  judged: dict | None = None) -> pd.DataFrame:
     """Combine the item table and the item's own-conditions states into the results table.
 
     ``extra`` (the economics' per-row columns, aligned with the table's rows) follows the
-    contract's leading columns.
+    contract's leading columns; ``judged`` maps each design case a check evaluated to its
+    states (``surface_temp@CASE [degC]``).
 
     A row the reader accepted but the engine could not compute is ``rejected`` with the
     engine's reason.  Columns the reader did not recognise follow the computed ones,
@@ -71,7 +83,16 @@ def build_results(table: pd.DataFrame, states: pd.DataFrame, *, findings=None,
     out["air_temp [degC]"] = celsius("air_temp_K")
     out["surroundings_temp [degC]"] = celsius("surroundings_temp_K")
     out["wind [m/s]"] = states["wind_m_s"].to_numpy(float)
-    out["emissivity [-]"] = states["emissivity_used"].to_numpy(float)
+    bare = surface_is_bare(states)
+    out["surface_part"] = np.where(states["computed"].to_numpy(bool),
+                                   np.where(bare, "bare metal", "insulated"), "")
+    out["emissivity [-]"] = np.where(bare, states["bare_emissivity_used"].to_numpy(float),
+                                     states["emissivity_used"].to_numpy(float))
+    for case, case_states in (judged or {}).items():
+        out[f"surface_temp@{case} [degC]"] = case_states["surface_temp_K"].to_numpy(float) \
+            - ZERO_CELSIUS
+    for column, values in recognised_inputs(table).items():
+        out[column] = values
     out["warnings"] = ["; ".join(w for w in (a, b) if w) for a, b in zip(warnings, engine_warnings)]
     for column in _extra_columns(table):
         # An input column that happens to share a result column's name keeps its data.
@@ -79,6 +100,84 @@ def build_results(table: pd.DataFrame, states: pd.DataFrame, *, findings=None,
         out[name] = table[column].to_numpy(object)
     out.index = table.index
     return out
+
+
+#: Significant figures a finding's value, limit and remedy thickness keep in the outputs: far
+#: more than any input or limit is known to, and no float noise (175.00000000000003).
+SIGNIFICANT = 6
+
+
+def significant(values, digits: int = SIGNIFICANT) -> np.ndarray:
+    """``values`` rounded to ``digits`` significant figures (NaN and 0 as they are).
+
+    The rounded value is an integer times an exact power of ten, divided or multiplied once,
+    so it is the float nearest the rounded decimal (what ``float(f"{x:.6g}")`` gives) for
+    magnitudes whose powers of ten are exact (about 1e-16 to 1e27).
+    """
+    x = np.asarray(values, float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        shift = digits - 1 - np.floor(np.log10(np.abs(x)))
+    shift = np.where(np.isfinite(shift), shift, 0).astype(int)
+    up = np.power(10.0, np.clip(shift, 0, 300))
+    down = np.power(10.0, np.clip(-shift, 0, 300))
+    return np.where(shift >= 0, np.round(x * up) / up, np.round(x / down) * down)
+
+
+def findings_out(findings: pd.DataFrame) -> pd.DataFrame:
+    """The findings as the outputs write them: without the item-table row, the figures at
+    :data:`SIGNIFICANT` significant figures."""
+    out = findings.drop(columns=["row"])
+    for column in ("value", "limit", "remedy_thickness [mm]"):
+        out[column] = significant(out[column].to_numpy(float))
+    return out
+
+
+def carried_columns(results: pd.DataFrame) -> list[str]:
+    """The register's own extra columns, carried through as text: those after ``warnings``."""
+    columns = list(results.columns)
+    return columns[columns.index("warnings") + 1:] if "warnings" in columns else []
+
+
+def surface_is_bare(states: pd.DataFrame) -> np.ndarray:
+    """Whether each item's worst surface (``surface_temp``) is bare metal: the item has no
+    insulated surface, or a bare part (fittings, a damaged share) is farther from the air."""
+    worst = states["surface_temp_K"].to_numpy(float)
+    insulated = states["surface_temp_insulated_K"].to_numpy(float)
+    return np.isfinite(worst) & ~(worst == insulated)
+
+
+def recognised_inputs(table: pd.DataFrame) -> dict[str, np.ndarray]:
+    """The register columns the audit recognised, as it understood them, under their register
+    names with units (contract: "Results columns added")."""
+    def celsius(column):
+        return table[column].to_numpy(float) - ZERO_CELSIUS
+
+    layers = per_distinct(layers_text, table["layer_materials"].to_numpy(object),
+                          table["layer_thicknesses_m"].to_numpy(object))
+    return {
+        "shape": table["shape"].to_numpy(object),
+        "nps": table["nps"].to_numpy(object),
+        "od [mm]": table["od_m"].to_numpy(float) * 1000.0,
+        "length [m]": table["length_m"].to_numpy(float),
+        "area [m2]": table["area_m2"].to_numpy(float),
+        "temp [degC]": np.where(table["temp_is_ambient"].to_numpy(bool), np.nan, celsius("temp_K")),
+        "layers": layers,
+        "condition": table["condition"].to_numpy(object),
+        "location": table["location"].to_numpy(object),
+        "area_code": table["area_code"].to_numpy(object),
+        "accessible": np.where(table["accessible"].fillna(False).to_numpy(bool), "yes", "no"),
+        "service": table["service"].to_numpy(object),
+    }
+
+
+def layers_text(materials, thicknesses) -> str:
+    """Layers as a register writes them: ``calcium-silicate 50mm + mineral-wool 50mm``
+    (``none`` for bare; the history database records them so too)."""
+    if not isinstance(materials, tuple):
+        return ""
+    if not materials:
+        return "none"
+    return " + ".join(f"{m} {t * 1000:g}mm" for m, t in zip(materials, thicknesses))
 
 
 def _extra_columns(table: pd.DataFrame) -> list[str]:

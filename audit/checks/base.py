@@ -13,6 +13,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass, field
+from pathlib import Path
 
 import numpy as np
 import pandas as pd
@@ -29,7 +30,8 @@ from audit.thermal import (ZERO_CELSIUS, PreparedItems, conductivity_tables, has
 FINDING_COLUMNS = ["row", "tag", "source", "check", "kind", "severity", "value", "limit", "unit",
                    "site", "conditions_from", "air_temp [degC]", "wind [m/s]", "rh [%]", "surroundings_temp [degC]",
                    "limit_source", "message",
-                   "remedy", "fixable_by_insulation", "remedy_thickness [mm]", "remedy_material"]
+                   "remedy", "remedy_action", "fixable_by_insulation", "remedy_thickness [mm]",
+                   "remedy_material"]
 
 
 @dataclass
@@ -43,6 +45,9 @@ class Verdict:
     unit: object = ""
     severity: object = None     #: per row where it differs from the check's, else None
     facts: dict = field(default_factory=dict)  #: what the wording reads, aligned with rows
+    #: per row where another rule table than the check's governed the limit (a plant
+    #: specification, a material's maximum temperature), else None: see :func:`rule_source`
+    limit_source: object = None
 
 
 @dataclass
@@ -61,6 +66,9 @@ class CheckKind:
     #: the remedy's insulation must pass it too: the remedy search evaluates it on every
     #: trial, not only on the items that failed it (e.g. a layer's maximum temperature)
     remedy_must_pass: bool = False
+    #: its findings are remedied by the repair plan's actions (reinstate, replace, covers)
+    #: that its ``flags`` parameter names, not by a thickness (the ``condition`` kind)
+    remedied_by_repair: bool = False
 
     def findings(self, context: CheckContext, check: Check, params: dict) -> pd.DataFrame:
         """The findings table of ``check`` on ``context``: its verdict, worded."""
@@ -68,7 +76,8 @@ class CheckKind:
         message, remedy = self.word(context, check, params, verdict)
         return findings(context, check, verdict.rows, value=verdict.value, limit=verdict.limit,
                         unit=verdict.unit, message=message, remedy=remedy,
-                        fixable=self.fixable_by_insulation, severity=verdict.severity)
+                        fixable=self.fixable_by_insulation, severity=verdict.severity,
+                        limit_source=verdict.limit_source)
 
 
 @dataclass
@@ -126,13 +135,27 @@ class CheckContext:
         return mask
 
 
+def rule_source(origin: str, table: str, source: str) -> str:
+    """Where a limit came from: the rule file (its folder and name, so a plant's own file
+    reads apart from the shipped one), the table in it, and that table's ``source``."""
+    path = Path(origin) if origin else None
+    where = f"{path.parent.name}/{path.name}" if path is not None else "(rules given in code)"
+    return f"{where} [{table}]: {source}"
+
+
+def check_source(check: Check) -> str:
+    """:func:`rule_source` of a check's own table."""
+    return rule_source(check.origin, f"check.{check.name}", check.source)
+
+
 def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, limit, unit,
-             message, remedy, fixable=False, severity=None) -> pd.DataFrame:
+             message, remedy, fixable=False, severity=None, limit_source=None) -> pd.DataFrame:
     """A findings table for ``rows`` (positions in the item table) of one check.
 
-    ``value``, ``limit``, ``unit``, ``message``, ``remedy`` and ``severity`` are arrays
-    aligned with ``rows`` or scalars; ``severity`` defaults to the check's; the conditions come from the
-    check's scenario.
+    ``value``, ``limit``, ``unit``, ``message``, ``remedy``, ``severity`` and
+    ``limit_source`` are arrays aligned with ``rows`` or scalars; ``severity`` defaults to the
+    check's, ``limit_source`` to the check's own table (:func:`check_source`); the conditions
+    come from the check's scenario.
     """
     rows = np.asarray(rows, int)
     n = rows.size
@@ -164,9 +187,10 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
         "rh [%]": states["rh_pct"].to_numpy(float)[rows],
         "surroundings_temp [degC]": states["surroundings_temp_K"].to_numpy(float)[rows]
         - ZERO_CELSIUS,
-        "limit_source": check.source,
+        "limit_source": spread(check_source(check) if limit_source is None else limit_source),
         "message": spread(message),
         "remedy": spread(remedy),
+        "remedy_action": "",
         "fixable_by_insulation": spread(fixable, bool),
         "remedy_thickness [mm]": np.nan,
         "remedy_material": "",
@@ -189,6 +213,15 @@ def validated_params(check: Check, kind: CheckKind) -> dict:
     if kind.validate is not None:
         kind.validate(check, values)
     return values
+
+
+def cold_service(context: CheckContext) -> np.ndarray:
+    """Per row: in cold service (declared ``cold``, or its process below the air at its own
+    conditions), where a cover or a layer needs a vapour seal."""
+    states = context.states("")
+    with np.errstate(invalid="ignore"):
+        return ((states["process_temp_K"].to_numpy(float) < states["air_temp_K"].to_numpy(float))
+                | (context.table["service"].fillna("").to_numpy(object) == "cold"))
 
 
 def bare_parts(table: pd.DataFrame) -> np.ndarray:

@@ -29,7 +29,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from audit.checks.base import CheckKind, Verdict
+from audit.checks.base import CheckKind, Verdict, rule_source
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
 from audit.repeats import per_distinct
 from audit.thermal import ZERO_CELSIUS
@@ -142,6 +142,14 @@ def requirement(table, rules, process_temp_k, air_temp_k) -> Requirement:
     return out
 
 
+def spec_sources(rules, names) -> np.ndarray:
+    """Per specification name: the rule file and ``[spec.NAME]`` table it comes from, with
+    its source (the plant's own file where a plant's rules define it)."""
+    return per_distinct(lambda name: rule_source(rules.specs[name].origin, f"spec.{name}",
+                                                 rules.specs[name].source)
+                        if name in rules.specs else "", np.asarray(names, dtype=object))
+
+
 def installed_thickness(table) -> np.ndarray:
     """Total installed insulation thickness [m] of each row; 0 when bare or missing."""
     total = per_distinct(lambda x: float(sum(x)) if isinstance(x, tuple) else 0.0,
@@ -160,7 +168,7 @@ def evaluate(context, check, params):
     thin = asked & (have < need.thickness_m - need.tolerance_m - _EDGE_M)
     rows = np.flatnonzero(context.selected(check) & (bare | thin))
     return Verdict(rows, value=have[rows] * 1000.0, limit=need.thickness_m[rows] * 1000.0,
-                   unit="mm", facts={
+                   unit="mm", limit_source=spec_sources(context.rules, need.spec[rows]), facts={
                        "bare": bare[rows], "spec": need.spec[rows], "material": need.material[rows],
                        "process": states["process_temp_K"].to_numpy(float)[rows] - ZERO_CELSIUS,
                        "tolerance_mm": need.tolerance_m[rows] * 1000})

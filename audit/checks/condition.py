@@ -22,16 +22,18 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, Verdict, has_layers
+from audit.checks.base import CheckKind, Verdict, cold_service, has_layers
 from audit.repeats import per_distinct
 from audit.rules.converters import choice, list_of, quantity
 
 NAME = "condition"
 
 FLAGS = ("missing", "damaged", "wet", "fittings")
-REINSTATE = "reinstate insulation to specification"
-DRY_OUT = "dry out or replace wet insulation; find and stop the water entry"
+REINSTATE_MISSING = "reinstate the insulation to the registered build-up (not below the specification)"
+REINSTATE_DAMAGED = "reinstate the damaged share to the installed build-up"
+DRY_OUT = "dry out or replace wet insulation like for like; find and stop the water entry"
 COVERS = "fit removable insulation covers on fittings"
+COVERS_COLD = "fit removable vapour-sealed insulation covers on fittings (cold service)"
 
 
 def _count(value):
@@ -44,22 +46,22 @@ def _plural(n: int, word: str) -> str:
     return f"{n} uninsulated {word}{'' if n == 1 else 's'}"
 
 
-def _words(missing, damaged, wet, fittings, share, valves, flanges) -> tuple[str, str]:
+def _words(missing, damaged, wet, fittings, share, valves, flanges, cold) -> tuple[str, str]:
     """(message, remedy) of one item's condition finding."""
     parts, actions = [], []
     if missing:
         parts.append("insulation missing: 100 % of the length bare")
-        actions.append(REINSTATE)
+        actions.append(REINSTATE_MISSING)
     if damaged:
         parts.append(f"damaged: {share:g} % of the length bare")
-        actions.append(REINSTATE)
+        actions.append(REINSTATE_DAMAGED)
     if wet:
         parts.append("wet insulation")
         actions.append(DRY_OUT)
     if fittings:
         parts.extend(_plural(int(n), word) for n, word in ((valves, "valve"), (flanges, "flange"))
                      if n > 0)
-        actions.append(COVERS)
+        actions.append(COVERS_COLD if cold else COVERS)
     return "; ".join(parts), "; ".join(dict.fromkeys(actions))
 
 
@@ -95,7 +97,7 @@ def evaluate(context, check, params):
 
 
 def word(context, check, params, verdict):
-    worded = per_distinct(_words, *verdict.facts["flags"])
+    worded = per_distinct(_words, *verdict.facts["flags"], cold_service(context)[verdict.rows])
     return [m for m, _ in worded], [r for _, r in worded]
 
 
@@ -108,5 +110,6 @@ KIND = CheckKind(
         "min_fittings": (_count, False),
     },
     fixable_by_insulation=False,
+    remedied_by_repair=True,
     description="missing, damaged or wet insulation, and uninsulated valves and flanges on an "
                 "insulated line")

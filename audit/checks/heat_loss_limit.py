@@ -29,8 +29,8 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from audit.checks.base import CheckKind, Verdict
-from audit.checks.below_spec import requirement
+from audit.checks.base import CheckKind, Verdict, check_source
+from audit.checks.below_spec import requirement, spec_sources
 from audit.errors import RuleError
 from audit.rules.converters import quantity
 from audit.thermal import prepared_states
@@ -97,8 +97,15 @@ def evaluate(context, check, params):
     keys = list(values)
     which = worst[rows]
     value = np.column_stack([values[key] for key in keys])[rows, which] if keys else np.empty(0)
+    sources = None
+    if need is not None:
+        by_spec = np.asarray([k == "multiple_of_spec" for k in keys], bool)[which]
+        sources = np.where(by_spec, check_source(check) + "; reference: "
+                           + spec_sources(context.rules, need.spec[rows]).astype(object),
+                           check_source(check))
     return Verdict(rows, value=value, limit=np.array([limits[key] for key in keys])[which],
                    unit=np.array([_UNITS[key] for key in keys], dtype=object)[which],
+                   limit_source=sources,
                    facts={"keys": keys, "values": values, "limits": limits, "ratios": ratios,
                           "heat": heat, "need": need})
 

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import CheckKind, Verdict
+from audit.checks.base import CheckKind, Verdict, rule_source
 from audit.repeats import per_distinct
 from audit.thermal import ZERO_CELSIUS
 
@@ -46,8 +46,11 @@ def evaluate(context, check, params):
         worst_limit[better] = limit[better]
         worst_name[better] = names[better]
     rows = np.flatnonzero(worst_excess > 0)
+    materials = context.rules.materials
+    sources = per_distinct(lambda name: rule_source(materials[name].origin, f"material.{name}",
+                                                    materials[name].source), worst_name[rows])
     return Verdict(rows, value=worst_temp[rows] - ZERO_CELSIUS,
-                   limit=worst_limit[rows] - ZERO_CELSIUS, unit="degC",
+                   limit=worst_limit[rows] - ZERO_CELSIUS, unit="degC", limit_source=sources,
                    facts={"material": worst_name[rows]})
 
 

@@ -27,6 +27,10 @@ The remedy material is the material of the specification the item is held to (se
 ``below-spec``), else its outermost installed material; an item with neither gets a named
 action without a thickness.  Where the check's rule allows a guard (``guard_allowed``), a
 personnel guard is offered beside insulation.
+
+Each remedy also says what it does as data, in ``remedy_action`` (``;``-joined
+:data:`ACTIONS`), and so do the findings of ``condition`` checks: the work-order quantities
+are counted from it (audit/report/workorders.py).
 """
 
 from __future__ import annotations
@@ -38,13 +42,26 @@ from audit.checks.base import CheckContext
 from audit.checks.below_spec import _EDGE_M, installed_thickness, requirement
 from audit.checks.repairs import plan_repairs
 from audit.repeats import map_values, per_distinct
+from audit.thermal import fittings_of
 
 GUARD = "; or fit a personnel guard over the hot surface instead"
+#: What a remedy does, as ``remedy_action`` names it.
+ACTIONS = {
+    "covers": "removable covers on the uninsulated fittings (vapour-sealed on cold service)",
+    "reinstate-damaged": "the damaged share reinstated to the installed build-up",
+    "replace-wet": "wet insulation replaced like for like",
+    "reinstate-missing": "missing insulation reinstated as listed",
+    "insulate": "the whole item insulated to remedy_thickness of remedy_material",
+    "engineer": "no standard thickness clears the check: a solution to be engineered",
+    "guard": "a personnel guard, offered beside the insulation (burn risk)",
+}
 
 
 def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, params: dict) -> pd.DataFrame:
     """``findings`` with ``remedy_thickness [mm]``, ``remedy_material`` and the remedy text
-    completed for the findings that insulation can fix."""
+    completed for the findings that insulation can fix, and ``remedy_action`` for those and
+    the ``condition`` findings."""
+    findings = _condition_actions(context.table, findings, kinds, params)
     if not len(findings) or not findings["fixable_by_insulation"].any() or not context.rules.thicknesses:
         return findings
     rules, table = context.rules, context.table
@@ -145,6 +162,60 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
                                               ""),
                         np.where(np.isfinite(mm), material[i], ""))
     out["remedy_material"] = mats
+    action = out["remedy_action"].to_numpy(object).copy()
+    action[at] = per_distinct(_actions, *_repair_facts(table, plan, rows[i]), repaired[i],
+                              material[i], np.isfinite(mm), guard)
+    out["remedy_action"] = action
+    return out
+
+
+def _repair_facts(table: pd.DataFrame, plan, rows: np.ndarray) -> list[np.ndarray]:
+    """Per row of ``rows``: (insulate, to_spec, share, condition, covers) of its repair."""
+    return [plan.insulate[rows], plan.to_spec[rows], plan.share[rows],
+            table["condition"].fillna("").to_numpy(object)[rows], plan.covers[rows] > 0]
+
+
+def _actions(insulate, to_spec, share, condition, covers, by_repair, material, thickness,
+             guard) -> str:
+    """``remedy_action`` of one fixable finding."""
+    done = []
+    if by_repair:
+        if insulate and to_spec:
+            done.append("insulate")
+        elif insulate:
+            done.append("replace-wet" if condition == "wet" else
+                        "reinstate-damaged" if share < 1 else "reinstate-missing")
+        if covers:
+            done.append("covers")
+    else:
+        done.append("insulate" if material and thickness else "engineer")
+    return ";".join(done + ["guard"] * bool(guard))
+
+
+def _condition_actions(table: pd.DataFrame, findings: pd.DataFrame, kinds: dict,
+                       params: dict) -> pd.DataFrame:
+    """``findings`` with ``remedy_action`` of each finding of a kind remedied by repair (the
+    ``condition`` check): the repairs its flags name that its row needs."""
+    by_repair = [name for name, kind in kinds.items() if kind.remedied_by_repair]
+    at = np.flatnonzero(np.isin(findings["kind"].to_numpy(object), by_repair)) \
+        if len(findings) else []
+    if not len(at):
+        return findings
+    rows = findings["row"].to_numpy(int)[at]
+    condition = table["condition"].fillna("").to_numpy(object)[rows]
+    share = np.nan_to_num(table["damaged_pct"].to_numpy(float))[rows]
+    count = fittings_of(table, "valves") + fittings_of(table, "flanges")
+    fittings = (table["shape"] == "pipe").to_numpy()[rows] & (count[rows] > 0)
+    flags = [frozenset(params.get(c, {}).get("flags", ())) for c in findings["check"].to_numpy(object)[at]]
+    out = findings.copy()
+    action = out["remedy_action"].to_numpy(object).copy()
+    action[at] = [";".join(name for name, hit, flag in (
+        ("reinstate-missing", c == "missing", "missing"),
+        ("reinstate-damaged", c == "damaged" and d > 0, "damaged"),
+        ("replace-wet", c == "wet", "wet"), ("covers", f and c != "missing", "fittings"))
+        if hit and flag in fl) for c, d, f, fl in zip(condition.tolist(), share.tolist(),
+                                                      fittings.tolist(), flags)]
+    out["remedy_action"] = action
     return out
 
 
@@ -221,8 +292,7 @@ def _repair_thickness_mm(plan, rows: np.ndarray) -> np.ndarray:
 def _repair_words(table: pd.DataFrame, plan, states: pd.DataFrame, rows: np.ndarray) -> np.ndarray:
     """The repair of each row in words, for a crew."""
     cold = (states["process_temp_K"].to_numpy(float) < states["air_temp_K"].to_numpy(float))[rows]
-    valves = np.nan_to_num(pd.to_numeric(table["valves"], errors="coerce").to_numpy(float))[rows]
-    flanges = np.nan_to_num(pd.to_numeric(table["flanges"], errors="coerce").to_numpy(float))[rows]
+    valves, flanges = fittings_of(table, "valves")[rows], fittings_of(table, "flanges")[rows]
     condition = table["condition"].fillna("").to_numpy(object)[rows]
     return per_distinct(
         _one_repair, plan.insulate[rows], plan.to_spec[rows], plan.share[rows],

@@ -14,7 +14,7 @@ economic rules' default (``--hours`` replaces that default for one run).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
@@ -59,6 +59,7 @@ class Economics:
     top_repairs: pd.DataFrame  #: the 20 repairs with the shortest payback
     assumptions: list          #: [{"what", "value", "source"}] for the report's cover
     site: str                  #: the site condition the energy is reckoned under
+    warnings: list = field(default_factory=list)  #: for the report's cover (currencies)
 
     @property
     def totals(self) -> dict:
@@ -120,7 +121,8 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
     computed = states["computed"].to_numpy(bool)
 
     material = np.where(plan.spec_material != "", plan.spec_material, _outermost(table)).astype(object)
-    economic = economic_thickness(context, econ, site=site, hours_h=hours_h, material=material)
+    economic, at_edge = economic_thickness(context, econ, site=site, hours_h=hours_h,
+                                           material=material, edge=True)
 
     def known(values):
         return np.where(computed, values, np.nan)
@@ -148,8 +150,11 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
             (material == "", "no economic thickness: no specification or installed material"),
             ((material != "") & ~np.isfinite(economic),
              "no economic thickness: item at ambient, or no standard thickness could be costed"),
-            (np.isfinite(economic) & (economic >= max(rules.thicknesses, default=np.inf)),
-             "economic thickness is the thickest standard one: the optimum may lie beyond")]),
+            (at_edge & (economic >= max(rules.thicknesses, default=np.inf)),
+             "economic thickness is the thickest standard one: the optimum may lie beyond"),
+            (at_edge & (economic < max(rules.thicknesses, default=np.inf)),
+             "economic thickness is the thickest one the [economics.repair] cost table prices: "
+             "the optimum may lie beyond")]),
     }, index=table.index, columns=COLUMNS)
 
     return Economics(
@@ -164,7 +169,7 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
              else "economics energy_site"},
             {"what": "annuity factor", "value": f"{float(annuity_factor(econ.interest, econ.life)):.5f} /yr",
              "source": "i(1+i)^n/((1+i)^n-1) of the interest rate and service life (VDI 2055)"}],
-        site=site)
+        site=site, warnings=econ.currency_warnings())
 
 
 def _outermost(table: pd.DataFrame) -> np.ndarray:

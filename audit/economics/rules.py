@@ -50,8 +50,10 @@ _MONEY = quantity("dimensionless", "dimensionless", low=0.0)
 _MM = quantity("mm", "m", low=0.0, low_open=True)
 _NPS = quantity("dimensionless", "dimensionless", low=0.0, low_open=True)
 
-#: What [economics.heat] and [economics.cold] both say of the energy bought.
+#: What [economics.heat] and [economics.cold] both say of the energy bought; ``currency`` (of
+#: the price) defaults to the [economics] currency of the file that defines the sub-table.
 _PURCHASE = {
+    "currency": (text, False),
     "price": (_MONEY, True),
     "price_per": (_energy_unit, True),
     "price_source": (text, True),
@@ -91,6 +93,7 @@ SCHEMA = {
         "surface_per_m2": (list_of(_MONEY, "costs per m2"), True),
         "cover_per_fitting": (list_of(_MONEY, "costs per fitting cover"), True),
         "source": (text, True),
+        "currency": (text, False),
     },
 }
 
@@ -108,6 +111,8 @@ class Carrier:
     price_source: str
     emission_factor: float    #: kg CO2 per MWh of purchased energy
     emission_source: str
+    currency: str = ""        #: of the price
+    origin: str = ""          #: file that defined it
 
 
 @dataclass(frozen=True)
@@ -120,6 +125,8 @@ class Repair:
     surface_per_m2: tuple     #: [thickness column] currency per m2 of insulated surface
     cover_per_fitting: tuple  #: [size row] currency per removable fitting cover
     source: str
+    currency: str = ""        #: of the costs
+    origin: str = ""          #: file that defined them
 
 
 @dataclass(frozen=True)
@@ -140,6 +147,18 @@ class EconomicRules:
     files: tuple              #: files read, in order
     price_per: dict           #: "heat"/"cold" -> (unit as written, MWh per unit)
 
+    def currency_warnings(self) -> list[str]:
+        """A warning per price or cost table whose currency is not the plant's ``currency``
+        (a plant that changed the currency but kept the shipped costs), for the report's
+        cover: their money figures are in another currency than the report says."""
+        tables = [("fuel price", "heat", self.heat), ("electricity price", "cold", self.cold),
+                  ("repair costs", "repair", self.repair)]
+        return [f"The {what} [{SECTION}.{sub}] are in {t.currency} ({Path(t.origin).parent.name}/"
+                f"{Path(t.origin).name}), not in the currency of the rules, {self.currency}: "
+                f"costs, savings and paybacks mix currencies. Give [{SECTION}.{sub}] in "
+                f"{self.currency} in your rules folder."
+                for what, sub, t in tables if t.currency and t.currency != self.currency]
+
     def with_overrides(self, *, fuel_price=None, hours=None) -> "EconomicRules":
         """A copy with a run's ``--fuel-price`` (currency per the rules' ``price_per`` unit of
         ``[economics.heat]``) and ``--hours`` (the default for rows without hours)."""
@@ -150,7 +169,7 @@ class EconomicRules:
             heat = Carrier(heat.name, heat.description, heat.conversion, heat.conversion_source,
                            price / mwh, f"{price:g} {self.currency} per {unit}",
                            "given for this run (--fuel-price)", heat.emission_factor,
-                           heat.emission_source)
+                           heat.emission_source, self.currency, "")
         if hours is not None:
             default_hours = _checked(hours, "hours", low=0.0, high=8784.0)
             source = "given for this run (--hours)"
@@ -177,7 +196,8 @@ class EconomicRules:
              "source": self.finance_source},
             {"what": "service life of insulation", "value": f"{self.life:g} yr",
              "source": self.finance_source},
-            {"what": "repair costs", "value": f"tables in {self.currency}", "source": self.repair.source},
+            {"what": "repair costs", "value": f"tables in {self.repair.currency or self.currency}",
+             "source": self.repair.source},
         ]
 
 
@@ -274,15 +294,27 @@ def _repair_shapes(values, merged) -> list[Problem]:
     return out
 
 
+def _table_currency(v, merged, sub) -> str:
+    """The currency of a sub-table: its own ``currency``, else the [economics] currency of
+    the file that defined it (a later file's currency does not convert its money)."""
+    if f"{sub}.currency" in v:
+        return v[f"{sub}.currency"]
+    origin = merged[sub][1]
+    own = read_rule_file(Path(origin)).get(SECTION, {}).get("currency") if origin else None
+    return own if isinstance(own, str) and own.strip() else v[".currency"]
+
+
 def _build(v, merged, files) -> EconomicRules:
     currency = v[".currency"]
 
     def carrier(sub, name, description, conversion, conversion_source):
         unit = merged[sub][0]["price_per"].strip()
+        money = _table_currency(v, merged, sub)
         return Carrier(name, description, conversion, conversion_source,
                        v[f"{sub}.price"] / v[f"{sub}.price_per"],
-                       f"{v[f'{sub}.price']:g} {currency} per {unit}", v[f"{sub}.price_source"],
-                       v[f"{sub}.emission_factor"], v[f"{sub}.emission_source"])
+                       f"{v[f'{sub}.price']:g} {money} per {unit}", v[f"{sub}.price_source"],
+                       v[f"{sub}.emission_factor"], v[f"{sub}.emission_source"], money,
+                       merged[sub][1])
 
     return EconomicRules(
         currency=currency, hours=v[".hours"], hours_source=v[".hours_source"],
@@ -292,7 +324,8 @@ def _build(v, merged, files) -> EconomicRules:
                      v["cold.cop_source"]),
         interest=v["finance.interest"], life=v["finance.life"], finance_source=v["finance.source"],
         repair=Repair(v["repair.sizes"], v["repair.thicknesses"], v["repair.pipe_per_m"],
-                      v["repair.surface_per_m2"], v["repair.cover_per_fitting"], v["repair.source"]),
+                      v["repair.surface_per_m2"], v["repair.cover_per_fitting"], v["repair.source"],
+                      _table_currency(v, merged, "repair"), merged["repair"][1]),
         files=files,
         price_per={s: (merged[s][0]["price_per"].strip(), v[f"{s}.price_per"]) for s in ("heat", "cold")},
     )

@@ -83,8 +83,19 @@ def cheapest(candidates_m, yearly_heat_cost, investment, annuity):
             np.where(known, pick, np.nan))
 
 
-def economic_thickness(context, economic_rules, *, site, hours_h, material):
-    """Economic thickness [m] of every row of the context's table (NaN where not computed).
+def last_known(total) -> np.ndarray:
+    """Per item (row of ``total``, shape (n, k)): the index of its thickest candidate with a
+    known total cost (-1 where none): the edge of its candidate table, where an optimum found
+    may lie beyond."""
+    known = np.isfinite(np.asarray(total, float))
+    k = known.shape[1]
+    return np.where(known.any(axis=1), k - 1 - np.argmax(known[:, ::-1], axis=1), -1)
+
+
+def economic_thickness(context, economic_rules, *, site, hours_h, material, edge=False):
+    """Economic thickness [m] of every row of the context's table (NaN where not computed);
+    with ``edge``, also whether it is the thickest candidate that could be costed for the row
+    (the standard list's last, or the repair cost table's last column).
 
     Parameters
     ----------
@@ -106,8 +117,9 @@ def economic_thickness(context, economic_rules, *, site, hours_h, material):
     rows = np.flatnonzero(states["computed"].to_numpy(bool) & (material != "")
                           & ~table["temp_is_ambient"].fillna(False).to_numpy(bool))
     candidates = np.asarray(rules.thicknesses, float)
+    at_edge = np.zeros(n, bool)
     if rows.size == 0 or candidates.size == 0:
-        return out
+        return (out, at_edge) if edge else out
     items = table.iloc[rows]
     # One intact layer of the material, fittings covered; the engine solves it at every
     # candidate, solving once the items that can share (it groups them once for all).
@@ -124,5 +136,8 @@ def economic_thickness(context, economic_rules, *, site, hours_h, material):
         investment[:, k] = insulation_cost(economic_rules.repair, shape, items["od_m"].to_numpy(float),
                                            items["length_m"].to_numpy(float), got.outer_area, t)
     annuity = float(annuity_factor(economic_rules.interest, economic_rules.life))
-    out[rows] = cheapest(candidates, heat_cost, investment, annuity)[0]
-    return out
+    chosen, _ = cheapest(candidates, heat_cost, investment, annuity)
+    out[rows] = chosen
+    last = last_known(annuity * investment + heat_cost)
+    at_edge[rows] = np.isfinite(chosen) & (last >= 0) & (chosen == candidates[np.maximum(last, 0)])
+    return (out, at_edge) if edge else out

@@ -19,6 +19,7 @@ from audit.history.compare import compare, tag_keys
 from audit.history.store import History, utc_now
 from audit.io.writers import write_csv
 from audit.repeats import per_distinct
+from audit.results import layers_text
 
 #: The plant name used when neither ``--plant`` nor a ``[defaults] plant`` rule gives one.
 DEFAULT_PLANT = "default"
@@ -85,7 +86,7 @@ def record_audit(history: History, audit, since: SinceLast, *, registers: list[d
 def item_records(audit) -> pd.DataFrame:
     """Per item: the recognised inputs and the results (the ``items`` table's columns)."""
     table, results, per_row = audit.table, audit.results, audit.economics.per_row
-    layers = per_distinct(_layers_text, table["layer_materials"].to_numpy(object),
+    layers = per_distinct(layers_text, table["layer_materials"].to_numpy(object),
                           table["layer_thicknesses_m"].to_numpy(object))
 
     def result(column):
@@ -133,14 +134,6 @@ def finding_records(findings: pd.DataFrame) -> pd.DataFrame:
 def write_closed(since: SinceLast, path) -> Path:
     """``closed.csv`` at ``path``: the last audit's findings that are gone, with ``why``."""
     return write_csv(since.closed, Path(path))
-
-
-def _layers_text(materials, thicknesses) -> str:
-    if not isinstance(materials, tuple):
-        return ""
-    if not materials:
-        return "none"
-    return " + ".join(f"{m} {t * 1000:g}mm" for m, t in zip(materials, thicknesses))
 
 
 def _total(values) -> float | None:

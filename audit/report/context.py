@@ -100,6 +100,7 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "checks": _check_tables(audit, findings, max_rows),
         "rejected": _rejected(results, max_rows),
         "assumptions": _assumptions(audit, meta, economics),
+        "cover_warnings": list(getattr(economics, "warnings", None) or []),
         "economics": _economics(audit, area, economics, max_rows),
         "methods": [{name: Markup(methods.to_html(value)) for name, value in m._asdict().items()}
                     for m in methods.METHODS],

@@ -47,6 +47,11 @@ PARALLEL_FROM = 400
 #: the orders themselves, and workorders.csv lists every one).
 NOT_PRINTED_NAMED = 100
 
+#: Register rows of one tag printed in detail on its work order, the worst first; the rest
+#: are counted there and listed in workorders.csv (a tag repeated a thousand times keeps
+#: its pack small).
+ROWS_PRINTED = 20
+
 PLANNER_FIELDS = ("work order no.", "planned date", "crew / contractor", "permit no.",
                   "scaffold / access", "asbestos survey ref.", "isolation required",
                   "completed by / date", "surface temperature measured after repair [°C]")
@@ -80,37 +85,63 @@ def repair_items(audit, min_severity: str = "low") -> pd.DataFrame:
 
 
 def build_orders(audit, min_severity: str = "low") -> list[dict]:
-    """One record per item to repair, grouped by area, worst priority first in each area."""
+    """One record per tag to repair, grouped by area, worst priority first in each area.
+
+    A tag on several (differing) register rows is audited on each row and gets one work order
+    that lists each row (``parts``, worst first): its findings and quantities, summed over the
+    rows in ``quantities``.  The order's area, location and description are its worst row's.
+    """
     findings = repair_items(audit, min_severity)
     if not len(findings):
         return []
     table, results = audit.table, audit.results
     places = location_columns(table)
     outer_area = results["outer_area [m2]"].to_numpy(float)
+    with np.errstate(invalid="ignore"):
+        cold = ((results["process_temp [degC]"].to_numpy(float) < results["air_temp [degC]"].to_numpy(float))
+                | (table["service"].fillna("").to_numpy(object) == "cold"))
     by_row = defaultdict(list)  # findings grouped by row, worst first (one pass, no groupby)
     for finding in findings.to_dict(orient="records"):
         by_row[finding["row"]].append(finding)
     rows = np.fromiter(by_row, dtype=int, count=len(by_row))
     columns = [c for c in table.columns if not str(c).startswith("raw:")] + ["raw:temp"] * ("raw:temp" in table)
     items = table.iloc[rows][columns].to_dict(orient="records")
-    orders = []
-    for row, item in zip(rows, items):
+    by_tag: dict = {}
+    for row, item in zip(rows, items):  # rows in order of their worst finding
         records = by_row[row]
         rank = max(SEVERITY_RANK[f["severity"]] for f in records)
-        orders.append({
-            "row": int(row), "tag": item["tag"], "source": item["source"],
-            "area": str(item["area_code"] or ""), "priority": SEVERITIES[rank], "rank": rank,
-            "location": [(c, _text(item[c])) for c in places if _text(item[c])],
+        part = {
+            "row": int(row), "source": item["source"], "rank": rank,
             "description": _description(item),
             "findings": [{"check": f["check"], "severity": f["severity"],
                           "found": f"{fmt(f['value'])} {f['unit']} against a limit of "
                                    f"{fmt(f['limit'])} {f['unit']}",
                           "conditions": conditions_text(f), "message": f["message"],
+                          "remedy": f["remedy"], "source": item["source"],
                           # with --history: since when the finding has stood
                           "first_reported": f.get("first_reported", "")} for f in records],
-            "remedies": list(dict.fromkeys(f["remedy"] for f in records if f["remedy"])),
-            "quantities": _quantities(item, records, outer_area[row]),
-        })
+            "quantities": _quantities(item, records, outer_area[row], bool(cold[row])),
+        }
+        order = by_tag.get(item["tag"])
+        if order is None:
+            by_tag[item["tag"]] = order = {
+                "row": int(row), "tag": item["tag"], "source": item["source"],
+                "area": str(item["area_code"] or ""), "rank": rank,
+                "location": [(c, _text(item[c])) for c in places if _text(item[c])],
+                "description": part["description"], "parts": []}
+        order["parts"].append(part)
+        order["rank"] = max(order["rank"], rank)
+    orders = []
+    for order in by_tag.values():
+        parts = sorted(order["parts"], key=lambda p: -p["rank"])  # stable: register order within
+        order.update(
+            parts=parts, priority=SEVERITIES[order["rank"]],
+            sources=[p["source"] for p in parts],
+            findings=[f for p in parts for f in p["findings"]],
+            remedies=list(dict.fromkeys(f["remedy"] for p in parts for f in p["findings"]
+                                        if f["remedy"])),
+            quantities=_summed([q for p in parts for q in p["quantities"]]))
+        orders.append(order)
     orders.sort(key=lambda o: (o["area"], -o["rank"], str(o["tag"])))
     return orders
 
@@ -211,7 +242,8 @@ def writing_workorders(audit, out_dir, *, caution: str, meta: dict, min_severity
                 "orders": area_orders, "caution": caution, "meta": meta, "bill": _bill(area_orders),
                 "planner_fields": PLANNER_FIELDS, "min_severity": min_severity, "cap": summary,
                 "not_printed_here": [o["tag"] for o in plan.beyond.get(area, [])[:NOT_PRINTED_NAMED]],
-                "not_printed_count": len(plan.beyond.get(area, []))}),
+                "not_printed_count": len(plan.beyond.get(area, [])),
+                "rows_printed": ROWS_PRINTED}),
                 temporary_for(target), name))
         jobs = (os.cpu_count() or 1) if jobs is None else jobs
         workers = min(jobs, len(tasks)) if len(plan.orders) > PARALLEL_FROM else 1
@@ -332,99 +364,137 @@ def _description(item) -> list[tuple[str, str]]:
     return rows
 
 
-def _quantities(item, findings: list[dict], outer_area: float) -> list[dict]:
-    """What to buy and fit: rows of (work, size, material, thickness [mm], quantity, unit)."""
+#: Work words of the quantities, by remedy action (audit/checks/remedy.py ``ACTIONS``).
+INSULATE = "insulate to the remedy thickness (whole item)"
+REINSTATE = {"reinstate-damaged": "reinstate damaged share as installed",
+             "replace-wet": "replace wet insulation as installed",
+             "reinstate-missing": "reinstate missing insulation as installed"}
+GUARD = "personnel guard (alternative to insulation)"
+#: workorders.csv quantity columns
+QUANTITY_COLUMNS = ["insulate [m]", "insulate [m2]", "reinstate [m]", "reinstate [m2]",
+                    "guard [m]", "guard [m2]", "guard [pcs]"]
+
+
+def _actions(findings: list[dict]) -> set[str]:
+    return {a for f in findings for a in str(f.get("remedy_action") or "").split(";") if a}
+
+
+def _quantities(item, findings: list[dict], outer_area: float, cold: bool) -> list[dict]:
+    """What to buy and fit for one register row, from its findings' remedies: rows of (work,
+    size, material, thickness [mm], quantity, unit).
+
+    Insulation to a remedy thickness covers the whole item (the thickest any of its findings
+    asks; each is at least the installed thickness and the specification's), its fittings
+    included; otherwise the bare parts are made good as installed (the damaged share, wet or
+    missing insulation) and the fittings covered, where a remedy or a condition finding says
+    so.  A personnel guard offered beside the insulation is counted on its own line.
+    """
     shape, pipe = _text(item["shape"]), item["shape"] == "pipe"
     size = _size(item) if shape != "flat" else "flat"
-    length = float(item["length_m"])
-    whole = (length, "m") if pipe else (outer_area, "m²")
-    thickness = [f["remedy_thickness [mm]"] for f in findings
+    whole = (float(item["length_m"]), "m") if pipe else (outer_area, "m²")
+    actions = _actions(findings)
+    thickness = [(float(f["remedy_thickness [mm]"]), f["remedy_material"]) for f in findings
                  if np.isfinite(float(f["remedy_thickness [mm]"]))]
-    out = []
-    fittings_covered = False
-    if thickness:
-        material = next(f["remedy_material"] for f in findings if f["remedy_material"])
-        out.append({"work": "insulate (replace what is there)", "size": size, "material": material,
-                    "thickness": fmt(max(thickness)), "thickness_mm": max(thickness), "quantity": whole[0], "unit": whole[1]})
-        fittings_covered = True
-    else:
-        # No new thickness: the remedy is the repair (audit/checks/repairs.py), which puts back
-        # what is installed, whichever check found the item.
-        checks = {f["check"] for f in findings}
-        layers, t = _layers(item), ""
-        if item["condition"] == "damaged":
-            share = float(item["damaged_pct"]) / 100.0
-            out.append({"work": "reinstate damaged insulation", "size": size, "material": layers,
-                        "thickness": t, "quantity": whole[0] * share, "unit": whole[1]})
-        elif item["condition"] == "wet":
-            out.append({"work": "replace wet insulation", "size": size, "material": layers,
-                        "thickness": t, "quantity": whole[0], "unit": whole[1]})
-        elif item["condition"] == "missing":
-            out.append({"work": "insulate to the plant specification", "size": size,
-                        "material": "per specification", "thickness": t, "quantity": whole[0],
-                        "unit": whole[1]})
-        # Every remedy of a fixable finding covers the bare fittings (repair or new insulation).
-        fittings_covered = ("uninsulated-fittings" in checks
-                            or any(bool(f["fixable_by_insulation"]) for f in findings))
     valves, flanges = int(item["valves"] or 0), int(item["flanges"] or 0)
-    if pipe and fittings_covered:
+    share = float(item["damaged_pct"]) / 100.0 if item["condition"] == "damaged" else 0.0
+    out = []
+    if thickness:
+        mm, material = max(thickness)
+        out.append({"work": INSULATE, "size": size, "material": material, "thickness": fmt(mm),
+                    "thickness_mm": mm, "quantity": whole[0], "unit": whole[1]})
+        covers = pipe
+    else:
+        layers = _layers(item)
+        for action, work in REINSTATE.items():
+            if action in actions:
+                part = share if action == "reinstate-damaged" else 1.0
+                out.append({"work": work, "size": size, "material": layers, "thickness": "",
+                            "quantity": whole[0] * part, "unit": whole[1]})
+        covers = pipe and "covers" in actions
+    if covers:
+        kind = "vapour-sealed removable cover" if cold else "removable insulation cover"
         for count, what in ((valves, "valve"), (flanges, "flange")):
             if count:
-                out.append({"work": f"removable insulation cover, {what}", "size": size,
-                            "material": "", "thickness": "", "quantity": count, "unit": "pcs"})
+                out.append({"work": f"{kind}, {what}", "size": size, "material": "",
+                            "thickness": "", "quantity": count, "unit": "pcs"})
+    guarded = [f for f in findings if "guard" in str(f.get("remedy_action") or "")]
+    if guarded:
+        over_bare = all("insulate" not in f["remedy_action"] and "engineer" not in f["remedy_action"]
+                        for f in guarded)
+        if over_bare and pipe and share == 0 and valves + flanges:
+            out.append({"work": GUARD + ", fittings", "size": size, "material": "", "thickness": "",
+                        "quantity": valves + flanges, "unit": "pcs"})
+        else:
+            out.append({"work": GUARD, "size": size, "material": "", "thickness": "",
+                        "quantity": whole[0] * (share if over_bare and share > 0 else 1.0),
+                        "unit": whole[1]})
     od = float(item["od_m"])
     for row in out:
-        row["text"] = fmt(row["quantity"]) if row["unit"] != "pcs" else str(row["quantity"])
         row["od_m"] = od if np.isfinite(od) else np.inf  # sorts sizes by diameter, not as text
+        row["text"] = fmt(row["quantity"]) if row["unit"] != "pcs" else str(row["quantity"])
+    return out
+
+
+def _summed(quantities: list[dict]) -> list[dict]:
+    """Quantities with the same work, size, material, thickness and unit added up."""
+    totals: dict = {}
+    for q in quantities:
+        key = (q["work"], q["od_m"], q["size"], q["material"], q.get("thickness_mm", 0.0),
+               q["thickness"], q["unit"])
+        if key in totals:
+            totals[key] = dict(totals[key], quantity=totals[key]["quantity"] + q["quantity"])
+        else:
+            totals[key] = dict(q)
+    out = [totals[k] for k in sorted(totals)]
+    for q in out:
+        q["text"] = fmt(q["quantity"]) if q["unit"] != "pcs" else str(int(q["quantity"]))
     return out
 
 
 def _bill(orders: list[dict]) -> list[dict]:
     """The area's quantities summed by work, size, material, thickness and unit; sizes in
     order of diameter, thicknesses in order of thickness."""
-    totals = defaultdict(float)
-    for order in orders:
-        for q in order["quantities"]:
-            if np.isfinite(q["quantity"]):
-                key = (q["work"], q["od_m"], q["size"], q["material"], q.get("thickness_mm", 0.0),
-                       q["thickness"], q["unit"])
-                totals[key] += q["quantity"]
-    return [{"work": k[0], "size": k[2], "material": k[3], "thickness": k[5], "unit": k[6],
-             "text": fmt(v) if k[6] != "pcs" else str(int(v))} for k, v in sorted(totals.items())]
+    return _summed([q for order in orders for q in order["quantities"]
+                    if np.isfinite(q["quantity"])])
 
 
 def _csv(orders: list[dict], files: dict, places: list[str], printed: set) -> pd.DataFrame:
-    """One row per work order; ``work_order_file`` is empty for one left off the packs."""
+    """One row per work order (per tag; ``rows`` counts its register rows, ``source`` lists
+    them); ``work_order_file`` is empty for one left off the packs."""
     rows = []
     for o in orders:
         q = defaultdict(float)
         for item in o["quantities"]:
-            if item["unit"] == "pcs":
-                q["valve" if "valve" in item["work"] else "flange"] += item["quantity"]
-            elif item["work"].startswith("insulate (replace"):
-                q["insulate_" + item["unit"]] += item["quantity"]
+            work, unit = item["work"], item["unit"].replace("²", "2")
+            if work.startswith(GUARD):
+                q[f"guard [{unit}]"] += item["quantity"]
+            elif unit == "pcs":
+                q["valve" if work.endswith("valve") else "flange"] += item["quantity"]
+            elif work == INSULATE:
+                q[f"insulate [{unit}]"] += item["quantity"]
             else:
-                q["reinstate_" + item["unit"]] += item["quantity"]
-        thickness = next((x["thickness_mm"] for x in o["quantities"] if "thickness_mm" in x), np.nan)
-        material = next((x["material"] for x in o["quantities"] if x["work"].startswith("insulate (")), "")
+                q[f"reinstate [{unit}]"] += item["quantity"]
+        insulation = [x for x in o["quantities"] if x["work"] == INSULATE]
+        thickest = max(insulation, key=lambda x: x["thickness_mm"], default=None)
         location = dict(o["location"])
         rows.append({
             "tag": o["tag"], "area_code": o["area"], "priority": o["priority"],
             "checks": ";".join(dict.fromkeys(f["check"] for f in o["findings"])),
-            "remedy": "; ".join(o["remedies"]), "remedy_material": material,
-            "remedy_thickness [mm]": thickness,
-            "insulate [m]": q.get("insulate_m", np.nan), "insulate [m2]": q.get("insulate_m²", np.nan),
-            "reinstate [m]": q.get("reinstate_m", np.nan), "reinstate [m2]": q.get("reinstate_m²", np.nan),
+            "remedy": "; ".join(o["remedies"]),
+            "remedy_material": thickest["material"] if thickest else "",
+            "remedy_thickness [mm]": thickest["thickness_mm"] if thickest else np.nan,
+            **{c: q.get(c, np.nan) for c in QUANTITY_COLUMNS},
             "valve_covers": int(q.get("valve", 0)), "flange_covers": int(q.get("flange", 0)),
-            "source": o["source"],
+            "rows": len(o["parts"]), "source": "; ".join(o["sources"]),
             "work_order_file": "workorders/" + files[o["area"]] if id(o) in printed else "",
             "first_reported": min((f["first_reported"] for f in o["findings"]), default=""),
             **{c: location.get(c, "") for c in places if c != "area_code"},
         })
     columns = ["tag", "area_code", "priority", "checks", "remedy", "remedy_material",
-               "remedy_thickness [mm]", "insulate [m]", "insulate [m2]", "reinstate [m]",
-               "reinstate [m2]", "valve_covers", "flange_covers", "source", "work_order_file",
+               "remedy_thickness [mm]", *QUANTITY_COLUMNS[:4], "valve_covers", "flange_covers",
+               *QUANTITY_COLUMNS[4:], "rows", "source", "work_order_file",
                *[c for c in places if c != "area_code"]]
     if any(r["first_reported"] for r in rows):  # with --history: the item's oldest finding
         columns.insert(columns.index("source"), "first_reported")
     return pd.DataFrame(rows, columns=columns)
+

@@ -19,3 +19,4 @@ class _Frame(dict):
             def to_numpy(self, dtype=None):
                 return values
         return Column()
+

@@ -12,7 +12,8 @@ from support import item_table, refused_parameter
 
 from audit.checks import run_checks
 from audit.checks.base import CheckContext, validated_params
-from audit.checks.condition import COVERS, DRY_OUT, KIND, REINSTATE
+from audit.checks.condition import (COVERS, COVERS_COLD, DRY_OUT, KIND, REINSTATE_DAMAGED,
+                                    REINSTATE_MISSING)
 
 HEAD = "tag,nps,length,temp,insulation,thickness,location,condition,damaged,valves,flanges\n"
 
@@ -40,8 +41,10 @@ REGISTER = ("INTACT,4,10,150,mineral-wool,50,outdoor,intact,,0,0\n"
 def test_shipped_condition_check(tmp_path, rules):
     got = run(table_from(tmp_path, REGISTER, rules), rules)
     assert set(got) == {"MISSING", "DAMAGED", "WET"}
-    assert got["MISSING"] == (100.0, 0.0, "insulation missing: 100 % of the length bare", REINSTATE)
-    assert got["DAMAGED"] == (15.0, 0.0, "damaged: 15 % of the length bare", REINSTATE)
+    assert got["MISSING"] == (100.0, 0.0, "insulation missing: 100 % of the length bare",
+                              REINSTATE_MISSING)
+    assert got["DAMAGED"] == (15.0, 0.0, "damaged: 15 % of the length bare",
+                              REINSTATE_DAMAGED)
     assert got["WET"] == (0.0, 0.0, "wet insulation", DRY_OUT)
 
 
@@ -58,11 +61,20 @@ def test_one_finding_lists_everything_that_applies(tmp_path, rules):
     got = run(table_from(tmp_path, REGISTER, rules), rules,
               flags=["missing", "damaged", "wet", "fittings"])
     assert got["DAMAGED"][2] == "damaged: 15 % of the length bare; 2 uninsulated valves"
-    assert got["DAMAGED"][3] == f"{REINSTATE}; {COVERS}"
+    assert got["DAMAGED"][3] == f"{REINSTATE_DAMAGED}; {COVERS}"
     assert got["WET"][2] == "wet insulation; 1 uninsulated valve; 1 uninsulated flange"
     assert got["WET"][3] == f"{DRY_OUT}; {COVERS}"
     assert got["FITTINGS"][:2] == (0.0, 0.0)   # mixed check: value is the bare share
     assert "INTACT" not in got and "BARE" not in got
+
+
+def test_covers_on_cold_service_are_vapour_sealed(tmp_path, rules):
+    # Common practice: a cover on a cold line keeps moist air off the cold metal, so it is
+    # vapour-sealed like the insulation around it (a plain cover lets the fitting sweat).
+    table = table_from(tmp_path, "COLD,2,10,5,elastomeric-foam,50,indoor,intact,,0,2\n"
+                                 "HOT,2,10,150,mineral-wool,50,indoor,intact,,0,2\n", rules)
+    got = run(table, rules, "uninsulated-fittings")
+    assert got["COLD"][3] == COVERS_COLD and got["HOT"][3] == COVERS
 
 
 @pytest.mark.parametrize("share, flagged", [(4.9, False), (5.0, False), (5.1, True)])

@@ -11,7 +11,7 @@ from hypothesis import strategies as st
 from audit.checks.base import CheckContext
 from audit.economics.energy import yearly
 from audit.economics.rules import load_economic_rules
-from audit.economics.thickness import annuity_factor, cheapest, economic_thickness
+from audit.economics.thickness import annuity_factor, cheapest, economic_thickness, last_known
 from audit.io.readers import read_register
 from audit.rules import load_rules
 from audit.thermal import resolve_names, thermal_states
@@ -128,3 +128,36 @@ def test_register_at_once_equals_brute_force_item_by_item(fine):
     # The fine grid finds an interior optimum for some items, not only its ends.
     assert any(0.010 < g < 0.150 for g in got[:4])
     assert got[6] < got[2]                        # fewer hours, less heat to save
+
+
+def test_last_known_is_the_thickest_costed_candidate():
+    total = np.array([[3.0, 2.0, 1.0], [3.0, 1.0, np.nan], [np.nan, np.nan, np.nan]])
+    assert list(last_known(total)) == [2, 1, -1]
+
+
+def test_an_optimum_at_the_edge_of_the_costed_candidates_is_flagged(fine):
+    # A cost table that stops at 50 mm (its columns end there) cuts the candidates short: an
+    # item whose optimum lies beyond sits on the 50 mm edge and is flagged; one with an
+    # interior optimum is not.
+    from dataclasses import replace
+    rules, table = fine
+    econ = load_economic_rules()
+    cols = list(econ.repair.thicknesses)
+    keep = [k for k, t in enumerate(cols) if t <= 0.050 + 1e-12]
+    short = replace(econ, repair=replace(
+        econ.repair, thicknesses=tuple(cols[k] for k in keep),
+        pipe_per_m=tuple(tuple(row[k] for k in keep) for row in econ.repair.pipe_per_m),
+        surface_per_m2=tuple(econ.repair.surface_per_m2[k] for k in keep)))
+    hours = np.where(np.isfinite(table["hours_h"]), table["hours_h"], econ.hours)
+    material = np.array(["mineral-wool"] * 3 + ["elastomeric-foam"] + ["mineral-wool"] * 3, dtype=object)
+    context = CheckContext(table, rules)
+    full, full_edge = economic_thickness(context, econ, site="outdoor-annual-mean", hours_h=hours,
+                                         material=material, edge=True)
+    cut, cut_edge = economic_thickness(context, short, site="outdoor-annual-mean", hours_h=hours,
+                                       material=material, edge=True)
+    beyond = np.isfinite(full) & (full > 0.050)
+    assert beyond.any()
+    assert (cut[beyond] == pytest.approx(0.050)) and cut_edge[beyond].all()
+    inside = np.isfinite(full) & (full < 0.050)
+    assert not cut_edge[inside].any()
+    assert list(full_edge) == list(np.isfinite(full) & (full >= 0.150 - 1e-12))

@@ -13,7 +13,7 @@ from audit.cli import CAUTION
 from audit.report.context import SEVERITY_RANK, build_context
 from audit.report.html import render
 from audit.report import workorders
-from audit.report.workorders import (RESERVED_NAMES, build_orders, plan_packs, safe_filename,
+from audit.report.workorders import (INSULATE, RESERVED_NAMES, build_orders, plan_packs, safe_filename,
                                      write_workorders)
 
 SAFE = re.compile(r"^[A-Za-z0-9._-]+$")
@@ -71,7 +71,7 @@ def test_packs_of_a_hostile_register(hostile_audit, meta, tmp_path):
 def test_quantities_are_counted_from_the_register(hostile_audit):
     orders = {o["tag"]: o for o in build_orders(hostile_audit)}
     bare = orders["<script>alert(1)</script>"]  # NPS 4, 10 m, bare, 2 flanges in the register
-    insulate = [q for q in bare["quantities"] if q["work"].startswith("insulate (")]
+    insulate = [q for q in bare["quantities"] if q["work"] == INSULATE]
     assert len(insulate) == 1 and insulate[0]["quantity"] == 10.0 and insulate[0]["unit"] == "m"
     assert insulate[0]["size"] == "NPS 4" and insulate[0]["thickness"] != ""
     covers = {q["work"]: q["quantity"] for q in bare["quantities"] if q["unit"] == "pcs"}
@@ -173,3 +173,36 @@ def test_the_cap_lets_the_areas_take_turns_within_a_severity():
         "A": ["A-0", "A-1"], "B": ["B-0", "B-1"], "C": ["C-0", "C-1"]}
     worse = [{"area": "C", "rank": 4, "tag": "C-worst"}]
     assert [o["tag"] for o in plan_packs(orders + worse, 1).printed["C"]] == ["C-worst"]
+
+
+def test_a_tag_on_differing_rows_is_one_work_order_listing_each_row(tmp_path, meta):
+    # The same tag on 1,000 rows that differ (lengths): each row audited, one work order that
+    # lists every row in workorders.csv and prints the worst ROWS_PRINTED in the pack.
+    from audit.pipeline import audit_register
+    from audit.report.html import render
+    from audit.report.workorders import ROWS_PRINTED, _bill
+
+    lines = ["tag,nps,length,temp,layers,jacket,location,accessible,service,valves,flanges"]
+    lines += [f"L-100,4,{10 + k},180,none,,outdoor,yes,heat-conservation,0,1" for k in range(1000)]
+    path = tmp_path / "repeated.csv"
+    path.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    audit = audit_register([path])
+    assert (audit.results["status"] == "audited").sum() == 1000   # one line per row out
+    orders = build_orders(audit)
+    assert len(orders) == 1 and len(orders[0]["parts"]) == 1000
+    insulate = [q for q in orders[0]["quantities"] if q["work"] == INSULATE]
+    assert len(insulate) == 1
+    assert insulate[0]["quantity"] == sum(10 + k for k in range(1000))  # whole metres, exact
+    html = render("workorders.html", {
+        "area": "x", "area_label": "x", "orders": orders, "caution": CAUTION, "meta": meta,
+        "bill": _bill(orders), "planner_fields": (), "min_severity": "low",
+        "cap": plan_packs(orders).summary(), "not_printed_here": [], "not_printed_count": 0,
+        "rows_printed": ROWS_PRINTED})
+    assert html.count("<h3>Register row ") == ROWS_PRINTED
+    assert f"{1000 - ROWS_PRINTED} more register rows of this tag" in html
+    write_workorders(audit, tmp_path, caution=CAUTION, meta=meta, pdf=False)
+    with open(tmp_path / "workorders.csv", encoding="utf-8", newline="") as handle:
+        rows = list(csv.DictReader(handle))
+    assert len(rows) == 1 and rows[0]["rows"] == "1000"
+    assert len(rows[0]["source"].split("; ")) == 1000
+    assert rows[0]["flange_covers"] == "1000"

@@ -135,3 +135,26 @@ source = "test"
     expected = abs(states["heat_loss_W"].to_numpy(float)) * hours / 1e6
     assert audit.economics.per_row["annual_energy [MWh]"].tolist() == pytest.approx(expected.tolist(),
                                                                                     rel=1e-9)
+
+
+def test_remedies_in_a_register_with_location_cases_never_thin(tmp_path, hall):
+    # A register of our own whose locations carry their own cases: every remedy thickness is at
+    # least what is installed and what the specification asks (less its tolerance).
+    from audit.checks.below_spec import installed_thickness, requirement
+    from audit.pipeline import audit_table
+
+    table = item_table(tmp_path, "tag,nps,length,temp,layers,jacket,location,accessible,service\n"
+                                 "CHW-1,4,10,5,elastomeric-foam 13mm,pvc,cold-store-hall,no,cold\n"
+                                 "CHW-2,4,10,5,elastomeric-foam 13mm,pvc,outdoor,no,cold\n"
+                                 "STM-1,4,10,250,mineral-wool 25mm,aluminium-oxidised,indoor,yes,\n"
+                                 "STM-2,6,10,300,mineral-wool 40mm,aluminium-oxidised,outdoor,yes,\n",
+                       hall)
+    audit = audit_table(table, hall)
+    remedied = audit.findings.dropna(subset=["remedy_thickness [mm]"])
+    assert len(remedied) >= 2
+    rows = remedied["row"].to_numpy(int)
+    need = requirement(table, hall, audit.states["process_temp_K"].to_numpy(float),
+                       audit.states["air_temp_K"].to_numpy(float))
+    mm = remedied["remedy_thickness [mm]"].to_numpy(float)
+    assert (mm >= installed_thickness(table)[rows] * 1000 - 1e-6).all()
+    assert (mm >= (need.thickness_m - need.tolerance_m)[rows] * 1000 - 1e-6).all()

@@ -44,6 +44,19 @@ def is_plain_number(text: str) -> bool:
     return bool(whole or fraction) and set(whole) <= _DIGITS and set(fraction) <= _DIGITS
 
 
+def as_number(text):
+    """A register's number written as text (``-170``, ``1.5e3``) as the float it is, for a
+    spreadsheet's number cell; any other text (``007``, whose zeros are part of it, ``1,5``,
+    ``TBA``) as it is."""
+    if not isinstance(text, str):
+        return text
+    body = text.strip()
+    digits = body.lstrip("+-")
+    if not is_plain_number(body) or (len(digits) > 1 and digits[0] == "0" and digits[1] != "."):
+        return text
+    return float(body)
+
+
 def _unsigned_digits(text: str) -> bool:
     return bool(text) and set(text) <= _DIGITS
 
