@@ -25,6 +25,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
+from audit.checks.condensation import ICE
 from audit.io.writers import write_csv
 from audit.io.writers.place import OutputFolder, temporary_for
 from audit.outputs import MAX_WORKORDER_PAGES
@@ -138,12 +139,22 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
             parts=parts, priority=SEVERITIES[order["rank"]],
             sources=[p["source"] for p in parts],
             findings=[f for p in parts for f in p["findings"]],
-            remedies=list(dict.fromkeys(f["remedy"] for p in parts for f in p["findings"]
-                                        if f["remedy"])),
+            remedies=_iced(parts) + list(dict.fromkeys(
+                f["remedy"] for p in parts for f in p["findings"] if f["remedy"])),
             quantities=_summed([q for p in parts for q in p["quantities"]]))
         orders.append(order)
     orders.sort(key=lambda o: (o["area"], -o["rank"], str(o["tag"])))
     return orders
+
+
+#: The precaution a work order leads with when a finding says the surface grows ice.
+DE_ICE = "ice: de-ice before work"
+
+
+def _iced(parts: list[dict]) -> list[str]:
+    """``[DE_ICE]`` when a condensation finding of the order says its surface grows ice."""
+    iced = any(ICE in str(f["message"]) for p in parts for f in p["findings"])
+    return [DE_ICE] if iced else []
 
 
 @dataclass
