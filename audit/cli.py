@@ -16,8 +16,6 @@ from audit.digests import sha256_file
 from audit import display_units
 from audit.display_units import SYSTEMS
 from audit.errors import LagauditError
-from audit.history import History, describe_audits, export_audits
-from audit.history.run import HISTORY_OUTPUTS, compare_audit, open_history, record_run
 from audit.io.readers import read_register, reader_options
 from audit.io.readers.validate import summarise
 from audit.io.writers.place import OutputFolder
@@ -239,7 +237,10 @@ def _audit_and_write(registers, args) -> int:
         raise LagauditError("--plant names the plant in the audit history; it needs --history DB",
                             value=args.plant, expected="--history DB beside --plant, or no --plant")
     say = (lambda *_: None) if args.quiet else (lambda text: print(printable(text)))
-    history = open_history(args.history)  # a database that cannot be used stops the run here
+    history = None
+    if args.history:  # SQLAlchemy takes 0.2 s to import: a run without --history does not pay it
+        from audit.history.run import HISTORY_OUTPUTS, compare_audit, open_history, record_run
+        history = open_history(args.history)  # a database that cannot be used stops the run here
     # A stream that is not a terminal draws no bar.
     with OutputFolder(args.out) as folder, \
             progress("Auditing", total=1 + len(formats), stream=io.StringIO() if args.quiet else None) as bar:
@@ -312,6 +313,8 @@ def _rules(args) -> int:
 
 
 def _history(args) -> int:
+    from audit.history import History, describe_audits, export_audits
+
     history = History.open(args.db, create=False)
     try:
         if args.export:

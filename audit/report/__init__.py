@@ -8,6 +8,7 @@ work-order packs (``workorders/<area>.pdf`` and ``workorders.csv``).
 
 from __future__ import annotations
 
+from contextlib import nullcontext
 from pathlib import Path
 
 from audit.cautions import CAUTION
@@ -15,7 +16,7 @@ from audit.report.context import MAX_TABLE_ROWS, build_context
 from audit.report.html import render
 from audit.report.pdf import write_pdf
 from audit.io.writers.place import OutputFolder
-from audit.report.workorders import build_orders, plan_packs, write_workorders
+from audit.report.workorders import build_orders, plan_packs, writing_workorders
 
 REPORT_FORMATS = ("html", "pdf", "workorders")
 
@@ -37,20 +38,22 @@ def write_reports(audit, out_dir, *, meta: dict, formats, economics=None,
     folder = OutputFolder(out_dir)
     folder.prepare()
     plan = plan_packs(build_orders(audit), max_pages) if "workorders" in asked else None
+    # The packs render in worker processes while the report is laid out here.
+    packs = (nullcontext([]) if plan is None else
+             writing_workorders(audit, folder.root, caution=CAUTION, meta=meta, plan=plan,
+                                units=units))
     written = []
-    if asked & {"html", "pdf"}:
-        html = render("report.html", build_context(
-            audit, meta=meta, caution=CAUTION, economics=economics, max_rows=max_rows,
-            packs=plan.summary() if plan is not None else None, units=units))
-        if "html" in asked:
-            with folder.writing("report.html") as temporary:
-                temporary.write_text(html, encoding="utf-8")
-            written.append(folder.root / "report.html")
-        if "pdf" in asked:
-            with folder.writing("report.pdf") as temporary:
-                write_pdf(html, temporary)
-            written.append(folder.root / "report.pdf")
-    if plan is not None:
-        written += write_workorders(audit, folder.root, caution=CAUTION, meta=meta, plan=plan,
-                                    units=units)
-    return written
+    with packs as written_packs:
+        if asked & {"html", "pdf"}:
+            html = render("report.html", build_context(
+                audit, meta=meta, caution=CAUTION, economics=economics, max_rows=max_rows,
+                packs=plan.summary() if plan is not None else None, units=units))
+            if "html" in asked:
+                with folder.writing("report.html") as temporary:
+                    temporary.write_text(html, encoding="utf-8")
+                written.append(folder.root / "report.html")
+            if "pdf" in asked:
+                with folder.writing("report.pdf") as temporary:
+                    write_pdf(html, temporary)
+                written.append(folder.root / "report.pdf")
+    return written + written_packs

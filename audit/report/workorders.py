@@ -18,6 +18,7 @@ import re
 import signal
 import unicodedata
 from collections import defaultdict
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -224,16 +225,31 @@ def write_workorders(audit, out_dir, *, caution: str, meta: dict,
     (:class:`~audit.io.writers.place.OutputFolder`).  ``units``: the unit system of the
     packs and the CSV (orders are built in SI and converted when printed).
     """
+    with writing_workorders(audit, out_dir, caution=caution, meta=meta, min_severity=min_severity,
+                            pdf=pdf, jobs=jobs, max_pages=max_pages, plan=plan,
+                            units=units) as written:
+        pass
+    return written
+
+
+@contextmanager
+def writing_workorders(audit, out_dir, *, caution: str, meta: dict, min_severity: str = "low",
+                       pdf: bool = True, jobs: int | None = None, max_pages: int | None = None,
+                       plan: PackPlan | None = None, units: str = "si"):
+    """:func:`write_workorders` (same arguments) with the packs rendered by the worker processes
+    while the ``with`` block runs: the caller lays out its own PDF meanwhile, on a core that
+    would otherwise wait.  Yields the list of paths written, filled when the block ends (the
+    packs awaited and placed, then ``workorders.csv``).  When the block raises, the workers
+    are stopped and nothing of the packs is left in ``out_dir``."""
     folder = OutputFolder(out_dir)
     folder.prepare()
     if plan is None:
         plan = plan_packs(build_orders(audit, min_severity), max_pages)
     taken: set[str] = set()
     files = {area: safe_filename(area or "no-area", taken, ".pdf") for area in sorted(plan.printed)}
-    written = []
+    tasks, workers = [], 1
     if pdf and plan.printed:
         summary = plan.summary()
-        tasks = []
         for area, area_orders in sorted(plan.printed.items()):
             name = "workorders/" + files[area]
             target = folder.check(name)
@@ -250,31 +266,48 @@ def write_workorders(audit, out_dir, *, caution: str, meta: dict,
                 temporary_for(target), name))
         jobs = (os.cpu_count() or 1) if jobs is None else jobs
         workers = min(jobs, len(tasks)) if len(plan.orders) > PARALLEL_FROM else 1
-        written += render_packs(folder, tasks, workers)
+    written = []
+    with packs_rendered(folder, tasks, workers) as packs:
+        yield written
+    written += packs
     printed = {id(o) for area_orders in plan.printed.values() for o in area_orders}
     places = location_columns(audit.table)
     csv_rows = _csv(plan.orders, files, places, printed)
     with folder.writing("workorders.csv") as temporary:
         write_csv(display_units.frame(csv_rows, units, keep=places), temporary)
     written.append(folder.root / "workorders.csv")
-    return written
 
 
 def render_packs(folder: OutputFolder, tasks: list, workers: int) -> list[Path]:
     """Render each (html, temporary, name) to its temporary file, in ``workers`` processes, and
-    rename each into place here, in the parent.
+    rename each into place here, in the parent (:func:`packs_rendered` with nothing to do
+    meanwhile)."""
+    with packs_rendered(folder, tasks, workers) as written:
+        pass
+    return written
 
-    The workers die with the parent (Linux: a parent-death signal), and the pool is terminated
-    when the parent stops for any reason (Ctrl-C, SIGTERM turned into an exception), so no
-    worker writes into the folder after the run is over; temporaries left are removed.
+
+@contextmanager
+def packs_rendered(folder: OutputFolder, tasks: list, workers: int):
+    """Render each (html, temporary, name) to its temporary file and rename each into place
+    here, in the parent; yields the list of paths placed, filled when the ``with`` block ends.
+
+    With ``workers`` > 1 the packs are rendered by that many processes, started before the
+    block runs; with one, here after it.  The workers die with the parent (Linux: a
+    parent-death signal), and the pool is terminated when the parent stops for any reason
+    (Ctrl-C, SIGTERM turned into an exception, an error in the block), so no worker writes
+    into the folder after the run is over; temporaries left are removed.
     """
     written = []
     try:
         if workers > 1:
             with multiprocessing.get_context("fork").Pool(workers, initializer=_die_with_parent) as pool:
-                for task, _ in zip(tasks, pool.imap(_render_pack, tasks)):  # imap keeps the order
+                rendered = pool.imap(_render_pack, tasks)  # imap keeps the order; starts at once
+                yield written
+                for task, _ in zip(tasks, rendered):
                     written.append(_place(folder, task))
         else:
+            yield written
             for task in tasks:
                 _render_pack(task)
                 written.append(_place(folder, task))
@@ -282,7 +315,6 @@ def render_packs(folder: OutputFolder, tasks: list, workers: int) -> list[Path]:
         for _, temporary, _ in tasks:
             temporary.unlink(missing_ok=True)
         raise
-    return written
 
 
 def _render_pack(task) -> None:

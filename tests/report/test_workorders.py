@@ -206,3 +206,34 @@ def test_a_tag_on_differing_rows_is_one_work_order_listing_each_row(tmp_path, me
     assert len(rows) == 1 and rows[0]["rows"] == "1000"
     assert len(rows[0]["source"].split("; ")) == 1000
     assert rows[0]["flange_covers"] == "1000"
+
+
+def test_packs_render_while_the_block_runs_and_an_error_in_it_leaves_no_pack(demo_audit, meta,
+                                                                              tmp_path, monkeypatch):
+    """write_reports lays out report.pdf inside writing_workorders' block while the workers
+    render the packs; the packs and workorders.csv are placed only when the block ends, and a
+    block that fails leaves nothing of them in --out."""
+    monkeypatch.setattr(workorders, "PARALLEL_FROM", 0)  # workers even for the demo's few orders
+    plan = plan_packs(build_orders(demo_audit), 6)
+    assert len(plan.printed) >= 2
+    with workorders.writing_workorders(demo_audit, tmp_path / "ok", caution=CAUTION, meta=meta,
+                                       plan=plan, jobs=2) as written:
+        assert written == []  # nothing placed while the block runs
+        assert not (tmp_path / "ok" / "workorders.csv").exists()
+    assert sorted(p.name for p in written) == sorted(
+        [p.name for p in (tmp_path / "ok" / "workorders").iterdir()] + ["workorders.csv"])
+    assert all(pypdf.PdfReader(p).pages for p in written if p.suffix == ".pdf")
+
+    class ReportFailed(Exception):
+        pass
+
+    failed = tmp_path / "failed"
+    try:
+        with workorders.writing_workorders(demo_audit, failed, caution=CAUTION, meta=meta,
+                                           plan=plan, jobs=2):
+            raise ReportFailed
+    except ReportFailed:
+        pass
+    else:
+        raise AssertionError("the block's error was swallowed")
+    assert not [p for p in failed.rglob("*") if p.is_file()]  # no pack, no temporary, no CSV
