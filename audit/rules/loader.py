@@ -102,9 +102,11 @@ SCHEMA = {
 }
 _PLURAL = {"material": "materials", "jacket": "jackets", "metal": "metals", "site": "sites",
            "fitting": "fittings", "spec": "specs"}
-_TOP_LEVEL = set(SCHEMA) | {"alias", "defaults", "check", "thicknesses", "economics"}
 #: The economic rules' section, and the subfolder of a rules folder that holds their files
 ECONOMICS = "economics"
+#: The work-order planning rules' section (access, asbestos, labour), layered as [economics]
+PLANNING = "planning"
+_TOP_LEVEL = set(SCHEMA) | {"alias", "defaults", "check", "thicknesses", ECONOMICS, PLANNING}
 #: Keys every [check.NAME] may have; any other key is the check kind's own parameter.
 CHECK_KEYS = ("kind", "enabled", "site", "applies_to", "severity", "source", "description")
 #: [defaults] key -> the section its value names
@@ -133,6 +135,7 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
     collected["check"] = {}
     collected["thicknesses"] = {}
     collected[ECONOMICS] = {}
+    collected[PLANNING] = {}
     aliases: dict[str, list[str]] = {}
     defaults: dict[str, str] = {}
     files = rule_files(extra_dirs, shipped=shipped)
@@ -143,7 +146,7 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
                   thicknesses=thicknesses.get("standard", ()),
                   thicknesses_source=thicknesses.get("source", ""), aliases=aliases,
                   defaults=defaults, files=tuple(str(f) for f in files),
-                  economics=collected[ECONOMICS])
+                  economics=collected[ECONOMICS], planning=collected[PLANNING])
     _check_references(rules)
     return rules
 
@@ -213,9 +216,9 @@ def _read_file(path: Path, collected, aliases, defaults) -> None:
             problems.append(Problem(f"[{section}] is not a table", file=str(path), column=section,
                                     value=body))
             continue
-        if section == ECONOMICS:
-            layer_keys(collected[ECONOMICS], body, path)  # validated by audit.economics.rules
-            continue
+        if section in (ECONOMICS, PLANNING):
+            layer_keys(collected[section], body, path)  # validated by audit.economics.rules,
+            continue                                    # audit.planning
         if section == "alias":
             for column, names in body.items():
                 if not (isinstance(names, list) and all(isinstance(n, str) for n in names)):

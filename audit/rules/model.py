@@ -126,6 +126,9 @@ class Rules:
     #: the [economics] table as layered: key or sub-table -> (raw value, file); validated and
     #: built by :func:`audit.economics.rules.economic_rules`
     economics: dict = field(default_factory=dict)
+    #: the [planning] table as layered, as ``economics``; built by
+    #: :func:`audit.planning.planning_rules`
+    planning: dict = field(default_factory=dict)
 
     def default_site(self) -> Site:
         return self.sites[self.defaults["site"]]
