@@ -141,3 +141,39 @@ def test_the_key_is_stable_and_changes_with_tag_or_findings():
     assert key == work_order_key(" QP-1", ["touch-temperature", "cui-window", "cui-window"])
     assert key != work_order_key("QP-1", ["cui-window"])
     assert key != work_order_key("QP-11", ["cui-window", "touch-temperature"])
+
+
+def test_workorders_csv_and_pack_carry_the_planning(tmp_path):
+    """End to end: a hot bare line high up and installed in 1975 gets scaffold, a survey, the
+    sequence and the cost split in workorders.csv and on its page of the pack."""
+    import csv
+    import subprocess
+    import sys
+
+    import pypdf
+
+    register = tmp_path / "reg.csv"
+    register.write_text("tag,nps,length,temp,layers,condition,accessible,elevation,install_year,area_code\n"
+                        "HI-1,4,10,250,mineral-wool 50,missing,yes,6 m,1975,U1\n"
+                        "LO-1,4,10,250,mineral-wool 50,missing,yes,2 m,1990,U1\n")
+    out = tmp_path / "out"
+    done = subprocess.run([sys.executable, "-m", "audit", "run", str(register), "--out", str(out),
+                           "--format", "pdf"], capture_output=True, text=True)
+    assert done.returncode == 0, done.stderr
+    with open(out / "workorders.csv", newline="", encoding="utf-8-sig") as f:
+        rows = {r["tag"]: r for r in csv.DictReader(f)}
+    high, low = rows["HI-1"], rows["LO-1"]
+    assert (high["scaffold"], high["asbestos_survey"]) == ("yes", "yes")
+    assert (low["scaffold"], low["asbestos_survey"]) == ("no", "no")  # at the limits: neither
+    for row in (high, low):
+        total = float(row["materials_cost"]) + float(row["labour_cost"]) + float(row["scaffold_cost"])
+        assert float(row["repair_cost"]) == pytest.approx(total, rel=1e-9)  # csv rounding only
+        assert row["work_order_key"].startswith("WO-") and row["materials"]
+    # the same items cost the same but for the scaffold: its hours at the rate, and its hire
+    plan = planning_rules(load_rules())
+    assert float(high["labour [h]"]) - float(low["labour [h]"]) == pytest.approx(plan.scaffold_hours)
+    assert float(high["repair_cost"]) - float(low["repair_cost"]) == pytest.approx(
+        plan.scaffold_hours * plan.rate + plan.scaffold_hire)
+    assert "asbestos survey" in high["sequence"] and "asbestos" not in low["sequence"]
+    text = " ".join(p.extract_text() for p in pypdf.PdfReader(out / "workorders" / "U1.pdf").pages)
+    assert "Planning" in text and high["work_order_key"] in text and "local law" in text.lower()

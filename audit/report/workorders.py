@@ -149,7 +149,10 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
                                         if f["remedy"])),
             quantities=_summed([q for p in parts for q in p["quantities"]]),
             payback=min((p["payback"] for p in parts if np.isfinite(p["payback"])), default=np.inf))
-        order["planning"] = plan_order(order, parts, repair, planning)
+        order["planning"] = plan = plan_order(order, parts, repair, planning)
+        plan["shown"] = {k: fmt(plan[k]) for k in ("labour_h", "materials_cost", "labour_cost",
+                                                   "scaffold_cost", "repair_cost")}
+        plan["currency"] = audit.economics.currency
         orders.append(order)
     # priority: severity, then the shortest payback (none last)
     orders.sort(key=lambda o: (o["area"], -o["rank"], o["payback"], str(o["tag"])))
