@@ -95,6 +95,12 @@ class CalcResult:
     rules: Rules
 
 
+def flag_of(column: str) -> str:
+    """The ``calc`` flag of a register column: ``--area-code`` for ``area_code``, as the
+    command line spells its other flags."""
+    return "--" + column.replace("_", "-")
+
+
 def add_calc_arguments(parser: argparse.ArgumentParser) -> None:
     """The ``calc`` flags: one per register column, plus ``--rules`` and ``--units``."""
     what = parser.add_argument_group("the item (register notation; a unit may follow the number)")
@@ -141,7 +147,7 @@ def add_calc_arguments(parser: argparse.ArgumentParser) -> None:
     declared = {action.dest for action in parser._actions}
     for column in FLAG_COLUMNS:  # a schema column without a hand-written flag gets a plain one
         if column not in declared:
-            what.add_argument(f"--{column}", help=_flag_help(BY_NAME[column]))
+            what.add_argument(flag_of(column), dest=column, help=_flag_help(BY_NAME[column]))
     parser.add_argument("--rules", action="append", default=[], metavar="DIR",
                         help="layer this folder's *.toml over the shipped rules (repeatable)")
     parser.add_argument("--units", choices=("si", "us"), default="si",
@@ -218,7 +224,8 @@ def _read_one(cells: dict[str, str], rules: Rules) -> pd.DataFrame:
 
 def _as_flags(found: pd.DataFrame) -> str:
     """The row's problems in terms of the flags (``--length: "TBA" is not ...``)."""
-    return "; ".join(f"--{column}: {text[len(column) + 2:]}" if column in FLAG_COLUMNS else text
+    return "; ".join(f"{flag_of(column)}: {text[len(column) + 2:]}" if column in FLAG_COLUMNS
+                     else text
                      for column, text in zip(found["column"], found["text"]))
 
 
@@ -239,7 +246,11 @@ def format_calc(result: CalcResult, units: str = "si") -> str:
                  + (f" (overridden: {', '.join(own)})" if own else ""))
     lines.append(f"  air              {air:.1f} {air_unit}, wind {wind:.3g} {wind_unit}, "
                  f"RH {state['rh_pct']:.0f} %, surroundings {surroundings:.1f} {air_unit}")
-    lines.append(f"  emissivity       {state['emissivity_used']:.2f} (outer surface)")
+    insulated = math.isfinite(state["surface_temp_insulated_K"])
+    bare_worst = not insulated or state["surface_temp_K"] != state["surface_temp_insulated_K"]
+    parts = ([f"{state['emissivity_used']:.2f} (insulated surface)"] if insulated else []) + \
+        ([f"{state['bare_emissivity_used']:.2f} (bare metal)"] if bare_worst else [])
+    lines.append(f"  emissivity       {', '.join(parts)}")
     lines.append("")
 
     rows = []

@@ -19,8 +19,9 @@ import numpy as np
 import pandas as pd
 
 from audit.repeats import per_distinct
-from audit.schema import ITEM_COLUMNS
+from audit.schema import ITEM_COLUMNS, SCHEMA
 from audit.thermal import ZERO_CELSIUS
+from audit.units import parse_quantity
 
 #: Leading columns fixed by the contract, in order.
 CONTRACT_COLUMNS = ["tag", "source", "status", "reason", "surface_temp [degC]", "heat_loss [W/m]",
@@ -147,27 +148,37 @@ def surface_is_bare(states: pd.DataFrame) -> np.ndarray:
 
 
 def recognised_inputs(table: pd.DataFrame) -> dict[str, np.ndarray]:
-    """The register columns the audit recognised, as it understood them, under their register
-    names with units (contract: "Results columns added")."""
-    def celsius(column):
-        return table[column].to_numpy(float) - ZERO_CELSIUS
+    """The register columns the audit recognised and results echo (``echo`` in
+    :data:`audit.schema.SCHEMA`), as it understood them, in the schema's order, under their
+    register names with their default units (contract: "Results columns added")."""
+    out = {}
+    for column in SCHEMA:
+        if not column.echo:
+            continue
+        first = column.item[0]
+        if column.name == "layers":
+            out["layers"] = per_distinct(layers_text, table["layer_materials"].to_numpy(object),
+                                         table["layer_thicknesses_m"].to_numpy(object))
+        elif first.dtype == "bool":
+            out[column.name] = np.where(table[first.name].fillna(False).to_numpy(bool), "yes", "no")
+        elif first.dtype == "float" and column.si_unit:
+            scale, offset = _linear(column.si_unit, column.default_unit)
+            label = _UNIT_LABELS.get(column.default_unit, column.default_unit)
+            out[f"{column.name} [{label}]"] = table[first.name].to_numpy(float) * scale + offset
+        else:
+            out[column.name] = table[first.name].to_numpy(object)
+    return out
 
-    layers = per_distinct(layers_text, table["layer_materials"].to_numpy(object),
-                          table["layer_thicknesses_m"].to_numpy(object))
-    return {
-        "shape": table["shape"].to_numpy(object),
-        "nps": table["nps"].to_numpy(object),
-        "od [mm]": table["od_m"].to_numpy(float) * 1000.0,
-        "length [m]": table["length_m"].to_numpy(float),
-        "area [m2]": table["area_m2"].to_numpy(float),
-        "temp [degC]": np.where(table["temp_is_ambient"].to_numpy(bool), np.nan, celsius("temp_K")),
-        "layers": layers,
-        "condition": table["condition"].to_numpy(object),
-        "location": table["location"].to_numpy(object),
-        "area_code": table["area_code"].to_numpy(object),
-        "accessible": np.where(table["accessible"].fillna(False).to_numpy(bool), "yes", "no"),
-        "service": table["service"].to_numpy(object),
-    }
+
+#: Units as result headers write them, where pint's name differs.
+_UNIT_LABELS = {"m**2": "m2"}
+
+
+def _linear(unit: str, to: str) -> tuple[float, float]:
+    """``(scale, offset)`` of the conversion from ``unit`` to ``to`` (every pint conversion
+    between two units is linear)."""
+    zero = parse_quantity(0.0, unit, to)
+    return parse_quantity(1.0, unit, to) - zero, zero
 
 
 def layers_text(materials, thicknesses) -> str:

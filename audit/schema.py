@@ -46,6 +46,7 @@ class RegisterColumn:
     selectable: bool = False      #: may appear in a rule's ``applies_to``
     select_by: str | None = None  #: item column a selector compares, if not the first
     calc_flag: bool = True        #: ``lagaudit calc --<name>``
+    echo: bool = False            #: results echo it as understood, ``name [default unit]``
 
     @property
     def select_kind(self) -> str:
@@ -90,20 +91,20 @@ SCHEMA: tuple[RegisterColumn, ...] = (
     RegisterColumn("shape", _item("shape", "str", "`pipe`, `vertical-vessel`, "
                                   "`horizontal-vessel`, `sphere`, `flat`"),
                    words=("pipe", "vertical-vessel", "horizontal-vessel", "sphere", "flat"),
-                   selectable=True),
+                   selectable=True, echo=True),
     RegisterColumn("nps", _item("nps", "str", "nominal pipe size as NPS text (`1-1/2`), empty "
                                 "if not given"),
-                   numeric=True, selectable=True, select_by="od_m"),  # compared as its od
+                   numeric=True, selectable=True, select_by="od_m", echo=True),  # compared as its od
     RegisterColumn("od", _item("od_m", "float", "outside diameter of the metal"),
                    default_unit="mm", si_unit="m", what="a diameter", bounds=_POSITIVE,
-                   numeric=True, selectable=True),
+                   numeric=True, selectable=True, echo=True),
     RegisterColumn("length", _item("length_m", "float", "pipe run length, vessel "
                                    "tangent-to-tangent length/height"),
                    default_unit="m", si_unit="m", what="a length", bounds=_POSITIVE,
-                   numeric=True, selectable=True),
+                   numeric=True, selectable=True, echo=True),
     RegisterColumn("area", _item("area_m2", "float", "flat items"),
                    default_unit="m**2", si_unit="m**2", what="an area", bounds=_POSITIVE,
-                   numeric=True, selectable=True),
+                   numeric=True, selectable=True, echo=True),
     RegisterColumn("heads", _item("heads", "str", "`hemispherical`, `ellipsoidal`, `flat`, "
                                   "`none`"),
                    words=("hemispherical", "ellipsoidal", "flat", "none"), selectable=True),
@@ -115,12 +116,12 @@ SCHEMA: tuple[RegisterColumn, ...] = (
                                       "`temp_is_ambient` True)"),
         ItemColumn("temp_is_ambient", "bool", "the item runs at ambient"),
         ItemColumn("temp_max_K", "float", "maximum temperature when given as `normal/max`"),
-    ), default_unit="degC", si_unit="kelvin", numeric=True, selectable=True),
+    ), default_unit="degC", si_unit="kelvin", numeric=True, selectable=True, echo=True),
     RegisterColumn("layers", (
         ItemColumn("layer_materials", "tuple[str]", "insulation materials, innermost first; "
                                                     "`()` for bare"),
         ItemColumn("layer_thicknesses_m", "tuple[float]", "same length as `layer_materials`"),
-    ), default_unit="mm", si_unit="m", numeric=True),
+    ), default_unit="mm", si_unit="m", numeric=True, echo=True),
     RegisterColumn("insulation", (), calc_flag=False),  # one-layer form of layers
     RegisterColumn("thickness", (), default_unit="mm", si_unit="m", numeric=True,
                    calc_flag=False),
@@ -131,16 +132,16 @@ SCHEMA: tuple[RegisterColumn, ...] = (
                    default_unit="dimensionless", si_unit="dimensionless", what="an emissivity",
                    bounds=(0.0, 1.0, True), numeric=True),
     RegisterColumn("location", _item("location", "str", "site condition name, empty for the "
-                                     "rules' default"), parse="name", selectable=True),
+                                     "rules' default"), parse="name", selectable=True, echo=True),
     RegisterColumn("service", _item("service", "str", "insulation purpose, empty if not given"),
-                   parse="name", selectable=True),
+                   parse="name", selectable=True, echo=True),
     RegisterColumn("material", _item("material", "str", "metal name, empty if not given"),
                    parse="name", selectable=True),
     RegisterColumn("area_code", _item("area_code", "str", "plant area, as read"), parse="text",
-                   selectable=True, calc_flag=False),
+                   selectable=True, calc_flag=False, echo=True),
     RegisterColumn("condition", _item("condition", "str", "`intact`, `damaged`, `wet`, "
                                       "`missing`"),
-                   words=("intact", "damaged", "wet", "missing"), selectable=True),
+                   words=("intact", "damaged", "wet", "missing"), selectable=True, echo=True),
     _quantity("ambient", "ambient_K", "air temperature of the item (NaN: the site's)",
               "degC", "kelvin", "a temperature", _NOT_NEGATIVE),
     _quantity("wind", "wind_m_s", "wind speed at the item (NaN: the site's)",
@@ -160,7 +161,7 @@ SCHEMA: tuple[RegisterColumn, ...] = (
               "given)", "dimensionless", "dimensionless", "a calendar year", (1800.0, 2200.0, False),
               selectable=True, calc_flag=False),
     RegisterColumn("accessible", _item("accessible", "bool", "within the personnel reach "
-                                       "zone"), parse="yes_no", selectable=True),
+                                       "zone"), parse="yes_no", selectable=True, echo=True),
     RegisterColumn("valves", _item("valves", "int", "uninsulated valves on the run"),
                    parse="count", numeric=True, selectable=True),
     RegisterColumn("flanges", _item("flanges", "int", "uninsulated flanges on the run"),

@@ -43,8 +43,7 @@ def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> p
     reported, can skip that).
     """
     out = table.copy()
-    count = {c: pd.to_numeric(out[c], errors="coerce").fillna(0).to_numpy() > 0
-             for c in ("valves", "flanges")}
+    count = {c: fittings_of(out, c) > 0 for c in ("valves", "flanges")}
     # A damaged share the reader could not read is its reason already, not "empty" here.
     damaged_given = (out["raw:damaged"].fillna("").astype(str).str.strip() != "").to_numpy() \
         if "raw:damaged" in out else np.zeros(len(out), bool)
@@ -146,9 +145,8 @@ def _note_defaults(table: pd.DataFrame, rules: Rules) -> list[pd.DataFrame]:
     notes.append((_own_air_hides_site_surroundings(table, rules), "surroundings", Problem(
         "own-air-surroundings", "empty; the row's own ambient is used for radiation too, not "
         "its site's surroundings (give surroundings to say otherwise)")))
-    counts = {c: pd.to_numeric(table[c], errors="coerce").fillna(0) for c in ("valves", "flanges")}
     for column, fitting in (("valves", "valve"), ("flanges", "flange")):
-        has = counts[column] > 0
+        has = pd.Series(fittings_of(table, column) > 0, index=table.index)
         notes.append((has & (table["shape"] != "pipe"), column, Problem(
             "fittings-not-counted", "counted on pipes only; not included in this item's heat loss")))
         rule = rules.fittings.get(fitting)
@@ -196,9 +194,8 @@ def table_surfaces(table: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
     damaged = table["damaged_pct"].to_numpy(float) / 100.0
     bare_fraction = np.select([condition == "missing", condition == "damaged"],
                               [1.0, np.where(np.isnan(damaged), 1.0, damaged)], 0.0)
-    fittings = (table["shape"] == "pipe").to_numpy() & np.add(*(
-        pd.to_numeric(table[c], errors="coerce").fillna(0).to_numpy(float) > 0
-        for c in ("valves", "flanges"))).astype(bool)
+    fittings = (table["shape"] == "pipe").to_numpy() & (
+        (fittings_of(table, "valves") > 0) | (fittings_of(table, "flanges") > 0))
     return surfaces(has_layers(table), bare_fraction, fittings)
 
 
@@ -588,6 +585,12 @@ def _attributes(names, named: dict, attributes: tuple[str, ...]) -> dict[str, np
                         dtype=float)[codes] for a in attributes}
 
 
+def fittings_of(table: pd.DataFrame, column: str) -> np.ndarray:
+    """The ``valves`` or ``flanges`` counts of the item table, as the reader wrote them (a
+    whole number per row, 0 if none: see :data:`audit.schema.SCHEMA`), as floats."""
+    return table[column].to_numpy(float)
+
+
 def _fitting_length(rows: pd.DataFrame, rules: Rules) -> np.ndarray:
     """Bare-pipe equivalent [m] of each pipe row's uninsulated valves and flanges.
 
@@ -598,7 +601,7 @@ def _fitting_length(rows: pd.DataFrame, rules: Rules) -> np.ndarray:
     od = np.where(pipe, rows["od_m"].to_numpy(float), np.nan)
     total = np.zeros(len(rows))
     for column, fitting in (("valves", "valve"), ("flanges", "flange")):
-        count = pd.to_numeric(rows[column], errors="coerce").fillna(0).to_numpy(float)
+        count = fittings_of(rows, column)
         if not count.any():
             continue
         table = rules.fittings.get(fitting)

@@ -249,3 +249,15 @@ def test_calc_solves_no_more_than_the_audit(rules, monkeypatch):
     audit = audit_table(table, rules)
     assert in_calc == calls and None in calls
     assert r.state.equals(audit.states.iloc[0])
+
+
+def test_the_emissivity_printed_is_that_of_each_surface(rules):
+    bare = format_calc(calc_item(rules=rules, nps="4", temp="150", layers="none",
+                                 material="stainless-steel"), "si")
+    steel = rules.metals["stainless-steel"].emissivity
+    assert f"emissivity       {steel:.2f} (bare metal)" in bare
+    flanged = format_calc(calc_item(rules=rules, nps="4", temp="150", layers="mineral-wool 50mm",
+                                    flanges="2", material="carbon-steel",
+                                    jacket="aluminium-oxidised"), "si")
+    assert (f"emissivity       {rules.jackets['aluminium-oxidised'].emissivity:.2f} (insulated "
+            f"surface), {rules.metals['carbon-steel'].emissivity:.2f} (bare metal)") in flanged

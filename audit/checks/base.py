@@ -66,6 +66,9 @@ class CheckKind:
     #: the remedy's insulation must pass it too: the remedy search evaluates it on every
     #: trial, not only on the items that failed it (e.g. a layer's maximum temperature)
     remedy_must_pass: bool = False
+    #: its findings are remedied by the repair plan's actions (reinstate, replace, covers)
+    #: that its ``flags`` parameter names, not by a thickness (the ``condition`` kind)
+    remedied_by_repair: bool = False
 
     def findings(self, context: CheckContext, check: Check, params: dict) -> pd.DataFrame:
         """The findings table of ``check`` on ``context``: its verdict, worded."""

@@ -110,5 +110,6 @@ KIND = CheckKind(
         "min_fittings": (_count, False),
     },
     fixable_by_insulation=False,
+    remedied_by_repair=True,
     description="missing, damaged or wet insulation, and uninsulated valves and flanges on an "
                 "insulated line")

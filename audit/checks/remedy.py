@@ -42,6 +42,7 @@ from audit.checks.base import CheckContext
 from audit.checks.below_spec import _EDGE_M, installed_thickness, requirement
 from audit.checks.repairs import plan_repairs
 from audit.repeats import map_values, per_distinct
+from audit.thermal import fittings_of
 
 GUARD = "; or fit a personnel guard over the hot surface instead"
 #: What a remedy does, as ``remedy_action`` names it.
@@ -60,7 +61,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     """``findings`` with ``remedy_thickness [mm]``, ``remedy_material`` and the remedy text
     completed for the findings that insulation can fix, and ``remedy_action`` for those and
     the ``condition`` findings."""
-    findings = _condition_actions(context.table, findings, params)
+    findings = _condition_actions(context.table, findings, kinds, params)
     if not len(findings) or not findings["fixable_by_insulation"].any() or not context.rules.thicknesses:
         return findings
     rules, table = context.rules, context.table
@@ -191,17 +192,19 @@ def _actions(insulate, to_spec, share, condition, covers, by_repair, material, t
     return ";".join(done + ["guard"] * bool(guard))
 
 
-def _condition_actions(table: pd.DataFrame, findings: pd.DataFrame, params: dict) -> pd.DataFrame:
-    """``findings`` with ``remedy_action`` of each ``condition`` finding: the repairs its flags
-    name that its row needs."""
-    at = np.flatnonzero(findings["kind"].to_numpy(object) == "condition") if len(findings) else []
+def _condition_actions(table: pd.DataFrame, findings: pd.DataFrame, kinds: dict,
+                       params: dict) -> pd.DataFrame:
+    """``findings`` with ``remedy_action`` of each finding of a kind remedied by repair (the
+    ``condition`` check): the repairs its flags name that its row needs."""
+    by_repair = [name for name, kind in kinds.items() if kind.remedied_by_repair]
+    at = np.flatnonzero(np.isin(findings["kind"].to_numpy(object), by_repair)) \
+        if len(findings) else []
     if not len(at):
         return findings
     rows = findings["row"].to_numpy(int)[at]
     condition = table["condition"].fillna("").to_numpy(object)[rows]
     share = np.nan_to_num(table["damaged_pct"].to_numpy(float))[rows]
-    count = sum(np.nan_to_num(pd.to_numeric(table[c], errors="coerce").to_numpy(float))
-                for c in ("valves", "flanges"))
+    count = fittings_of(table, "valves") + fittings_of(table, "flanges")
     fittings = (table["shape"] == "pipe").to_numpy()[rows] & (count[rows] > 0)
     flags = [frozenset(params.get(c, {}).get("flags", ())) for c in findings["check"].to_numpy(object)[at]]
     out = findings.copy()
@@ -289,8 +292,7 @@ def _repair_thickness_mm(plan, rows: np.ndarray) -> np.ndarray:
 def _repair_words(table: pd.DataFrame, plan, states: pd.DataFrame, rows: np.ndarray) -> np.ndarray:
     """The repair of each row in words, for a crew."""
     cold = (states["process_temp_K"].to_numpy(float) < states["air_temp_K"].to_numpy(float))[rows]
-    valves = np.nan_to_num(pd.to_numeric(table["valves"], errors="coerce").to_numpy(float))[rows]
-    flanges = np.nan_to_num(pd.to_numeric(table["flanges"], errors="coerce").to_numpy(float))[rows]
+    valves, flanges = fittings_of(table, "valves")[rows], fittings_of(table, "flanges")[rows]
     condition = table["condition"].fillna("").to_numpy(object)[rows]
     return per_distinct(
         _one_repair, plan.insulate[rows], plan.to_spec[rows], plan.share[rows],

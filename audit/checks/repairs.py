@@ -22,6 +22,7 @@ import pandas as pd
 from audit.checks.base import has_layers
 from audit.checks.below_spec import _EDGE_M, installed_thickness, requirement
 from audit.repeats import per_distinct
+from audit.thermal import fittings_of
 
 
 @dataclass
@@ -70,8 +71,7 @@ def plan_repairs(table: pd.DataFrame, rules, spec_states: pd.DataFrame) -> Repai
     share = np.where(below | whole, 1.0, np.where(insulate, damaged, 0.0))
     thickness = np.where(below, need.thickness_m, np.where(insulate, listed, have))
     pipe = (table["shape"] == "pipe").to_numpy()
-    fittings = (np.nan_to_num(pd.to_numeric(table["valves"], errors="coerce").to_numpy(float))
-                + np.nan_to_num(pd.to_numeric(table["flanges"], errors="coerce").to_numpy(float)))
+    fittings = fittings_of(table, "valves") + fittings_of(table, "flanges")
     ok = (table["status"] == "ok").to_numpy()
     return RepairPlan(insulate=insulate & ok, share=np.where(ok, share, 0.0), to_spec=below & ok,
                       thickness_m=thickness, covers=np.where(pipe & ok, fittings, 0.0),

@@ -174,3 +174,19 @@ def test_no_remedy_on_the_demo_is_thinner_than_installed_or_than_the_spec(demo_a
             for q in part["quantities"]:
                 if q["work"] == INSULATE:
                     assert q["thickness_mm"] >= listed[part["row"]] * 1000 - 1e-6, order["tag"]
+
+
+def test_repair_actions_follow_the_kind_flag_not_its_name(trap):
+    # Bookkeeping, no physics: the condition findings get their repair actions because their
+    # kind says remedied_by_repair; with the flag off the same findings get none.
+    from dataclasses import replace
+
+    from audit.checks.remedy import _condition_actions
+    kinds, params = check_kinds(), validate_checks(trap.rules)
+    blank = trap.findings.assign(remedy_action="")
+    condition = (blank["kind"] == "condition").to_numpy()
+    assert kinds["condition"].remedied_by_repair and condition.any()
+    acted = _condition_actions(trap.table, blank, kinds, params)["remedy_action"].to_numpy()
+    assert (acted[condition] != "").any() and (acted[~condition] == "").all()
+    off = {**kinds, "condition": replace(kinds["condition"], remedied_by_repair=False)}
+    assert (_condition_actions(trap.table, blank, off, params)["remedy_action"] == "").all()
