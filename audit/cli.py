@@ -162,6 +162,10 @@ def _audit_options(parser):
                         help="most item pages in the work-order PDF packs, the most severe first "
                              f"(default {MAX_WORKORDER_PAGES}; every work order is in "
                              "workorders.csv)")
+    parser.add_argument("--survey", nargs="+", metavar="READINGS",
+                        help="CSV/XLSX field readings of surface temperature (tag, surface_temp, "
+                             "ambient, wind, rh, emissivity, date; note, position optional) to "
+                             "reconcile with the register (writes survey.csv)")
     parser.add_argument("--history", metavar="DB",
                         help="record this audit in DB (SQLite file, or postgresql:// URL) and "
                              "compare it with the plant's last audit there (writes closed.csv)")
@@ -218,6 +222,8 @@ def _demo(args) -> int:
     if args.second_survey:
         return _audit_and_write([folder / "demo_line_list_resurvey.xlsx",
                                  folder / "demo_equipment_resurvey.xlsx"], args)
+    if args.survey is None:  # the demo plant's invented infrared survey
+        args.survey = [folder / "demo_survey.csv"]
     return _audit_and_write([folder / "demo_line_list.xlsx", folder / "demo_equipment.xlsx"], args)
 
 
@@ -234,7 +240,7 @@ def _audit_and_write(registers, args) -> int:
         check_outputs(folder, formats, HISTORY_OUTPUTS if history is not None else ())
         audit = audit_register(registers, rules_dirs=args.rules, sheets=args.sheet,
                                surface_model=args.surface_model, fuel_price=args.fuel_price,
-                               hours=args.hours)
+                               hours=args.hours, survey=args.survey)
         if history is not None:
             audit = compare_audit(history, audit, plant=args.plant,
                                   fallback=DEMO_PLANT if args.run is _demo else None)

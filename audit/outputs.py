@@ -22,10 +22,13 @@ from audit.io.writers.place import OutputFolder
 from audit.io.writers.safety import as_number
 from audit.progress import printable
 from audit.results import carried_columns, findings_out
+from audit.survey import survey_out
 
 
 def _csv(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
     jobs = [(audit.results, "results.csv"), (findings_out(audit.findings), "findings.csv")]
+    if getattr(audit, "survey", None) is not None:
+        jobs.append((survey_out(audit.survey), "survey.csv"))
     # Two threads: much of the writing is numpy formatting and file output, which let go of
     # the interpreter lock, so the two files overlap.
     with ThreadPoolExecutor(2) as pool:

@@ -175,15 +175,15 @@ def labour_and_materials(quantities: list[dict], installed_m: float, repair,
     return hours, cost
 
 
-def sequence(*, scaffold, asbestos: bool, cui: bool, cold: bool) -> list[str]:
+def sequence(*, scaffold, asbestos: bool, cui: bool, iced: bool) -> list[str]:
     """The planner's order of work for one order, first step first."""
     steps = []
     if scaffold:
         steps.append("erect scaffolding or bring a lift; inspect it before use")
     if asbestos:
         steps.append("asbestos survey of the existing insulation before any removal or cutting")
-    if cold:
-        steps.append("de-ice and dry the surface before work (cold service)")
+    if iced:
+        steps.append("de-ice and dry the surface before work (a condensation finding says it ices)")
     if cui:
         steps.append("CUI inspection of the bare metal before reinstatement")
     steps.append("insulate, cover and guard as listed; measure the surface temperature after")
@@ -194,7 +194,7 @@ def plan_order(order: dict, parts: list[dict], repair, plan: PlanningRules) -> d
     """Planning fields of one work order from its register rows.
 
     ``parts`` are dicts with ``quantities``, ``installed_m``, ``elevation_m``,
-    ``install_year`` and ``cold``; ``order`` has ``tag``, ``findings`` and ``quantities``
+    ``install_year`` and ``iced`` (a condensation finding says the surface ices); ``order`` has ``tag``, ``findings`` and ``quantities``
     (summed over its rows: the materials list).
     """
     scaffold_rows = needs_scaffold([p["elevation_m"] for p in parts], plan.scaffold_above)
@@ -221,7 +221,7 @@ def plan_order(order: dict, parts: list[dict], repair, plan: PlanningRules) -> d
         "repair_cost": materials + labour_cost + (plan.scaffold_hire if scaffold else 0.0),
         "materials": "; ".join(_material_line(q) for q in order["quantities"]),
         "sequence": sequence(scaffold=scaffold, asbestos=asbestos, cui="cui-window" in checks,
-                             cold=any(p["cold"] for p in parts)),
+                             iced=any(p["iced"] for p in parts)),
         "notes": notes, "caution": plan.caution if asbestos else "",
     }
 

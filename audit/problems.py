@@ -30,6 +30,11 @@ CODES = {
     "too-many-layers": "more insulation layers than an item may have",
     "not-recognised": "a word that is not one of the column's allowed words",
     "not-yes-no": "not yes or no",
+    "not-a-date": "not a date (year-month-day)",
+    "date-in-future": "a date later than the day of the audit",
+    "unknown-tag": "a survey reading whose tag is not in the register",
+    "reading-impossible": "a surface reading the registered item cannot show",
+    "no-conditions": "a survey reading without its ambient, wind or humidity",
     "not-a-count": "not a whole number, 0 or more",
     "cell-too-long": "a cell longer than a spreadsheet cell holds",
     "unit-assumed": "a bare number in a column that elsewhere gives units",
@@ -42,12 +47,13 @@ CODES = {
     "duplicate-row": "a row equal to an earlier row in every recognised cell",
     "duplicate-tag": "a tag on several differing rows",
     "blank-row": "a row with no cells",
-    "not-in-rules": "a name (material, jacket, site, metal) the rules do not define",
+    "not-in-rules": "a name (material, jacket, site, metal, fluid) the rules do not define",
     "rules-missing": "the rules lack what the row needs (wet_factor, a fitting, a default)",
     "rules-default": "an empty cell filled from the rules' [defaults]",
     "own-air-surroundings": "the row's own ambient used for radiation too",
     "fittings-not-counted": "fittings given on an item that is not a pipe",
     "beyond-fitting-table": "a pipe size beyond the rules' fitting table",
+    "above-boiling-point": "a boiling liquid of the rules hotter than its boiling point",
 }
 
 SEVERITIES = ("reject", "warning")

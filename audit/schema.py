@@ -166,6 +166,9 @@ SCHEMA: tuple[RegisterColumn, ...] = (
                    parse="count", numeric=True, selectable=True),
     RegisterColumn("flanges", _item("flanges", "int", "uninsulated flanges on the run"),
                    parse="count", numeric=True, selectable=True),
+    RegisterColumn("fluid", _item("fluid", "str", "what the item holds, a `[fluid.NAME]` of "
+                                  "the rules; empty if not given"), parse="name",
+                   selectable=True),
 )
 
 BY_NAME = {column.name: column for column in SCHEMA}

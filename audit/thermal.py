@@ -59,6 +59,9 @@ def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> p
     parts = [p for f in found[has] for p in f]
     recorded = [_recorded(out, "reject", rows, parts)]
     out.loc[has, "status"] = "rejected"
+    fluid_rows, fluid_parts = _fluid_problems(out, rules)
+    recorded.append(_recorded(out, "reject", fluid_rows, fluid_parts))
+    out.iloc[fluid_rows, out.columns.get_loc("status")] = "rejected"
     if notes:
         recorded += _note_defaults(out, rules)
     out.attrs["problems"] = problems_of(out).plus(pd.concat(recorded, ignore_index=True))
@@ -78,6 +81,40 @@ def _recorded(out: pd.DataFrame, severity: str, rows: np.ndarray,
     return records(out.index.to_numpy()[rows], field(0), np.array(
         [p[2].code for p in parts], dtype=object), field(1), np.array(
         [p[2].expected for p in parts], dtype=object), severity, texts)
+
+
+def fluid_column(table: pd.DataFrame) -> np.ndarray:
+    """Per row, the fluid it names ("" if none, or if the table has no fluid column)."""
+    if "fluid" not in table:
+        return np.full(len(table), "", dtype=object)
+    return table["fluid"].fillna("").to_numpy(object)
+
+
+def _fluid_problems(table: pd.DataFrame, rules: Rules) -> tuple[np.ndarray, list[tuple]]:
+    """Rows (positions) and ``(column, value, problem)`` of each: a fluid the rules do not
+    define, or a boiling liquid hotter than its boiling point (a liquid at 1 atm cannot be;
+    one under pressure needs a fluid of its own)."""
+    fluid = fluid_column(table)
+    fluids = rules.fluids
+    unknown = per_distinct(lambda name: bool(name) and name not in fluids, fluid).astype(bool)
+    listing = _listing(fluids)
+    found = [(i, ("fluid", fluid[i], Problem(
+        "not-in-rules", "is not in the rules",
+        f"one of {listing} (or add a [fluid.{fluid[i]}] to a rule file)")))
+        for i in np.flatnonzero(unknown)]
+    boiling = map_values(fluid, {n: f.boiling_point for n, f in fluids.items()
+                                 if f.boiling_liquid}, np.nan)
+    temp = table["temp_K"].to_numpy(float)
+    with np.errstate(invalid="ignore"):
+        hotter = np.flatnonzero(temp > boiling)
+    found += [(i, ("temp", None, Problem(
+        "above-boiling-point",
+        f"{temp[i] - ZERO_CELSIUS:.1f} degC is above the boiling point of {fluid[i]} at 1 atm "
+        f"({boiling[i] - ZERO_CELSIUS:.1f} degC), a boiling liquid of the rules",
+        "its temperature at or below that, or a fluid of the rules for the liquid under "
+        "pressure"))) for i in hotter]
+    found.sort(key=lambda f: f[0])
+    return np.array([i for i, _ in found], dtype=np.intp), [p for _, p in found]
 
 
 def _name_problems(key, rules: Rules) -> list[tuple]:

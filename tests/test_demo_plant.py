@@ -71,7 +71,7 @@ def test_duplicate_tag_warned_not_rejected(audit):
 
 def test_extra_columns_carried_through(audit):
     _, a = audit
-    for column in ("P&ID", "Fluid", "Remarks", "Description", "Drawing"):
+    for column in ("P&ID", "Stream", "Remarks", "Description", "Drawing"):
         assert column in a.results.columns
 
 

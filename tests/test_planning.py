@@ -61,9 +61,9 @@ def test_outside_the_tables_has_no_cost_rather_than_the_nearest():
     assert math.isnan(hours) and math.isnan(cost)
 
 
-def _part(quantities, installed_m, elevation, year, cold=False):
+def _part(quantities, installed_m, elevation, year, iced=False):
     return {"quantities": quantities, "installed_m": installed_m, "elevation_m": elevation,
-            "install_year": year, "cold": cold}
+            "install_year": year, "iced": iced}
 
 
 def test_an_order_sums_its_rows_and_adds_scaffold_against_hand_totals():
@@ -86,7 +86,7 @@ def test_an_order_sums_its_rows_and_adds_scaffold_against_hand_totals():
 def test_sequence_puts_survey_before_removal_and_cui_before_reinstatement():
     order = {"tag": "QP-2", "findings": [{"check": "cui-window"}, {"check": "condensation"}],
              "quantities": VESSEL}
-    plan = plan_order(order, [_part(VESSEL, 0.0375, 5.0, 1975, cold=True)], REPAIR, PLAN)
+    plan = plan_order(order, [_part(VESSEL, 0.0375, 5.0, 1975, iced=True)], REPAIR, PLAN)
     steps = plan["sequence"]
     assert plan["asbestos_survey"] == "yes" and plan["caution"] == "survey first"
     assert [i for i, s in enumerate(steps) if "scaffold" in s] == [0]

@@ -10,7 +10,7 @@ document system, mess included:
   units in headers; cells with their own units (``331 F``, ``354 ft``, ``2in``, ``1-1/2"``,
   ``DN150``, ``8000 h/yr``), layered thickness notation (``calcium-silicate 50mm + mineral-wool
   2x40mm``; ``2x2.5`` inches in the equipment list), ``AMB`` and ``normal/max`` temperatures;
-* extra columns the audit carries through (``P&ID``, ``Drawing``, ``Fluid``, ``Remarks``) and the
+* extra columns the audit carries through (``P&ID``, ``Drawing``, ``Stream``, ``Remarks``) and the
   CUI columns ``Cyclic`` and ``Install Year``, and the height of each item above grade or its
   platform (``Elevation [m]``, ``Elev``) for the work orders' access planning;
 * in the XLSX, a title block above the header row and a notes sheet without a register;
@@ -40,7 +40,7 @@ OUT = Path(__file__).resolve().parent.parent / "sample_data"
 #: A fixed creation date, so that the XLSX files do not change from run to run.
 CREATED = datetime.datetime(2026, 1, 15, 8, 0, 0)
 
-LINE_HEADERS = ["Line No", "Unit", "P&ID", "Fluid", "Size", "Length [m]", "Orientation",
+LINE_HEADERS = ["Line No", "Unit", "P&ID", "Stream", "Size", "Length [m]", "Orientation",
                 "Op Temp [degC]", "Lagging", "Cladding", "Location", "Access",
                 "Insul Condition", "Damaged [%]", "Pipe Material", "Bare Valves",
                 "Bare Flanges", "Op Hours", "Purpose", "Cyclic", "Install Year", "Remarks",

@@ -87,6 +87,7 @@ class CheckContext:
     table: pd.DataFrame
     rules: Rules
     surface_model: str = "correlations"
+    survey: pd.DataFrame | None = None  #: reconciled field readings (audit.survey), if any
     _states: dict = field(default_factory=dict)
     _tables: tuple | None = None
     _prepared: PreparedItems | None = None

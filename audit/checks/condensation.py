@@ -7,7 +7,9 @@ air temperature and relative humidity of the scenario's states
 coldest of the item: for a cold item that is the engine's worst part (``surface_temp_K``),
 which includes bare parts (missing or damaged insulation, uninsulated fittings).
 
-Only items colder than the air can fail.  Rows whose dew point cannot be computed (relative
+A surface below 0 degC and below the dew point grows frost and ice: the finding says so (no
+claim is made about the ice's insulating effect, which is not modelled).  Only items colder
+than the air can fail.  Rows whose dew point cannot be computed (relative
 humidity of 0 %, where no water can condense, or air outside the psychrometric range) are not
 flagged.  Insulation fixes it: more thickness, with a continuous vapour retarder on the warm
 side, since a cold item draws moisture into its insulation.
@@ -23,6 +25,9 @@ from audit.rules.converters import temperature_difference
 from audit.thermal import ZERO_CELSIUS, table_surfaces
 
 NAME = "condensation"
+
+#: What a finding says of a surface below 0 degC and below the dew point (the work order reads it).
+ICE = "below 0 degC and the dew point: frost and ice grow on it"
 
 DEFAULT_MARGIN_K = 1.0
 """Margin above the dew point when the rule gives none [K] (common practice, see the rule file)."""
@@ -70,8 +75,10 @@ def word(context, check, params, verdict):
             verdict.value.tolist(), (facts["dew"] - ZERO_CELSIUS).tolist(),
             (facts["air"] - ZERO_CELSIUS).tolist(), facts["rh"].tolist()):
         part = words if bare else "insulated surface"
+        # Below 0 degC and below the dew point, water vapour deposits as frost and builds ice.
+        ice = f"; {ICE}" if cold_c < 0 and cold_c < dew_c else ""
         message.append(f"{part} at {cold_c:.1f} degC, below the dew point {dew_c:.1f} degC + "
-                       f"{margin:g} K margin (air {air_c:.0f} degC, {rh_r:.0f} % RH)")
+                       f"{margin:g} K margin (air {air_c:.0f} degC, {rh_r:.0f} % RH){ice}")
         remedy.append("insulate the bare parts, with a sealed vapour retarder" if bare
                       else "increase insulation thickness, with a sealed vapour retarder")
     return np.array(message, dtype=object), np.array(remedy, dtype=object)

@@ -77,7 +77,14 @@ def _limits(check, params):
 
 
 def evaluate(context, check, params):
-    limit_metal, limit_non_metal = _limits(check, params)
+    return surface_verdict(context, check, *_limits(check, params))
+
+
+def surface_verdict(context, check, limit_metal, limit_non_metal, *, cold=False):
+    """The parts of each selected item beyond the limit of their surface class [K]: hotter
+    than it, or with ``cold`` colder (``cold-touch``).  The insulated surface is held to its
+    jacket's class, any bare part to the metal limit; the worse of the two is reported."""
+    sign = -1.0 if cold else 1.0
     states = context.states(check.site)
     selected = context.selected(check)
     worst = states["surface_temp_K"].to_numpy(float)
@@ -89,8 +96,8 @@ def evaluate(context, check, params):
     # The insulated surface: the worst part when nothing is bare, else the main insulated wall.
     ins_temp = np.where(has_bare, insulated_temp, worst)
     with np.errstate(invalid="ignore"):
-        ins_excess = np.where(np.isfinite(ins_temp), ins_temp - insulated_limit, -np.inf)
-        bare_excess = np.where(has_bare & np.isfinite(worst), worst - limit_metal, -np.inf)
+        ins_excess = np.where(np.isfinite(ins_temp), sign * (ins_temp - insulated_limit), -np.inf)
+        bare_excess = np.where(has_bare & np.isfinite(worst), sign * (worst - limit_metal), -np.inf)
     bare_is_worse = bare_excess >= ins_excess
     excess = np.maximum(ins_excess, bare_excess)
     flagged = np.flatnonzero(selected & (excess > 0))

@@ -20,14 +20,15 @@ import numpy as np
 import pandas as pd
 
 from audit.economics import totals
-from audit.economics.energy import yearly
+from audit.economics.energy import (BOIL_OFF, REFRIGERATION, UNPAID, HeatGainPayers,
+                                    boil_off_kg_h, yearly)
 from audit.checks.repairs import plan_repairs
 from audit.economics.repair import payback_years, repair_cost
 from audit.economics.rules import EconomicRules, economic_rules, load_economic_rules
 from audit.economics.thickness import annuity_factor, economic_thickness
 from audit.errors import RuleError
-from audit.repeats import per_distinct
-from audit.thermal import prepared_states
+from audit.repeats import map_values, per_distinct
+from audit.thermal import fluid_column, prepared_states
 
 __all__ = ["Economics", "EconomicRules", "compute_economics", "economic_rules", "energy_site",
            "load_economic_rules"]
@@ -35,16 +36,20 @@ __all__ = ["Economics", "EconomicRules", "compute_economics", "economic_rules", 
 #: Per-row columns, in order (the first six are the contract's energy columns):
 #: ``annual_energy [MWh]`` heat lost (or, cold service, gained) in a year of ``hours [h]``;
 #: ``annual_fuel [MWh]`` the energy bought for it (``energy_bought``: fuel over the heater's
-#: efficiency, or electricity over the refrigeration COP); ``annual_cost`` and ``annual_co2 [t]``
-#: of that energy; ``saving_if_repaired [MWh]`` energy bought as is minus repaired (0 when
+#: efficiency, or electricity over the refrigeration COP; 0 for a heat gain paid by boil-off
+#: or not at all); ``annual_cost`` and ``annual_co2 [t]`` of that energy, or of the product
+#: boiled off (``energy_bought``: fuel, electricity, boil-off or none); ``saving_if_repaired [MWh]`` energy bought as is minus repaired (0 when
 #: nothing is to be repaired); ``payback [yr]`` = ``repair_cost`` / ``annual_saving`` (money
 #: per year), empty when nothing is to be repaired or the repair saves nothing; ``repair`` what
 #: the repair is; ``installed_thickness [mm]``; ``economic_thickness [mm]`` of
-#: ``economic_material``; ``economics_note`` why a value is empty.  NaN for rows without a result.
+#: ``economic_material``; ``economics_note`` why a value is empty; ``annual_boil_off [t]`` the
+#: liquid a boiling liquid's heat gain boils off in the year; ``boil_off [kg/h]`` the same at
+#: the item's own conditions (those of ``heat_loss [W]``), as the contract's columns are.  NaN for rows without a result.
 COLUMNS = ["annual_energy [MWh]", "annual_fuel [MWh]", "annual_cost", "annual_co2 [t]",
            "saving_if_repaired [MWh]", "payback [yr]", "energy_bought", "hours [h]",
            "repair", "repair_cost", "annual_saving", "installed_thickness [mm]",
-           "economic_thickness [mm]", "economic_material", "economics_note"]
+           "economic_thickness [mm]", "economic_material", "economics_note",
+           "boil_off [kg/h]", "annual_boil_off [t]"]
 
 
 @dataclass
@@ -103,7 +108,9 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
     states = context.states(site)
     row_hours = table["hours_h"].to_numpy(float)
     hours_h = np.where(np.isfinite(row_hours), row_hours, econ.hours)
-    now = yearly(states["heat_loss_W"].to_numpy(float), hours_h, econ)
+    payers = heat_gain_payers(table, rules)
+    own = context.states("")
+    now = yearly(states["heat_loss_W"].to_numpy(float), hours_h, econ, payers)
 
     spec_check = rules.checks.get("below-spec")
     plan = plan_repairs(table, rules, context.states(spec_check.site if spec_check else ""))
@@ -112,7 +119,7 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
                                     plan.thickness_m, plan.covers > 0),
         rules, site=site or None, surface_model=context.surface_model, tables=context.tables(),
         index=table.index)
-    after = yearly(repaired["heat_loss_W"].to_numpy(float), hours_h, econ)
+    after = yearly(repaired["heat_loss_W"].to_numpy(float), hours_h, econ, payers)
     fixed = repaired["computed"].to_numpy(bool)
     saving_mwh = np.where(plan.needed, np.where(fixed, now["bought [MWh]"] - after["bought [MWh]"], np.nan),
                           0.0)
@@ -121,7 +128,7 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
     computed = states["computed"].to_numpy(bool)
 
     material = np.where(plan.spec_material != "", plan.spec_material, _outermost(table)).astype(object)
-    economic, at_edge = economic_thickness(context, econ, site=site, hours_h=hours_h,
+    economic, at_edge = economic_thickness(context, econ, site=site, hours_h=hours_h, payers=payers,
                                            material=material, edge=True)
 
     def known(values):
@@ -134,7 +141,7 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
         "annual_co2 [t]": known(now["co2 [t]"]),
         "saving_if_repaired [MWh]": known(saving_mwh),
         "payback [yr]": known(payback_years(cost, saving_money, plan.needed)),
-        "energy_bought": np.where(computed, np.where(now["cold"], "electricity", "fuel"), "").astype(object),
+        "energy_bought": np.where(computed, _carrier(now["mode"]), "").astype(object),
         "hours [h]": np.where(computed, hours_h, np.nan),
         "repair": np.where(computed, plan.scope(), "").astype(object),
         "repair_cost": known(np.where(plan.needed, cost, np.nan)),
@@ -142,6 +149,8 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
         "installed_thickness [mm]": np.where(table["status"] == "ok", plan.installed_m * 1000.0, np.nan),
         "economic_thickness [mm]": economic * 1000.0,
         "economic_material": np.where(np.isfinite(economic), material, "").astype(object),
+        "boil_off [kg/h]": boil_off_kg_h(own["heat_loss_W"].to_numpy(float), payers.latent_heat),
+        "annual_boil_off [t]": known(now["boil_off [t]"]),
         "economics_note": _notes(computed, [
             (plan.needed & ~fixed, "the repaired item could not be computed by the engine"),
             (plan.needed & fixed & ~np.isfinite(cost),
@@ -170,6 +179,26 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
             {"what": "annuity factor", "value": f"{float(annuity_factor(econ.interest, econ.life)):.5f} /yr",
              "source": "i(1+i)^n/((1+i)^n-1) of the interest rate and service life (VDI 2055)"}],
         site=site, warnings=econ.currency_warnings())
+
+
+def heat_gain_payers(table: pd.DataFrame, rules) -> HeatGainPayers:
+    """Per row, who pays for a heat gain: its fluid's ``heat_gain`` (refrigeration for a row
+    without a fluid, as for a fluid the rules lack: such a row is rejected anyway)."""
+    fluid = fluid_column(table)
+    fluids = rules.fluids
+    codes = {"refrigeration": REFRIGERATION, "boil-off": BOIL_OFF, "none": UNPAID}
+    return HeatGainPayers(
+        mode=map_values(fluid, {n: codes[f.heat_gain] for n, f in fluids.items()},
+                        REFRIGERATION, dtype=int),
+        latent_heat=map_values(fluid, {n: f.latent_heat for n, f in fluids.items()}),
+        price=map_values(fluid, {n: f.price for n, f in fluids.items()}),
+        co2=map_values(fluid, {n: f.co2 for n, f in fluids.items()}))
+
+
+def _carrier(mode: np.ndarray) -> np.ndarray:
+    """What pays for each row's heat: fuel (a loss), electricity, boil-off or nothing."""
+    words = np.array(["fuel", "electricity", "boil-off", "none"], dtype=object)
+    return words[np.asarray(mode, int) + 1]
 
 
 def _outermost(table: pd.DataFrame) -> np.ndarray:

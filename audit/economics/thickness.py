@@ -92,7 +92,8 @@ def last_known(total) -> np.ndarray:
     return np.where(known.any(axis=1), k - 1 - np.argmax(known[:, ::-1], axis=1), -1)
 
 
-def economic_thickness(context, economic_rules, *, site, hours_h, material, edge=False):
+def economic_thickness(context, economic_rules, *, site, hours_h, material, edge=False,
+                       payers=None):
     """Economic thickness [m] of every row of the context's table (NaN where not computed);
     with ``edge``, also whether it is the thickest candidate that could be costed for the row
     (the standard list's last, or the repair cost table's last column).
@@ -109,6 +110,8 @@ def economic_thickness(context, economic_rules, *, site, hours_h, material, edge
         Operating hours per row [h]
     material : numpy.ndarray of str
         Insulation material per row ("" = none known: not computed).
+    payers : HeatGainPayers, optional
+        Per row, who pays for a heat gain (refrigeration for every row when not given).
     """
     table, rules = context.table, context.rules
     n = len(table)
@@ -132,7 +135,8 @@ def economic_thickness(context, economic_rules, *, site, hours_h, material, edge
     investment = np.full((rows.size, candidates.size), np.nan)
     for k, (t, got) in enumerate(zip(candidates, solved)):
         heat = np.where(got.converged, got.heat_loss, np.nan)
-        heat_cost[:, k] = yearly(heat, hours_h[rows], economic_rules)["cost"]
+        heat_cost[:, k] = yearly(heat, hours_h[rows], economic_rules,
+                                 None if payers is None else payers.take(rows))["cost"]
         investment[:, k] = insulation_cost(economic_rules.repair, shape, items["od_m"].to_numpy(float),
                                            items["length_m"].to_numpy(float), got.outer_area, t)
     annuity = float(annuity_factor(economic_rules.interest, economic_rules.life))

@@ -10,14 +10,34 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
+#: Heat lost and heat gained are never netted: each has its own energy, cost and CO2
+#: (``energy_bought`` "fuel" is a loss; electricity, boil-off or none pay for a gain).
+SPLIT = {f"{what}_{side} {unit}".rstrip(): (column, side)
+         for side in ("heat_lost", "heat_gained")
+         for what, column, unit in (("energy", "annual_energy [MWh]", "[MWh]"),
+                                    ("cost", "annual_cost", ""),
+                                    ("co2", "annual_co2 [t]", "[t]"))}
 #: per-row columns that add up
 SUMMED = ["annual_energy [MWh]", "annual_fuel [MWh]", "annual_cost", "annual_co2 [t]",
-          "saving_if_repaired [MWh]", "annual_saving", "repair_cost"]
+          "saving_if_repaired [MWh]", "annual_saving", "repair_cost", *SPLIT,
+          "boil_off [kg/h]", "annual_boil_off [t]"]
 TOP_COLUMNS = ["row", "tag", "source", "area_code", "repair", "repair_cost", "annual_saving",
                "saving_if_repaired [MWh]", "payback [yr]"]
 
 
+def split_sides(per_row: pd.DataFrame) -> pd.DataFrame:
+    """``per_row`` with the :data:`SPLIT` columns: energy, cost and CO2 of each row on its own
+    side (heat lost or heat gained), 0 on the other side."""
+    lost = (per_row["energy_bought"].fillna("") == "fuel").to_numpy()
+    added = {}
+    for name, (column, side) in SPLIT.items():
+        values = per_row[column].to_numpy(float)
+        added[name] = np.where(lost == (side == "heat_lost"), values, 0.0)
+    return per_row.assign(**added)
+
+
 def _sums(frame: pd.DataFrame, by) -> pd.DataFrame:
+    frame = split_sides(frame)
     counted = frame.assign(items=np.isfinite(frame["annual_energy [MWh]"].to_numpy(float)).astype(int))
     return counted.groupby(by, sort=True)[["items", *SUMMED]].sum(min_count=0).reset_index()
 
@@ -39,7 +59,8 @@ def by_check(per_row: pd.DataFrame, findings: pd.DataFrame) -> pd.DataFrame:
 
 def plant(per_row: pd.DataFrame) -> dict:
     """The plant's sums, and how many items have a result and how many need a repair."""
-    out = {c: float(np.nansum(per_row[c].to_numpy(float))) for c in SUMMED}
+    sided = split_sides(per_row)
+    out = {c: float(np.nansum(sided[c].to_numpy(float))) for c in SUMMED}
     out["items"] = int(np.isfinite(per_row["annual_energy [MWh]"].to_numpy(float)).sum())
     out["items_to_repair"] = int((per_row["repair"].fillna("") != "").sum())
     return out

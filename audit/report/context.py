@@ -16,6 +16,7 @@ from markupsafe import Markup
 
 from audit import methods
 from audit.digests import rules_digest, sha256_file
+from audit.economics.totals import SPLIT, split_sides
 from audit.schema import ITEM_COLUMNS
 from audit.report import charts
 from audit.rules import SEVERITIES
@@ -27,7 +28,7 @@ MAX_TABLE_ROWS = 100
 SEVERITY_RANK = {name: rank for rank, name in enumerate(SEVERITIES)}
 
 ECONOMIC_COLUMNS = ("annual_energy [MWh]", "annual_fuel [MWh]", "annual_cost", "annual_co2 [t]",
-                    "saving_if_repaired [MWh]")
+                    "saving_if_repaired [MWh]", "boil_off [kg/h]", "annual_boil_off [t]")
 
 
 def fmt(value, digits: int = 3) -> str:
@@ -93,7 +94,9 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "counts": {"rows": len(results), "audited": int(audited.sum()),
                    "rejected": int((~audited).sum()), "findings": len(findings),
                    "items_with_findings": int(findings["row"].nunique()) if len(findings) else 0},
-        "heat_loss_kW": fmt(np.nansum(results["heat_loss [W]"].to_numpy(float)[audited]) / 1000.0, 4),
+        # Heat lost and heat gained are never netted: each is summed on its own.
+        "heat_lost_kW": fmt(_summed(results["heat_loss [W]"], audited, 1) / 1000.0, 4),
+        "heat_gained_kW": fmt(_summed(results["heat_loss [W]"], audited, -1) / 1000.0, 4),
         "by_check": _by_check(findings, severities),
         "by_area": _by_area(area, audited, findings, economics)[:max_rows],
         "areas": len(set(area)),
@@ -116,6 +119,12 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "areas": charts.findings_by_area(_area_severity_counts(findings), severities),
     }
     return context
+
+
+def _summed(heat_loss_w: pd.Series, audited: np.ndarray, sign: int) -> float:
+    """Sum of the heat lost (``sign`` 1) or the magnitude of the heat gained (-1) [W]."""
+    values = sign * heat_loss_w.to_numpy(float)[audited]
+    return float(np.nansum(np.where(values > 0, values, 0.0)))
 
 
 def _since_last(audit, max_rows: int) -> dict | None:
@@ -261,6 +270,8 @@ def _economics(audit, area: np.ndarray, economics, max_rows: int) -> dict | None
         return None
     per_row = economics.per_row
     totals = {c: fmt(np.nansum(per_row[c].to_numpy(float)), 4) for c in ECONOMIC_COLUMNS}
+    sided = split_sides(per_row)
+    totals.update({c: fmt(np.nansum(sided[c].to_numpy(float)), 4) for c in SPLIT})
     ranking = getattr(economics, "top_repairs", None)
     if isinstance(ranking, pd.DataFrame) and {"tag", "payback [yr]"} <= set(ranking.columns):
         top = [{"tag": r["tag"], "area": r.get("area_code", "") or "(none)",

@@ -24,6 +24,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
+from audit.checks.condensation import ICE
 from audit.io.writers import write_csv
 from audit.io.writers.place import OutputFolder, temporary_for
 from audit.economics import economic_rules
@@ -124,7 +125,7 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
                           "first_reported": f.get("first_reported", "")} for f in records],
             "quantities": _quantities(item, records, outer_area[row], bool(cold[row])),
             # for the planning (audit/planning.py)
-            "installed_m": float(sum(item["layer_thicknesses_m"] or ())), "cold": bool(cold[row]),
+            "installed_m": float(sum(item["layer_thicknesses_m"] or ())), "iced": any(ICE in str(f["message"]) for f in records),
             "elevation_m": float(item["elevation_m"]), "install_year": float(item["install_year"]),
             "payback": float(payback[row]),
         }
@@ -145,8 +146,8 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
             parts=parts, priority=SEVERITIES[order["rank"]],
             sources=[p["source"] for p in parts],
             findings=[f for p in parts for f in p["findings"]],
-            remedies=list(dict.fromkeys(f["remedy"] for p in parts for f in p["findings"]
-                                        if f["remedy"])),
+            remedies=_iced(parts) + list(dict.fromkeys(
+                f["remedy"] for p in parts for f in p["findings"] if f["remedy"])),
             quantities=_summed([q for p in parts for q in p["quantities"]]),
             payback=min((p["payback"] for p in parts if np.isfinite(p["payback"])), default=np.inf))
         order["planning"] = plan = plan_order(order, parts, repair, planning)
@@ -157,6 +158,16 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
     # priority: severity, then the shortest payback (none last)
     orders.sort(key=lambda o: (o["area"], -o["rank"], o["payback"], str(o["tag"])))
     return orders
+
+
+#: The precaution a work order leads with when a finding says the surface grows ice.
+DE_ICE = "ice: de-ice before work"
+
+
+def _iced(parts: list[dict]) -> list[str]:
+    """``[DE_ICE]`` when a condensation finding of the order says its surface grows ice."""
+    iced = any(ICE in str(f["message"]) for p in parts for f in p["findings"])
+    return [DE_ICE] if iced else []
 
 
 @dataclass

@@ -47,6 +47,17 @@ def describe_rules(rules: Rules) -> str:
     section("Specifications", rules.specs,
             lambda s: f"{s.material}; {len(s.sizes)} sizes x {len(s.bands)} temperature bands; "
                       f"tolerance {s.tolerance * 1000:g} mm")
+
+    def fluid(f):
+        parts = [f"heat gain paid by {f.heat_gain}"]
+        if f.boiling_liquid:
+            parts.append(f"boiling liquid: {f.boiling_point - C:.1f} degC at 1 atm, latent heat "
+                         f"{f.latent_heat / 1000:.4g} kJ/kg")
+        if f.heat_gain == "boil-off":
+            parts.append(f"boil-off at {f.price:g} per kg, {f.co2:g} kg CO2/kg")
+        return "; ".join(parts)
+
+    section("Fluids", rules.fluids, fluid)
     if rules.thicknesses:
         lines.append("Standard thicknesses: " + ", ".join(f"{t * 1000:g}" for t in rules.thicknesses) + " mm")
         lines.append(f"      source: {' '.join(rules.thicknesses_source.split())}")

@@ -21,8 +21,8 @@ from audit.errors import LagauditError, Problem, RuleError
 from audit.pipe_sizes import NPS_BY_VALUE
 from audit.rules.files import read_toml
 from audit.rules.converters import boolean, choice, list_of, quantity, rows, temperature, text
-from audit.rules.model import (SEVERITIES, Check, Fitting, Jacket, Material, Metal, Rules, Site,
-                               Spec)
+from audit.rules.model import (HEAT_GAIN_PAYERS, SEVERITIES, Check, Fitting, Fluid, Jacket,
+                               Material, Metal, Rules, Site, Spec)
 from audit.rules.keys import convert_keys
 from audit.rules.selector import SelectorError, parse_selector
 from audit.shipped import shipped_dir
@@ -99,9 +99,25 @@ SCHEMA = {
         "tolerance": (_MM, True),
         "source": (text, True),
     }),
+    "fluid": (Fluid, {
+        "heat_gain": (choice(*HEAT_GAIN_PAYERS), False),
+        "latent_heat": (quantity("kJ/kg", "J/kg", low=0.0, low_open=True), False),
+        "cp": (quantity("kJ/(kg*K)", "J/(kg*K)", low=0.0, low_open=True), False),
+        "freezing_point": (temperature, False),
+        "boiling_point": (temperature, False),
+        "price": (quantity("dimensionless", "dimensionless", low=0.0), False),
+        "price_source": (text, False),
+        "co2": (quantity("dimensionless", "dimensionless", low=0.0), False),
+        "co2_source": (text, False),
+        "description": (text, False),
+        "source": (text, True),
+    }),
 }
 _PLURAL = {"material": "materials", "jacket": "jackets", "metal": "metals", "site": "sites",
-           "fitting": "fittings", "spec": "specs"}
+           "fitting": "fittings", "spec": "specs", "fluid": "fluids"}
+#: [fluid.NAME] keys a boiling liquid (one with latent_heat) or a boil-off payer must have
+_BOILING_KEYS = ("latent_heat", "boiling_point")
+_BOIL_OFF_KEYS = ("price", "price_source", "co2", "co2_source")
 #: The economic rules' section, and the subfolder of a rules folder that holds their files
 ECONOMICS = "economics"
 #: The work-order planning rules' section (access, asbestos, labour), layered as [economics]
@@ -272,11 +288,32 @@ def _build(section, name, entry, path, problems):
     if section == "material" and "k" in values and "max_temp" in values \
             and not math.isfinite(values["max_temp"]):
         problems.append(Problem("max_temp is not finite", file=str(path), column=f"{where}.max_temp"))
+    if section == "fluid":
+        _fluid_problems(values, entry, where, path, problems)
     if len(problems) > before:
         return None
     if design:
         values["design"] = design
     return cls(name=name, origin=str(path), **values)
+
+
+def _fluid_problems(values: dict, entry: dict, where: str, path: Path, problems: list) -> None:
+    """A boiling liquid needs its latent heat and boiling point; boil-off needs its price and
+    CO2, each with a source; a freezing point above the boiling point is a typo."""
+    need = []
+    if "latent_heat" in entry or values.get("heat_gain") == "boil-off":
+        need += [k for k in _BOILING_KEYS if k not in entry]
+    if values.get("heat_gain") == "boil-off":
+        need += [k for k in _BOIL_OFF_KEYS if k not in entry]
+    for key in need:
+        why = ("heat_gain = \"boil-off\"" if key in _BOIL_OFF_KEYS or "latent_heat" not in entry
+               else "a boiling liquid (latent_heat given)")
+        problems.append(Problem(f"missing key {key!r}: needed for {why}", file=str(path),
+                                column=where, expected=f"{key} = ..."))
+    if values.get("freezing_point", -math.inf) >= values.get("boiling_point", math.inf):
+        problems.append(Problem("freezing_point is not below boiling_point", file=str(path),
+                                column=f"{where}.freezing_point", value=entry["freezing_point"],
+                                expected="a freezing point below the boiling point"))
 
 
 def _design_cases(body, where, path, problems) -> dict:

@@ -72,6 +72,37 @@ class Fitting:
     origin: str = ""
 
 
+#: How a cold item's heat gain is paid for (``[fluid.NAME] heat_gain``).
+HEAT_GAIN_PAYERS = ("refrigeration", "boil-off", "none")
+
+
+@dataclass(frozen=True)
+class Fluid:
+    """What a line or vessel holds, and how the heat it gains is paid for.
+
+    A fluid with a ``latent_heat`` is a boiling liquid: it is held at its boiling point, and
+    the heat it gains boils it off (``boil_off [kg/h]``).
+    """
+
+    name: str
+    source: str
+    heat_gain: str = "refrigeration"        #: one of HEAT_GAIN_PAYERS
+    latent_heat: float = float("nan")       #: of vaporisation at boiling_point [J/kg]
+    cp: float = float("nan")                #: specific heat capacity [J/(kg K)]
+    freezing_point: float = float("nan")    #: [K]
+    boiling_point: float = float("nan")     #: at 1 atm (101.325 kPa) [K]
+    price: float = float("nan")             #: boil-off valued at, currency per kg
+    price_source: str = ""
+    co2: float = float("nan")               #: CO2 per mass boiled off [kg/kg]
+    co2_source: str = ""
+    description: str = ""
+    origin: str = ""
+
+    @property
+    def boiling_liquid(self) -> bool:
+        return self.latent_heat == self.latent_heat  # not NaN
+
+
 @dataclass(frozen=True)
 class Check:
     """One check as the rule files define it; ``params`` are validated by its kind."""
@@ -118,6 +149,7 @@ class Rules:
     fittings: dict = field(default_factory=dict)
     checks: dict = field(default_factory=dict)
     specs: dict = field(default_factory=dict)     #: service -> Spec
+    fluids: dict = field(default_factory=dict)    #: name -> Fluid
     thicknesses: tuple = ()                       #: standard insulation thicknesses [m]
     thicknesses_source: str = ""
     aliases: dict = field(default_factory=dict)   #: column -> list of alias headers

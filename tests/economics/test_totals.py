@@ -4,12 +4,13 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from audit.economics.totals import SUMMED, by_area, by_check, plant, top_repairs
+from audit.economics.totals import SPLIT, SUMMED, by_area, by_check, plant, top_repairs
 
 
 def per_row(n=25):
     rng = np.random.default_rng(7)
-    frame = pd.DataFrame({c: rng.uniform(1, 100, n) for c in SUMMED})
+    frame = pd.DataFrame({c: rng.uniform(1, 100, n) for c in SUMMED if c not in SPLIT})
+    frame["energy_bought"] = (["fuel", "electricity", "boil-off", "none", "fuel"] * n)[:n]
     frame["payback [yr]"] = rng.uniform(0.1, 30, n)
     frame["repair"] = "fit removable covers"
     frame.loc[3, ["annual_energy [MWh]", "payback [yr]"]] = np.nan     # a row without a result
@@ -33,6 +34,22 @@ def test_by_area_and_plant_sum_the_rows():
     total = plant(rows)
     assert total["annual_energy [MWh]"] == pytest.approx(np.nansum(rows["annual_energy [MWh]"]))
     assert total["items"] == 24 and total["items_to_repair"] == 24
+
+
+def test_heat_lost_and_heat_gained_are_summed_apart_never_netted():
+    rows, items = per_row(), table()
+    lost = (rows["energy_bought"] == "fuel").to_numpy()
+    total = plant(rows)
+    for side, mask in (("heat_lost", lost), ("heat_gained", ~lost)):
+        for what, column in (("energy", "annual_energy [MWh]"), ("cost", "annual_cost"),
+                             ("co2", "annual_co2 [t]")):
+            name = next(c for c in SPLIT if c.startswith(f"{what}_{side}"))
+            assert total[name] == pytest.approx(np.nansum(rows[column][mask]))
+    assert total["energy_heat_lost [MWh]"] + total["energy_heat_gained [MWh]"] == pytest.approx(
+        total["annual_energy [MWh]"])  # magnitudes add; a gain never cancels a loss
+    got = by_area(rows, items["area_code"]).set_index("area_code")
+    mask = (items["area_code"] == "U1").to_numpy() & ~lost
+    assert got.loc["U1", "cost_heat_gained"] == pytest.approx(rows["annual_cost"][mask].sum())
 
 
 def test_by_check_counts_an_item_under_each_of_its_checks():

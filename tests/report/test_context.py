@@ -51,5 +51,7 @@ def test_counts_add_up_to_the_findings_and_results(demo_audit, meta):
     for table in context["checks"]:
         shown = [ranks[r["severity"]] for r in table["rows"]]
         assert shown == sorted(shown, reverse=True)
-    heat = np.nansum(results.loc[results["status"] == "audited", "heat_loss [W]"]) / 1000
-    assert context["heat_loss_kW"] == fmt(heat, 4)
+    heat = results.loc[results["status"] == "audited", "heat_loss [W]"].to_numpy(float) / 1000
+    # Hot and cold are never netted: heat lost and heat gained are summed apart.
+    assert context["heat_lost_kW"] == fmt(np.nansum(heat[heat > 0]), 4)
+    assert context["heat_gained_kW"] == fmt(-np.nansum(heat[heat < 0]), 4)

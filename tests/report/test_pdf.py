@@ -65,7 +65,9 @@ def demo_outputs(demo_audit, tmp_path_factory):
     per_row = pd.DataFrame({"annual_energy [MWh]": made_up, "annual_fuel [MWh]": made_up * 1.25,
                             "annual_cost": made_up * 40.0, "annual_co2 [t]": made_up * 0.2,
                             "saving_if_repaired [MWh]": made_up / 2,
-                            "payback [yr]": np.where(audited, np.arange(n) % 5 + 0.3, np.nan)})
+                            "payback [yr]": np.where(audited, np.arange(n) % 5 + 0.3, np.nan),
+                            "energy_bought": np.where(audited, "fuel", ""),
+                            "boil_off [kg/h]": np.nan, "annual_boil_off [t]": np.nan})
     economics = SimpleNamespace(per_row=per_row, currency="EUR", totals=None, top_repairs=None,
                                 assumptions=["fuel price 40 EUR/MWh (test value)"])
     meta = {"tool": "lagaudit test", "run_at": "2026-01-01T00:00:00+00:00",
@@ -93,10 +95,13 @@ def test_pdf_totals_match_results_csv(demo_outputs):
     assert squeeze(f"{len(results)}registerrows") in text
     assert squeeze(f"{int(audited.sum())}itemsaudited") in text
     assert squeeze(f"{int((~audited).sum())}rowsrejected") in text
-    heat = results.loc[audited, "heat_loss [W]"].sum() / 1000
-    assert squeeze(f"{fmt(heat, 4)} kW") in text
+    heat = results.loc[audited, "heat_loss [W]"] / 1000
+    # Never netted: the heat lost and the heat gained are each shown.
+    assert squeeze(f"{fmt(heat[heat > 0].sum(), 4)} kW") in text
+    assert squeeze(f"{fmt(-heat[heat < 0].sum(), 4)} kW") in text
+    lost = results["energy_bought"] == "fuel"  # every made-up row is costed as fuel
     for column, unit in (("annual_energy [MWh]", "MWh"), ("annual_cost", "EUR"), ("annual_co2 [t]", "t")):
-        assert squeeze(f"{fmt(results[column].sum(), 4)} {unit}") in text, column
+        assert squeeze(f"{fmt(results.loc[lost, column].sum(), 4)} {unit}") in text, column
 
 
 def test_caution_and_sections_in_the_pdf(demo_outputs):
