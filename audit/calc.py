@@ -26,37 +26,22 @@ import pandas as pd
 
 from audit import methods
 from audit.errors import LagauditError
-from audit.io.readers import read_rows
+from audit import display_units
+from audit.io.readers import read_rows, reader_options
 from audit.problems import problems_of
 from audit.pipeline import audit_table
 from audit.rules import Rules, load_rules
 from audit.schema import BY_NAME, SCHEMA
 from audit.thermal import ZERO_CELSIUS, resolve_names
-from audit.units import ureg
 
 #: Flag -> register column, in the order of the one-row register: the schema's calc flags.
 FLAG_COLUMNS = tuple(c.name for c in SCHEMA if c.calc_flag)
 
-#: Display unit of each quantity kind: (SI, US customary), as pint units.
-DISPLAY_UNITS = {
-    "temperature": ("degC", "degF"),
-    "heat_rate_per_length": ("W/m", "Btu_it/hour/foot"),
-    "heat_rate": ("W", "Btu_it/hour"),
-    "heat_flux": ("W/m**2", "Btu_it/hour/foot**2"),
-    "thickness": ("mm", "inch"),
-    "length": ("m", "foot"),
-    "area": ("m**2", "foot**2"),
-    "speed": ("m/s", "mile/hour"),
-}
-#: Labels printed for the units above.
-UNIT_LABELS = {"degC": "degC", "degF": "degF", "W/m": "W/m", "Btu_it/hour/foot": "Btu/h/ft",
-               "W": "W", "Btu_it/hour": "Btu/h", "W/m**2": "W/m2",
-               "Btu_it/hour/foot**2": "Btu/h/ft2", "mm": "mm", "inch": "in", "m": "m",
-               "foot": "ft", "m**2": "m2", "foot**2": "ft2", "m/s": "m/s",
-               "mile/hour": "mph"}
-#: Finding units (audit/checks) that have a US counterpart: the kind of quantity they are.
-FINDING_KINDS = {"degC": "temperature", "W/m": "heat_rate_per_length", "W/m2": "heat_flux",
-                 "mm": "thickness"}
+#: Quantity kind -> its SI display unit, a key of the one conversion table
+#: (:data:`audit.display_units.US_UNITS`).
+DISPLAY_UNITS = {"temperature": "degC", "heat_rate_per_length": "W/m", "heat_rate": "W",
+                 "heat_flux": "W/m2", "thickness": "mm", "length": "m", "area": "m2",
+                 "speed": "m/s"}
 
 
 def convert(value, kind: str, units: str = "si"):
@@ -76,12 +61,10 @@ def convert(value, kind: str, units: str = "si"):
     (float or numpy.ndarray, str)
         The magnitude and the label of its unit.
     """
-    si, us = DISPLAY_UNITS[kind]
-    if units == "si":
-        return value, UNIT_LABELS[si]
-    if units != "us":
-        raise LagauditError(f"unknown unit system {units!r}", value=units, expected="si or us")
-    return ureg.Quantity(np.asarray(value, float), si).to(us).magnitude, UNIT_LABELS[us]
+    si = DISPLAY_UNITS[kind]
+    if display_units.check_system(units) == "si":
+        return value, si
+    return display_units.to_us(value, si), display_units.us_label(si, units)
 
 
 @dataclass
@@ -150,8 +133,9 @@ def add_calc_arguments(parser: argparse.ArgumentParser) -> None:
             what.add_argument(flag_of(column), dest=column, help=_flag_help(BY_NAME[column]))
     parser.add_argument("--rules", action="append", default=[], metavar="DIR",
                         help="layer this folder's *.toml over the shipped rules (repeatable)")
-    parser.add_argument("--units", choices=("si", "us"), default="si",
-                        help="print in SI (default) or US customary units")
+    parser.add_argument("--units", choices=display_units.SYSTEMS,
+                        help="print in SI or US customary units (default: the rules' "
+                             "[defaults] units, else si)")
     parser.add_argument("--surface-model", default="correlations", metavar="NAME",
                         help="outer-surface model: correlations (default) or iso12241-simplified")
     parser.add_argument("--explain", action="store_true",
@@ -219,7 +203,7 @@ def _cell(value) -> str:
 def _read_one(cells: dict[str, str], rules: Rules) -> pd.DataFrame:
     """The cells as a one-row register, read by the register reader (one code path)."""
     return read_rows(["tag", *cells], [["calc", *cells.values()]], name="calc",
-                     aliases=rules.aliases or None)
+                     **reader_options(rules))
 
 
 def _as_flags(found: pd.DataFrame) -> str:
@@ -283,7 +267,8 @@ def format_calc(result: CalcResult, units: str = "si") -> str:
     width = max(len(r[0]) for r in rows)
     lines += [f"  {label:<{width}}  {_number(v):>10}  {u}" for label, v, u in rows]
     lines.append("")
-    notes = [str(text) for text in (item["warnings"], state["engine_warnings"]) if text]
+    words = display_units.text if units == "us" else str
+    notes = [words(str(text)) for text in (item["warnings"], state["engine_warnings"]) if text]
     if notes:
         lines.append("Notes")
         lines += [textwrap.fill(text, 96, initial_indent="  ", subsequent_indent="  ")
@@ -328,18 +313,20 @@ def _findings_lines(findings: pd.DataFrame, units: str) -> list[str]:
         return ["Checks: none failed."]
     lines = [f"Checks failed ({len(findings)})"]
     for f in findings.to_dict("records"):
-        kind = FINDING_KINDS.get(f["unit"])
         value, limit, unit = f["value"], f["limit"], f["unit"]
-        if kind is not None:
-            (value, unit), (limit, _) = convert(value, kind, units), convert(limit, kind, units)
+        if unit in display_units.US_UNITS:
+            if units == "us":
+                value, limit = display_units.to_us([value, limit], unit)
+                unit = display_units.us_label(unit, units)
             value, limit = _number(value), _number(limit)
         else:  # counts, scores, shares: as the check gave them
             value, limit = f"{value:.3g}", f"{limit:.3g}"
         air, air_unit = convert(f["air_temp [degC]"], "temperature", units)
+        words = display_units.text if units == "us" else str
         lines.append(f"  {f['check']} [{f['severity']}]: {value} {unit} against a limit "
                      f"of {limit} {unit} (site {f['site']}, air {air:.0f} {air_unit})")
-        lines.append(f"      {f['message']}")
-        lines.append(f"      remedy: {f['remedy']}")
+        lines.append(f"      {words(f['message'])}")
+        lines.append(f"      remedy: {words(f['remedy'])}")
     return lines
 
 
@@ -354,7 +341,7 @@ def run_calc(args: argparse.Namespace) -> int:
     """``lagaudit calc``: print the what-if; a :class:`LagauditError` propagates (exit 2)."""
     flags = {column: getattr(args, column, None) for column in FLAG_COLUMNS}
     result = calc_item(rules_dirs=args.rules, surface_model=args.surface_model, **flags)
-    print(format_calc(result, args.units))
+    print(format_calc(result, args.units or result.rules.defaults.get("units", "si")))
     if getattr(args, "explain", False):
         print()
         print(methods.text())

@@ -13,10 +13,12 @@ from audit import __version__
 from audit.calc import add_calc_arguments, run_calc
 from audit.cautions import CAUTION
 from audit.digests import sha256_file
+from audit import display_units
+from audit.display_units import SYSTEMS
 from audit.errors import LagauditError
 from audit.history import History, describe_audits, export_audits
 from audit.history.run import HISTORY_OUTPUTS, compare_audit, open_history, record_run
-from audit.io.readers import read_register
+from audit.io.readers import read_register, reader_options
 from audit.io.readers.validate import summarise
 from audit.io.writers.place import OutputFolder
 from audit.outputs import FORMATS, MAX_WORKORDER_PAGES, check_outputs, write_outputs
@@ -172,6 +174,10 @@ def _audit_options(parser):
     parser.add_argument("--plant", metavar="NAME",
                         help="the plant's name in the history, with --history (default: the "
                              "rules' [defaults] plant)")
+    parser.add_argument("--units", choices=SYSTEMS, metavar="SYSTEM",
+                        help="units of every output: si (degC, mm, m, W, W/m, W/m2, kg/h) or us "
+                             "(degF, in, ft, Btu/h, Btu/h/ft, Btu/(h ft2), lb/h); default: the "
+                             "rules' [defaults] units, else si")
     talk = parser.add_mutually_exclusive_group()
     talk.add_argument("-q", "--quiet", action="store_true",
                       help="print nothing but errors (the exit code still tells)")
@@ -245,8 +251,9 @@ def _audit_and_write(registers, args) -> int:
             audit = compare_audit(history, audit, plant=args.plant,
                                   fallback=DEMO_PLANT if args.run is _demo else None)
         bar.advance()
+        units = args.units or audit.rules.defaults.get("units", "si")
         written = write_outputs(audit, folder, formats, _meta(audit, registers, args), bar.advance,
-                                workorder_pages=args.workorder_pages)
+                                workorder_pages=args.workorder_pages, units=units)
         if history is not None:
             closed, recorded = record_run(history, audit, registers, folder,
                                           surface_model=args.surface_model)
@@ -262,7 +269,7 @@ def _audit_and_write(registers, args) -> int:
     if audited < len(results):
         say("See the 'reason' column for each rejected row, or run 'lagaudit validate'.")
     if args.verbose:
-        _details(audit)
+        _details(audit, units)
     say(CAUTION)
     if args.fail_on and len(findings):
         threshold = SEVERITIES.index(args.fail_on)
@@ -271,8 +278,9 @@ def _audit_and_write(registers, args) -> int:
     return 0
 
 
-def _details(audit) -> None:
-    """What --verbose adds: the rules read, the findings by check, the warnings."""
+def _details(audit, units: str = "si") -> None:
+    """What --verbose adds: the rules read, the findings by check, the warnings (their
+    quantities in ``units``)."""
     print("Rule files read:")
     for path in audit.rules.files:
         print(printable(f"  {path}"))
@@ -281,7 +289,8 @@ def _details(audit) -> None:
         counts = audit.findings.groupby(["check", "severity"]).size()
         for (check, severity), count in counts.items():
             print(printable(f"  {check:<26} {severity:<9} {count}"))
-    warnings = audit.results["warnings"].astype(str)
+    warnings = display_units.texts(audit.results["warnings"]) if units == "us" else \
+        audit.results["warnings"].astype(str)
     warned = warnings[warnings != ""]
     print(f"Rows with warnings: {len(warned)}")
     for text, count in warned.str.split("; ").explode().value_counts().head(15).items():
@@ -317,7 +326,7 @@ def _history(args) -> int:
 
 def _validate(args) -> int:
     rules = load_rules(args.rules)
-    table = read_register(args.registers, sheets=args.sheet, aliases=rules.aliases or None)
+    table = read_register(args.registers, sheets=args.sheet, **reader_options(rules))
     table = resolve_names(table, rules)
     print(printable(summarise(table)))
     return 0

@@ -17,35 +17,58 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
+from audit import display_units
 from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
 from audit.io.writers.place import OutputFolder
 from audit.io.writers.safety import as_number
 from audit.progress import printable
-from audit.results import carried_columns, findings_out
+from audit.results import carried_columns, findings_out, significant
 from audit.survey import survey_out
 
 
-def _csv(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
-    jobs = [(audit.results, "results.csv"), (findings_out(audit.findings), "findings.csv")]
+def shown(audit, table: pd.DataFrame, units: str = "si") -> pd.DataFrame:
+    """One of the audit's tables as written, in the run's unit system (``units``); the
+    register's carried-through columns are left as the register wrote them."""
+    return display_units.frame(table, units, keep=carried_columns(audit.results))
+
+
+def _findings(audit, units: str) -> pd.DataFrame:
+    """The findings as written (:func:`~audit.results.findings_out`), in ``units``; the
+    converted figures rounded again, as the SI ones are."""
+    out = shown(audit, findings_out(audit.findings), units)
+    if units != "si":
+        for column in ("value", "limit", display_units.named("remedy_thickness", "mm", units)):
+            out[column] = significant(out[column].to_numpy(float))
+    return out
+
+
+def _csv(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
+         **options) -> list[Path]:
+    jobs = [(shown(audit, audit.results, units), "results.csv"),
+            (_findings(audit, units), "findings.csv")]
     if getattr(audit, "survey", None) is not None:
-        jobs.append((survey_out(audit.survey), "survey.csv"))
+        jobs.append((display_units.frame(survey_out(audit.survey), units), "survey.csv"))
     # Two threads: much of the writing is numpy formatting and file output, which let go of
     # the interpreter lock, so the two files overlap.
     with ThreadPoolExecutor(2) as pool:
         return list(pool.map(lambda job: placed(folder, job[1], write_csv, job[0]), jobs))
 
 
-def _json(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
-    return [placed(folder, "results.json", write_json, audit.results, meta=meta)]
+def _json(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
+          **options) -> list[Path]:
+    return [placed(folder, "results.json", write_json, shown(audit, audit.results, units),
+                   meta={**meta, "units": units})]
 
 
-def _xlsx(audit, folder: OutputFolder, meta: dict, asked, **options) -> list[Path]:
-    results, economics = audit.results, audit.economics
+def _xlsx(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
+          **options) -> list[Path]:
+    results, economics = shown(audit, audit.results, units), audit.economics
     rejected = results.loc[results["status"] == "rejected", ["tag", "source", "reason"]]
-    sheets = {"results": _register_numbers(results), "findings": findings_out(audit.findings),
+    sheets = {"results": _register_numbers(results), "findings": _findings(audit, units),
               "rejected": rejected, "summary": summary_sheet(results, audit.findings),
-              "by area": economics.by_area, "by check": economics.by_check,
-              "best paybacks": economics.top_repairs,
+              "by area": shown(audit, economics.by_area, units),
+              "by check": shown(audit, economics.by_check, units),
+              "best paybacks": shown(audit, economics.top_repairs, units),
               "assumptions": pd.DataFrame(economics.assumptions)}
     notes = []
     written = [placed(folder, "results.xlsx", write_xlsx, sheets, notes=notes)]
@@ -68,14 +91,14 @@ def _register_numbers(results: pd.DataFrame) -> pd.DataFrame:
 
 
 def _reports(audit, folder: OutputFolder, meta: dict, asked, *, workorder_pages: int | None = None,
-             **options) -> list[Path]:
+             units: str = "si", **options) -> list[Path]:
     from audit.report import write_reports  # weasyprint loads in ~0.7 s: only when asked
 
     reports = [f for f in asked if f in ("html", "pdf")]
     # The work-order packs are PDFs too: they come with the PDF report.
     return write_reports(audit, folder.root, meta=meta, economics=audit.economics,
                          formats=reports + (["workorders"] if "pdf" in reports else []),
-                         max_pages=workorder_pages)
+                         max_pages=workorder_pages, units=units)
 
 
 #: Most item pages in the work-order PDF packs, the most severe first (``--workorder-pages``

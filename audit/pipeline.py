@@ -16,7 +16,7 @@ from audit.checks.base import CheckContext
 from audit.checks.remedy import fill_remedies
 from audit.economics import Economics, EconomicRules, compute_economics
 from audit.economics import economic_rules as economic_rules_of
-from audit.io.readers import read_register
+from audit.io.readers import read_register, reader_options
 from audit.io.readers.survey import read_survey
 from audit.results import build_results
 from audit.rules import Rules, load_rules
@@ -51,7 +51,7 @@ def audit_register(registers, *, rules_dirs=(), sheets=None, surface_model="corr
     rules = load_rules(rules_dirs) if rules is None else rules
     params = validate_checks(rules)
     economics = economic_rules_of(rules)
-    table = resolve_names(read_register(registers, sheets=sheets, aliases=rules.aliases or None), rules)
+    table = resolve_names(read_register(registers, sheets=sheets, **reader_options(rules)), rules)
     readings = read_survey(survey) if survey else None
     return audit_table(table, rules, surface_model=surface_model, params=params,
                        economic_rules=economics, fuel_price=fuel_price, hours=hours,

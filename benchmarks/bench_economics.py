@@ -36,7 +36,7 @@ def main() -> None:
         print(f"register: {args.items} rows")
         rules = load_rules()
         econ = timed("load economic rules", load_economic_rules)
-        table = resolve_names(read_register(register, aliases=rules.aliases), rules)
+        table = resolve_names(read_register(register, **reader_options(rules)), rules)
         context = CheckContext(table, rules)
         findings = timed("checks (all scenarios)", run_checks, context, validate_checks(rules))
         got = timed("compute_economics", compute_economics, context, findings, rules, economic_rules=econ)

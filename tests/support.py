@@ -6,7 +6,7 @@ import pytest
 
 from audit.checks.base import validated_params
 from audit.errors import RegisterError, RuleError
-from audit.io.readers import read_register
+from audit.io.readers import read_register, reader_options
 from audit.thermal import resolve_names
 
 
@@ -14,7 +14,7 @@ def item_table(tmp_path, text, rules, *, name="reg.csv"):
     """The resolved item table of a register given as CSV text."""
     path = tmp_path / name
     path.write_text(text, encoding="utf-8")
-    return resolve_names(read_register(path, aliases=rules.aliases), rules)
+    return resolve_names(read_register(path, **reader_options(rules)), rules)
 
 
 def refused_register(path, pattern, **kwargs):

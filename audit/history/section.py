@@ -6,14 +6,17 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
+from audit import display_units
 from audit.report import charts
 from audit.rules import SEVERITIES
 
 _RANK = {name: rank for rank, name in enumerate(SEVERITIES)}
 
 
-def since_last_section(since, audit, *, max_rows: int) -> dict:
-    """What the report template shows for ``since`` (a :class:`~audit.history.since.SinceLast`)."""
+def since_last_section(since, audit, *, max_rows: int, units: str = "si") -> dict:
+    """What the report template shows for ``since`` (a :class:`~audit.history.since.SinceLast`),
+    numbers in ``units`` (``si`` or ``us``)."""
+    words = display_units.text if units == "us" else str
     findings = since.findings
     standing = findings[findings["since_last"] != "new"]
     order = np.lexsort((standing["tag"].astype(str).to_numpy(),
@@ -29,14 +32,15 @@ def since_last_section(since, audit, *, max_rows: int) -> dict:
         "standing_total": len(standing), "standing_truncated": len(standing) > max_rows,
         "oldest": [{"tag": r["tag"], "check": r["check"], "severity": r["severity"],
                     "first_reported": r["first_reported"], "since_last": r["since_last"],
-                    "change": r["change_since_last"]} for r in oldest.to_dict(orient="records")],
+                    "change": words(r["change_since_last"])}
+                   for r in oldest.to_dict(orient="records")],
         "closed_total": len(since.closed), "closed_truncated": len(since.closed) > max_rows,
         "closed": closed.to_dict(orient="records"),
-        "trend": _trend(since, audit),
+        "trend": _trend(since, audit, units),
     }
 
 
-def _trend(since, audit):
+def _trend(since, audit, units: str = "si"):
     """Every recorded audit of the plant and this one, oldest first."""
     audits, by_check = since.audits, since.by_check
     audited = (audit.results["status"] == "audited").to_numpy()
@@ -49,4 +53,7 @@ def _trend(since, audit):
                      np.nansum(audit.results["heat_loss [W]"].to_numpy(float)[audited])) / 1000.0
     cost = np.append(audits["annual_cost"].to_numpy(float),
                      np.nansum(audit.economics.per_row["annual_cost"].to_numpy(float)))
-    return charts.audit_trend(labels, heat, cost, counts, str(audit.economics.currency))
+    if units == "us":  # kW -> kBtu/h: the same factor as W -> Btu/h
+        heat = display_units.to_us(heat, "W")
+    return charts.audit_trend(labels, heat, cost, counts, str(audit.economics.currency),
+                              power="kW" if units == "si" else "kBtu/h")

@@ -10,6 +10,7 @@ a :class:`~audit.history.target.HistoryError` whose text has the password taken 
 from __future__ import annotations
 
 import sqlite3
+import time
 from contextlib import contextmanager
 from datetime import date, datetime, timezone
 from pathlib import Path
@@ -183,6 +184,24 @@ class History:
             tool=f"lagaudit {__version__}"))
 
 
+def _write_ahead_log(cursor) -> None:
+    """WAL mode.  Switching a new database into it needs the file to itself, and SQLite may
+    refuse that at once (busy, without its busy handler) while another connection opens the
+    same new file: seen once with eight writers on a loaded machine.  So the switch is
+    retried, within the busy timeout."""
+    deadline = time.monotonic() + BUSY_TIMEOUT_S
+    while True:
+        try:
+            cursor.execute("PRAGMA journal_mode = WAL")
+            return
+        except sqlite3.OperationalError as exc:
+            busy = getattr(exc, "sqlite_errorcode", None) in (sqlite3.SQLITE_BUSY,
+                                                              sqlite3.SQLITE_LOCKED)
+            if not busy or time.monotonic() > deadline:
+                raise
+            time.sleep(0.05)
+
+
 def _engine(target: Target):
     if not target.is_sqlite:
         return create_engine(target.url, connect_args={"connect_timeout": 10,
@@ -194,7 +213,7 @@ def _engine(target: Target):
         dbapi_connection.isolation_level = None  # SQLAlchemy's BEGIN below, not the driver's
         cursor = dbapi_connection.cursor()
         cursor.execute(f"PRAGMA busy_timeout = {BUSY_TIMEOUT_S * 1000}")
-        cursor.execute("PRAGMA journal_mode = WAL")
+        _write_ahead_log(cursor)
         cursor.execute("PRAGMA foreign_keys = ON")
         cursor.close()
 

@@ -21,7 +21,8 @@ REPORT_FORMATS = ("html", "pdf", "workorders")
 
 
 def write_reports(audit, out_dir, *, meta: dict, formats, economics=None,
-                  max_rows: int = MAX_TABLE_ROWS, max_pages: int | None = None) -> list[Path]:
+                  max_rows: int = MAX_TABLE_ROWS, max_pages: int | None = None,
+                  units: str = "si") -> list[Path]:
     """Write the reports asked for in ``formats`` into ``out_dir``; the paths written.
 
     ``meta``: ``tool``, ``run_at``, ``registers`` ([{file, sha256}]), ``surface_model`` and
@@ -29,7 +30,8 @@ def write_reports(audit, out_dir, *, meta: dict, formats, economics=None,
     the economics object (``per_row``, ``currency``, ``assumptions``, ...) or None, in which
     case the energy, cost and CO2 sections are left out.  ``max_pages``: the work-order packs'
     cap on item pages (default ``MAX_WORKORDER_PAGES``), stated on the report's cover when it
-    leaves orders off.  Each file is written whole to a temporary name, then renamed.
+    leaves orders off.  ``units``: ``si`` or ``us``, for every number, label and chart axis.
+    Each file is written whole to a temporary name, then renamed.
     """
     asked = {f.strip().lower() for f in formats}
     folder = OutputFolder(out_dir)
@@ -39,7 +41,7 @@ def write_reports(audit, out_dir, *, meta: dict, formats, economics=None,
     if asked & {"html", "pdf"}:
         html = render("report.html", build_context(
             audit, meta=meta, caution=CAUTION, economics=economics, max_rows=max_rows,
-            packs=plan.summary() if plan is not None else None))
+            packs=plan.summary() if plan is not None else None, units=units))
         if "html" in asked:
             with folder.writing("report.html") as temporary:
                 temporary.write_text(html, encoding="utf-8")
@@ -49,5 +51,6 @@ def write_reports(audit, out_dir, *, meta: dict, formats, economics=None,
                 write_pdf(html, temporary)
             written.append(folder.root / "report.pdf")
     if plan is not None:
-        written += write_workorders(audit, folder.root, caution=CAUTION, meta=meta, plan=plan)
+        written += write_workorders(audit, folder.root, caution=CAUTION, meta=meta, plan=plan,
+                                    units=units)
     return written

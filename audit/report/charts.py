@@ -65,9 +65,9 @@ def cost_pareto(tags, costs, currency: str, top: int = MAX_BARS) -> Markup | Non
                 f"Pareto of annual cost: top {len(shown)} of {positive.size} items")
 
 
-def surface_against_limit(points, top: int = MAX_BARS) -> Markup | None:
+def surface_against_limit(points, unit: str = "°C", top: int = MAX_BARS) -> Markup | None:
     """Surface temperature (bar) of each burn-risk finding against its limit (tick), worst
-    first.  ``points``: (tag, surface temperature [degC], limit [degC])."""
+    first.  ``points``: (tag, surface temperature, limit), both in ``unit`` (°C or °F)."""
     points = [p for p in points if np.isfinite(p[1]) and np.isfinite(p[2])][:top]
     if not points:
         return None
@@ -87,13 +87,13 @@ def surface_against_limit(points, top: int = MAX_BARS) -> Markup | None:
         parts.append(f'<line x1="{xl:.1f}" y1="{y}" x2="{xl:.1f}" y2="{y + ROW}" stroke="{INK}" '
                      f'stroke-width="2"/>')
         parts.append(f'<text x="{xv + 4:.1f}" y="{y + ROW - 4}" font-size="10" fill="{INK}">'
-                     f'{value:.0f} °C</text>')
+                     f'{value:.0f} {unit}</text>')
     height = TOP + len(points) * ROW + 8
     ticks = _ticks(low, high)
     axis = "".join(f'<line x1="{LABEL + (t - low) * scale:.1f}" y1="{TOP - 4}" '
                    f'x2="{LABEL + (t - low) * scale:.1f}" y2="{height - 8}" stroke="{GRID}"/>'
                    f'<text x="{LABEL + (t - low) * scale:.1f}" y="{TOP - 8}" font-size="9" '
-                   f'text-anchor="middle" fill="{INK}">{t:g} °C</text>' for t in ticks)
+                   f'text-anchor="middle" fill="{INK}">{t:g} {unit}</text>' for t in ticks)
     head = (f'<text x="0" y="12" font-size="11" font-weight="bold" fill="{INK}">Surface temperature '
             f'(bar) against the burn limit (black tick), hottest over the limit first</text>')
     return _svg(height, head + axis + "".join(parts),
@@ -176,16 +176,17 @@ CHECK_COLOURS = ("#1f4e79", "#c2410c", "#d9a21b", "#5b8c5a", "#7b9ebf", "#8e5572
 
 
 def audit_trend(labels, heat_loss_kw, cost, by_check: pd.DataFrame, currency: str,
-                top: int = MAX_BARS) -> Markup | None:
-    """One row per audit (oldest first, the latest ``top``): plant heat loss, annual cost, and
-    the findings stacked by check.  ``by_check``: one row per audit, one column per check."""
+                top: int = MAX_BARS, power: str = "kW") -> Markup | None:
+    """One row per audit (oldest first, the latest ``top``): plant heat loss (in ``power``:
+    kW, or kBtu/h), annual cost, and the findings stacked by check.  ``by_check``: one row per
+    audit, one column per check."""
     if len(labels) < 1:
         return None
     labels, heat_loss_kw, cost = list(labels)[-top:], np.asarray(heat_loss_kw, float)[-top:], \
         np.asarray(cost, float)[-top:]
     by_check = by_check.iloc[-top:]
     panel = (WIDTH - LABEL - 20) / 3
-    columns = [(LABEL, heat_loss_kw, "plant heat loss [kW]"),
+    columns = [(LABEL, heat_loss_kw, f"plant heat loss [{power}]"),
                (LABEL + panel, cost, f"annual cost [{currency}]")]
     parts = []
     for x0, values, title in columns:

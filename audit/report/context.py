@@ -7,6 +7,7 @@ rows (by severity, then by distance from the limit) and says where the rest are.
 
 from __future__ import annotations
 
+from dataclasses import replace
 from pathlib import Path
 
 import numpy as np
@@ -14,9 +15,11 @@ import pandas as pd
 
 from markupsafe import Markup
 
-from audit import methods
+from audit import display_units, methods
+from audit.display_units import named
 from audit.digests import rules_digest, sha256_file
 from audit.economics.totals import SPLIT, split_sides
+from audit.results import carried_columns
 from audit.schema import ITEM_COLUMNS
 from audit.report import charts
 from audit.rules import SEVERITIES
@@ -27,8 +30,15 @@ MAX_TABLE_ROWS = 100
 #: Worst first, for sorting.
 SEVERITY_RANK = {name: rank for rank, name in enumerate(SEVERITIES)}
 
-ECONOMIC_COLUMNS = ("annual_energy [MWh]", "annual_fuel [MWh]", "annual_cost", "annual_co2 [t]",
-                    "saving_if_repaired [MWh]", "boil_off [kg/h]", "annual_boil_off [t]")
+#: The plant totals: (name, SI unit of its column or None)
+ECONOMIC_COLUMNS = (("annual_energy", "MWh"), ("annual_fuel", "MWh"), ("annual_cost", None),
+                    ("annual_co2", "t"), ("saving_if_repaired", "MWh"), ("boil_off", "kg/h"),
+                    ("annual_boil_off", "t"))
+#: Unit labels the report's text shows, per unit system
+LABELS = {"si": {"power": "kW", "energy": "MWh", "co2": "t", "heat": "W", "temp": "°C",
+                 "mass_flow": "kg/h"},
+          "us": {"power": "kBtu/h", "energy": "MMBtu", "co2": "ton", "heat": "Btu/h",
+                 "temp": "°F", "mass_flow": "lb/h"}}
 
 
 def fmt(value, digits: int = 3) -> str:
@@ -73,13 +83,20 @@ def worst_first(findings: pd.DataFrame) -> pd.DataFrame:
 
 
 def build_context(audit, *, meta: dict, caution: str, economics=None,
-                  max_rows: int = MAX_TABLE_ROWS, packs: dict | None = None) -> dict:
+                  max_rows: int = MAX_TABLE_ROWS, packs: dict | None = None,
+                  units: str = "si") -> dict:
     """Everything the report template shows, as plain values and text.
 
     ``packs``: the work-order packs' cap (``PackPlan.summary()``) when they are written with
     the report, for the cover to say how many orders the packs leave off, by area.
+    ``units``: ``si`` or ``us``; the audit's tables are converted here, at the edge
+    (:mod:`audit.display_units`), and every number and label follows.
     """
-    results, findings, table = audit.results, audit.findings, audit.table
+    table = audit.table
+    carried = carried_columns(audit.results)
+    results = display_units.frame(audit.results, units, keep=carried)
+    findings = display_units.frame(audit.findings, units)
+    si_economics, economics = economics, shown_economics(economics, units)
     area = table["area_code"].fillna("").astype(str).to_numpy(object)
     audited = (results["status"] == "audited").to_numpy()
     findings = findings.assign(area_code=area[findings["row"].to_numpy(int)] if len(findings) else "")
@@ -95,45 +112,50 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
                    "rejected": int((~audited).sum()), "findings": len(findings),
                    "items_with_findings": int(findings["row"].nunique()) if len(findings) else 0},
         # Heat lost and heat gained are never netted: each is summed on its own.
-        "heat_lost_kW": fmt(_summed(results["heat_loss [W]"], audited, 1) / 1000.0, 4),
-        "heat_gained_kW": fmt(_summed(results["heat_loss [W]"], audited, -1) / 1000.0, 4),
+        "heat_lost_kW": fmt(_summed(results[named("heat_loss", "W", units)], audited, 1)
+                            / 1000.0, 4),
+        "heat_gained_kW": fmt(_summed(results[named("heat_loss", "W", units)], audited, -1)
+                              / 1000.0, 4),
+        "u": LABELS[units],
         "by_check": _by_check(findings, severities),
-        "by_area": _by_area(area, audited, findings, economics)[:max_rows],
+        "by_area": _by_area(area, audited, findings, economics, units)[:max_rows],
         "areas": len(set(area)),
         "checks": _check_tables(audit, findings, max_rows),
         "rejected": _rejected(results, max_rows),
-        "assumptions": _assumptions(audit, meta, economics),
+        "assumptions": [display_units.text(line) if units == "us" else line
+                        for line in _assumptions(audit, meta, economics)],
         "cover_warnings": list(getattr(economics, "warnings", None) or []),
-        "economics": _economics(audit, area, economics, max_rows),
+        "economics": _economics(audit, area, economics, max_rows, units, si_economics),
         "methods": [{name: Markup(methods.to_html(value)) for name, value in m._asdict().items()}
                     for m in methods.METHODS],
         "method_notes": [Markup(methods.to_html(note)) for note in methods.NOTES],
-        "since_last": _since_last(audit, max_rows),
+        "since_last": _since_last(audit, max_rows, units),
         "packs": packs,
     }
     context["charts"] = {
         "pareto": charts.cost_pareto(results["tag"].to_numpy(object),
                                      economics.per_row["annual_cost"].to_numpy(float),
                                      economics.currency) if economics is not None else None,
-        "surface": charts.surface_against_limit(_touch_points(findings)),
+        "surface": charts.surface_against_limit(_touch_points(findings), LABELS[units]["temp"]),
         "areas": charts.findings_by_area(_area_severity_counts(findings), severities),
     }
     return context
 
 
-def _summed(heat_loss_w: pd.Series, audited: np.ndarray, sign: int) -> float:
-    """Sum of the heat lost (``sign`` 1) or the magnitude of the heat gained (-1) [W]."""
-    values = sign * heat_loss_w.to_numpy(float)[audited]
+def _summed(heat_loss: pd.Series, audited: np.ndarray, sign: int) -> float:
+    """Sum of the heat lost (``sign`` 1) or the magnitude of the heat gained (-1), in the
+    column's own unit."""
+    values = sign * heat_loss.to_numpy(float)[audited]
     return float(np.nansum(np.where(values > 0, values, 0.0)))
 
 
-def _since_last(audit, max_rows: int) -> dict | None:
+def _since_last(audit, max_rows: int, units: str = "si") -> dict | None:
     """The "Since the last audit" section, when the audit was compared with its history."""
     if getattr(audit, "history", None) is None:
         return None
     from audit.history.section import since_last_section
 
-    return since_last_section(audit.history, audit, max_rows=max_rows)
+    return since_last_section(audit.history, audit, max_rows=max_rows, units=units)
 
 
 def _meta(audit, meta: dict) -> dict:
@@ -163,7 +185,16 @@ def _by_check(findings: pd.DataFrame, severities: list[str]) -> list[dict]:
     return [rows[i] for i in order]
 
 
-def _by_area(area: np.ndarray, audited: np.ndarray, findings: pd.DataFrame, economics) -> list[dict]:
+def shown_economics(economics, units: str):
+    """The economics' tables in ``units`` (the object itself in SI, or when there is none)."""
+    if economics is None or units == "si":
+        return economics
+    return replace(economics, **{name: display_units.frame(getattr(economics, name), units)
+                                 for name in ("per_row", "by_area", "by_check", "top_repairs")})
+
+
+def _by_area(area: np.ndarray, audited: np.ndarray, findings: pd.DataFrame, economics,
+             units: str = "si") -> list[dict]:
     frame = pd.DataFrame({"area": area, "audited": audited})
     items = frame.groupby("area").agg(items=("audited", "size"), audited=("audited", "sum"))
     if len(findings):
@@ -175,7 +206,8 @@ def _by_area(area: np.ndarray, audited: np.ndarray, findings: pd.DataFrame, econ
     else:
         items = items.assign(findings=0, with_findings=0, worst=np.nan)
     if economics is not None:
-        money = economics.per_row[["annual_cost", "annual_energy [MWh]", "annual_co2 [t]"]].copy()
+        energy, co2 = named("annual_energy", "MWh", units), named("annual_co2", "t", units)
+        money = economics.per_row[["annual_cost", energy, co2]].copy()
         money["area"] = area
         items = items.join(money.groupby("area").sum(min_count=1), how="left")
     items = items.sort_values(["findings", "items"], ascending=False, na_position="last")
@@ -187,8 +219,7 @@ def _by_area(area: np.ndarray, audited: np.ndarray, findings: pd.DataFrame, econ
                "with_findings": int(np.nan_to_num(r.get("with_findings", 0))),
                "worst": SEVERITIES[int(rank)] if pd.notna(rank) else ""}
         if economics is not None:
-            row.update(cost=fmt(r["annual_cost"]), energy=fmt(r["annual_energy [MWh]"]),
-                       co2=fmt(r["annual_co2 [t]"]))
+            row.update(cost=fmt(r["annual_cost"]), energy=fmt(r[energy]), co2=fmt(r[co2]))
         rows.append(row)
     return rows
 
@@ -220,9 +251,13 @@ def _check_tables(audit, findings: pd.DataFrame, max_rows: int) -> list[dict]:
 
 
 def conditions_text(finding: dict) -> str:
-    """The scenario a finding was evaluated under, in words."""
-    return (f"{finding['site']}: air {fmt(finding['air_temp [degC]'])} °C, "
-            f"wind {fmt(finding['wind [m/s]'])} m/s, RH {fmt(finding['rh [%]'])} %")
+    """The scenario a finding was evaluated under, in words, in the units of its columns."""
+    air = next(k for k in finding if str(k).startswith("air_temp ["))
+    wind = next(k for k in finding if str(k).startswith("wind ["))
+    symbol = {"degC": "°C", "degF": "°F"}
+    return (f"{finding['site']}: air {fmt(finding[air])} {symbol[display_units.header(air)[1]]}, "
+            f"wind {fmt(finding[wind])} {display_units.header(wind)[1]}, "
+            f"RH {fmt(finding['rh [%]'])} %")
 
 
 def _rejected(results: pd.DataFrame, max_rows: int) -> dict:
@@ -263,21 +298,28 @@ def _assumption(item) -> str:
     return str(item)
 
 
-def _economics(audit, area: np.ndarray, economics, max_rows: int) -> dict | None:
+def _economics(audit, area: np.ndarray, economics, max_rows: int, units: str = "si",
+               si_economics=None) -> dict | None:
     """Plant totals summed from the per-item columns (the same numbers as results.csv) and the
-    repairs with the best payback."""
+    repairs with the best payback; ``economics`` in ``units``, ``si_economics`` as computed."""
     if economics is None:
         return None
     per_row = economics.per_row
-    totals = {c: fmt(np.nansum(per_row[c].to_numpy(float)), 4) for c in ECONOMIC_COLUMNS}
-    sided = split_sides(per_row)
-    totals.update({c: fmt(np.nansum(sided[c].to_numpy(float)), 4) for c in SPLIT})
+    si_per_row = (si_economics or economics).per_row
+    totals = {name: fmt(np.nansum(per_row[named(name, unit, units) if unit else name]
+                                  .to_numpy(float)), 4) for name, unit in ECONOMIC_COLUMNS}
+    # Heat lost and heat gained apart, each with its energy, money and CO2 (never netted):
+    # split on the SI table, then shown in ``units`` like every other column.
+    sided = display_units.frame(split_sides(si_per_row)[list(SPLIT)], units)
+    totals.update({display_units.header(c)[0]: fmt(np.nansum(sided[c].to_numpy(float)), 4)
+                   for c in sided.columns})
+    saving = named("saving_if_repaired", "MWh", units)
     ranking = getattr(economics, "top_repairs", None)
     if isinstance(ranking, pd.DataFrame) and {"tag", "payback [yr]"} <= set(ranking.columns):
         top = [{"tag": r["tag"], "area": r.get("area_code", "") or "(none)",
                 "repair": r.get("repair", ""), "repair_cost": fmt(r.get("repair_cost")),
                 "annual_saving": fmt(r.get("annual_saving")),
-                "saving": fmt(r.get("saving_if_repaired [MWh]")), "payback": fmt(r["payback [yr]"], 2)}
+                "saving": fmt(r.get(saving)), "payback": fmt(r["payback [yr]"], 2)}
                for r in ranking.head(max_rows).to_dict(orient="records")]
     else:  # no ranking given: the 20 shortest paybacks among the items
         payback = per_row["payback [yr]"].to_numpy(float)
@@ -285,7 +327,7 @@ def _economics(audit, area: np.ndarray, economics, max_rows: int) -> dict | None
         ranked = ranked[np.argsort(payback[ranked], kind="stable")][:min(20, max_rows)]
         tags = audit.results["tag"].to_numpy(object)
         top = [{"tag": tags[i], "area": area[i] or "(none)", "repair": "", "repair_cost": "–",
-                "annual_saving": "–", "saving": fmt(per_row["saving_if_repaired [MWh]"].iloc[i]),
+                "annual_saving": "–", "saving": fmt(per_row[saving].iloc[i]),
                 "payback": fmt(payback[i], 2)} for i in ranked]
     return {"currency": economics.currency, "totals": totals, "top_repairs": top}
 
@@ -293,7 +335,8 @@ def _economics(audit, area: np.ndarray, economics, max_rows: int) -> dict | None
 def _touch_points(findings: pd.DataFrame) -> list[tuple]:
     """(tag, surface temperature, limit) of the touch-temperature findings, hottest over the
     limit first."""
-    touch = findings.loc[(findings["kind"] == "touch-temperature") & (findings["unit"] == "degC")]
+    touch = findings.loc[(findings["kind"] == "touch-temperature")
+                         & findings["unit"].isin(["degC", "degF"])]
     touch = worst_first(touch)
     return list(zip(touch["tag"].astype(str), touch["value"].astype(float), touch["limit"].astype(float)))
 

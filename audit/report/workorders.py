@@ -24,6 +24,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
+from audit import display_units
 from audit.checks.condensation import ICE
 from audit.io.writers import write_csv
 from audit.io.writers.place import OutputFolder, temporary_for
@@ -33,6 +34,7 @@ from audit.planning import plan_order, planning_rules
 from audit.report.context import SEVERITY_RANK, conditions_text, fmt, location_columns, worst_first
 from audit.report.html import render
 from audit.report.pdf import EmbeddedOnlyFetcher, write_pdf
+from audit.report.shown import planner_fields, shown_order, shown_quantity, thickness_label
 from audit.rules import SEVERITIES
 
 #: Windows device names, refused as file names on every system so a pack copies anywhere.
@@ -220,7 +222,8 @@ def plan_packs(orders: list[dict], max_pages: int | None = None) -> PackPlan:
 
 def write_workorders(audit, out_dir, *, caution: str, meta: dict,
                      min_severity: str = "low", pdf: bool = True, jobs: int | None = None,
-                     max_pages: int | None = None, plan: PackPlan | None = None) -> list[Path]:
+                     max_pages: int | None = None, plan: PackPlan | None = None,
+                     units: str = "si") -> list[Path]:
     """``workorders.csv`` and, with ``pdf``, ``workorders/<area>.pdf``; the paths written.
 
     ``workorders.csv`` lists every work order.  The PDF packs hold at most ``max_pages``
@@ -232,7 +235,8 @@ def write_workorders(audit, out_dir, *, caution: str, meta: dict,
     packs are rendered by ``jobs`` processes (default: one per CPU) when there are more than
     :data:`PARALLEL_FROM` pages; the HTML is built here, so the output is the same.  Every
     file is written to a temporary name and renamed into place
-    (:class:`~audit.io.writers.place.OutputFolder`).
+    (:class:`~audit.io.writers.place.OutputFolder`).  ``units``: the unit system of the
+    packs and the CSV (orders are built in SI and converted when printed).
     """
     folder = OutputFolder(out_dir)
     folder.prepare()
@@ -249,8 +253,11 @@ def write_workorders(audit, out_dir, *, caution: str, meta: dict,
             target = folder.check(name)
             tasks.append((render("workorders.html", {
                 "area": area or "(no area)", "area_label": _UNSAFE_LABEL.sub("_", area or "none"),
-                "orders": area_orders, "caution": caution, "meta": meta, "bill": _bill(area_orders),
-                "planner_fields": PLANNER_FIELDS, "min_severity": min_severity, "cap": summary,
+                "orders": [shown_order(o, units) for o in area_orders], "caution": caution,
+                "meta": meta, "bill": [shown_quantity(b, units) for b in _bill(area_orders)],
+                "thickness_unit": thickness_label(units),
+                "planner_fields": planner_fields(PLANNER_FIELDS, units),
+                "min_severity": min_severity, "cap": summary,
                 "not_printed_here": [o["tag"] for o in plan.beyond.get(area, [])[:NOT_PRINTED_NAMED]],
                 "not_printed_count": len(plan.beyond.get(area, [])),
                 "rows_printed": ROWS_PRINTED}),
@@ -259,9 +266,10 @@ def write_workorders(audit, out_dir, *, caution: str, meta: dict,
         workers = min(jobs, len(tasks)) if len(plan.orders) > PARALLEL_FROM else 1
         written += render_packs(folder, tasks, workers)
     printed = {id(o) for area_orders in plan.printed.values() for o in area_orders}
-    csv_rows = _csv(plan.orders, files, location_columns(audit.table), printed)
+    places = location_columns(audit.table)
+    csv_rows = _csv(plan.orders, files, places, printed)
     with folder.writing("workorders.csv") as temporary:
-        write_csv(csv_rows, temporary)
+        write_csv(display_units.frame(csv_rows, units, keep=places), temporary)
     written.append(folder.root / "workorders.csv")
     return written
 

@@ -71,5 +71,11 @@ def describe_rules(rules: Rules) -> str:
         return f"[{state}] kind {c.kind}, severity {c.severity}, under {where}{selector}{params}"
 
     section("Checks", rules.checks, check)
+    if rules.words:
+        lines.append("Plant words (case, spaces, hyphens, underscores ignored):")
+        for table, entries in sorted(rules.words.items()):
+            pairs = sorted((word, name) for name, word, _ in entries.values())
+            lines.append(f"  {table}: " + ", ".join(f"{w} = {n}" for w, n in pairs))
+        lines.append("")
     lines.append("Defaults: " + ", ".join(f"{k} = {v}" for k, v in sorted(rules.defaults.items())))
     return "\n".join(lines)

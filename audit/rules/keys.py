@@ -9,7 +9,8 @@ so an unknown key, a bad value and a missing key read alike wherever they are.
 Layering, the one rule for every section: a later file's table replaces the earlier table of
 its name whole (``[material.NAME]``, ``[check.NAME]``, ``[thicknesses]``,
 ``[economics.heat]``); a key directly under ``[defaults]`` or ``[economics]`` replaces the
-earlier key; ``[alias]`` lists add up.
+earlier key; ``[alias]`` lists add up; ``[words.COLUMN]`` words add up, a later file's word
+replacing the earlier one.
 """
 
 from __future__ import annotations

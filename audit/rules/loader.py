@@ -4,7 +4,8 @@ The shipped ``rules/`` folder is read first, then each ``--rules DIR`` in order;
 ``*.toml`` of a folder is read in name order, then every ``*.toml`` of its ``economics/``
 subfolder (:func:`rule_files`, the one discovery).  A later definition of the same
 ``[section.NAME]`` replaces the earlier one whole, so a user adds or changes one material
-without copying the rest.  Alias lists of the same column are joined.
+without copying the rest.  Alias lists of the same column are joined; ``[words.COLUMN]``
+tables add up word by word (:mod:`audit.rules.words`).
 
 Rule files are data: TOML parsed by :mod:`tomllib`, values checked against the schema below,
 nothing evaluated.  Any problem raises :class:`~audit.errors.RuleError` naming the file, the
@@ -25,6 +26,7 @@ from audit.rules.model import (HEAT_GAIN_PAYERS, SEVERITIES, Check, Fitting, Flu
                                Material, Metal, Rules, Site, Spec)
 from audit.rules.keys import convert_keys
 from audit.rules.selector import SelectorError, parse_selector
+from audit.rules.words import check_words, read_words
 from audit.shipped import shipped_dir
 from audit.units import UnitParseError
 
@@ -118,17 +120,26 @@ _PLURAL = {"material": "materials", "jacket": "jackets", "metal": "metals", "sit
 #: [fluid.NAME] keys a boiling liquid (one with latent_heat) or a boil-off payer must have
 _BOILING_KEYS = ("latent_heat", "boiling_point")
 _BOIL_OFF_KEYS = ("price", "price_source", "co2", "co2_source")
+        if section in (ECONOMICS, PLANNING):
+            layer_keys(collected[section], body, path)  # validated by audit.economics.rules,
+            continue                                    # audit.planning
+        if section == "words":
+            read_words(body, path, words, problems)
+        elif section == "alias":
 #: The economic rules' section, and the subfolder of a rules folder that holds their files
 ECONOMICS = "economics"
 #: The work-order planning rules' section (access, asbestos, labour), layered as [economics]
 PLANNING = "planning"
-_TOP_LEVEL = set(SCHEMA) | {"alias", "defaults", "check", "thicknesses", ECONOMICS, PLANNING}
+_TOP_LEVEL = set(SCHEMA) | {"alias", "words", "defaults", "check", "thicknesses", ECONOMICS, PLANNING}
 #: Keys every [check.NAME] may have; any other key is the check kind's own parameter.
 CHECK_KEYS = ("kind", "enabled", "site", "applies_to", "severity", "source", "description")
 #: [defaults] key -> the section its value names
 _DEFAULT_KEYS = {"site": "site", "jacket": "jacket", "metal": "metal"}
 #: [defaults] keys whose value is free text: the plant's name, under which --history records
 _DEFAULT_TEXT_KEYS = {"plant"}
+#: [defaults] keys that take one of a few words: a design temperature standing in for the
+#: operating one (used with a warning, or refused), and the units of every output
+DEFAULT_CHOICES = {"design_temp": ("use", "refuse"), "units": ("si", "us")}
 
 
 def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -> Rules:
@@ -153,17 +164,19 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
     collected[ECONOMICS] = {}
     collected[PLANNING] = {}
     aliases: dict[str, list[str]] = {}
+    words: dict[str, dict] = {}
     defaults: dict[str, str] = {}
     files = rule_files(extra_dirs, shipped=shipped)
     for path in files:
-        _read_file(path, collected, aliases, defaults)
+        _read_file(path, collected, aliases, defaults, words)
     thicknesses = collected["thicknesses"]
     rules = Rules(**{_PLURAL[s]: collected[s] for s in SCHEMA}, checks=collected["check"],
                   thicknesses=thicknesses.get("standard", ()),
                   thicknesses_source=thicknesses.get("source", ""), aliases=aliases,
                   defaults=defaults, files=tuple(str(f) for f in files),
-                  economics=collected[ECONOMICS], planning=collected[PLANNING])
+                  economics=collected[ECONOMICS], planning=collected[PLANNING], words=words)
     _check_references(rules)
+    check_words(rules)
     return rules
 
 
@@ -220,7 +233,7 @@ def layered_section(files: Iterable[Path], section: str) -> dict:
     return layered
 
 
-def _read_file(path: Path, collected, aliases, defaults) -> None:
+def _read_file(path: Path, collected, aliases, defaults, words) -> None:
     data = read_rule_file(path)
     problems: list[Problem] = []
     for section, body in data.items():
@@ -232,10 +245,6 @@ def _read_file(path: Path, collected, aliases, defaults) -> None:
             problems.append(Problem(f"[{section}] is not a table", file=str(path), column=section,
                                     value=body))
             continue
-        if section in (ECONOMICS, PLANNING):
-            layer_keys(collected[section], body, path)  # validated by audit.economics.rules,
-            continue                                    # audit.planning
-        if section == "alias":
             for column, names in body.items():
                 if not (isinstance(names, list) and all(isinstance(n, str) for n in names)):
                     problems.append(Problem("aliases must be a list of strings", file=str(path),
@@ -245,12 +254,16 @@ def _read_file(path: Path, collected, aliases, defaults) -> None:
                 aliases[column].extend(n for n in names if n not in aliases[column])
         elif section == "defaults":
             for key, value in body.items():
-                if key not in _DEFAULT_KEYS.keys() | _DEFAULT_TEXT_KEYS or not isinstance(value, str):
+                if key not in _DEFAULT_KEYS.keys() | _DEFAULT_TEXT_KEYS | DEFAULT_CHOICES.keys() \
+                        or not isinstance(value, str) \
+                        or value not in DEFAULT_CHOICES.get(key, (value,)):
                     problems.append(Problem(f"unknown or invalid key defaults.{key}", file=str(path),
                                             column=f"defaults.{key}", value=value,
                                             expected=", ".join([f'{k} = "<name of a [{v}.NAME]>"'
                                                                 for k, v in _DEFAULT_KEYS.items()]
-                                                               + ['plant = "<plant name>"'])))
+                                                               + ['plant = "<plant name>"']
+                                                               + [f'{k} = "{" or ".join(v)}"'
+                                                                  for k, v in DEFAULT_CHOICES.items()])))
                 else:
                     defaults[key] = value
         elif section == "thicknesses":

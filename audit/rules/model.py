@@ -161,6 +161,8 @@ class Rules:
     #: the [planning] table as layered, as ``economics``; built by
     #: :func:`audit.planning.planning_rules`
     planning: dict = field(default_factory=dict)
+    #: a plant's words: words table -> {normalised word: (rule name, word as written, file)}
+    words: dict = field(default_factory=dict)
 
     def default_site(self) -> Site:
         return self.sites[self.defaults["site"]]

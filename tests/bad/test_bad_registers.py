@@ -98,7 +98,7 @@ def test_wrong_types_reject_their_rows(results_of):
 
 IMPOSSIBLE = {
     "BD-301": 'thickness: "-50" is not a thickness; expected a length per layer (mm if none), '
-              'e.g. 50, 2 in, 2x50 or 50+40',
+              'e.g. 50, 2 in, 1-1/2 in, 2x50 or 50+40',
     "BD-302": 'od: "0" is out of range; expected a diameter above 0 m',
     "BD-303": 'temp: "-300" is below absolute zero; expected a temperature above -273.15 degC',
     "BD-304": 'emissivity: "1.5" is out of range; expected an emissivity above 0 and at most 1',
@@ -109,7 +109,7 @@ IMPOSSIBLE = {
     "BD-309": 'hours: "9000" is out of range; expected hours per year at least 0 and at most '
               '8784 h',
     "BD-310": 'thickness: "0" is not a thickness; expected a length per layer (mm if none), '
-              'e.g. 50, 2 in, 2x50 or 50+40',
+              'e.g. 50, 2 in, 1-1/2 in, 2x50 or 50+40',
 }
 
 
@@ -145,9 +145,10 @@ def test_units_that_do_not_fit_the_column(results_of):
         "BD-401": f'temp: "2 m" is not a temperature; {TEMP_EXPECTED}',
         "BD-402": f'length: "5 degC" is not a length; {EXPECTED_NUMBER} (m if none)',
         "BD-403": f'od: "3 kg" is not a diameter; {EXPECTED_NUMBER} (mm if none)',
-        "BD-404": 'layers: "mineral-wool 50 K" is not a list of layers; expected '
-                  "'<material> <thickness>' joined by '+', innermost first, e.g. "
-                  "calcium-silicate 50mm + mineral-wool 2in, or none",
+        # a temperature unit where a thickness belongs: said so (issue 15)
+        "BD-404": 'layers: "mineral-wool 50 K" is not a thickness (not a length unit); '
+                  "expected a length per layer (mm if none), e.g. 50, 2 in, 1-1/2 in, 2x50 "
+                  "or 50+40",
     }
     assert set(r["status"]) == {"rejected"}
 

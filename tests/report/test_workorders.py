@@ -195,7 +195,7 @@ def test_a_tag_on_differing_rows_is_one_work_order_listing_each_row(tmp_path, me
     assert insulate[0]["quantity"] == sum(10 + k for k in range(1000))  # whole metres, exact
     html = render("workorders.html", {
         "area": "x", "area_label": "x", "orders": orders, "caution": CAUTION, "meta": meta,
-        "bill": _bill(orders), "planner_fields": (), "min_severity": "low",
+        "bill": _bill(orders), "planner_fields": (), "min_severity": "low", "thickness_unit": "mm",
         "cap": plan_packs(orders).summary(), "not_printed_here": [], "not_printed_count": 0,
         "rows_printed": ROWS_PRINTED})
     assert html.count("<h3>Register row ") == ROWS_PRINTED

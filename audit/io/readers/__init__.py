@@ -36,14 +36,23 @@ from audit.io.readers import repeated
 from audit.io.readers.headers import Lookup, load_aliases, merge_aliases
 from audit.io.readers.sheet import RawSheet, finish
 from audit.io.readers.table import build_sheet
+from audit.io.readers.plant import PlantRules
 from audit.problems import Problems
 from audit.schema import ITEM_COLUMNS
 
-__all__ = ["read_register", "read_rows", "load_aliases", "merge_aliases"]
+__all__ = ["read_register", "read_rows", "load_aliases", "merge_aliases", "PlantRules",
+           "reader_options"]
+
+
+def reader_options(rules) -> dict:
+    """What the reader takes from the rules, as keyword arguments of :func:`read_register`
+    and :func:`read_rows`: the alias table, and the plant's words and choices."""
+    return {"aliases": rules.aliases or None, "plant": PlantRules.from_rules(rules)}
 
 
 def read_register(paths, *, sheets: Iterable[str] | None = None,
-                  aliases: Mapping[str, list[str]] | None = None) -> pd.DataFrame:
+                  aliases: Mapping[str, list[str]] | None = None,
+                  plant: PlantRules | None = None) -> pd.DataFrame:
     """Read register files into one item table.
 
     Parameters
@@ -56,6 +65,9 @@ def read_register(paths, *, sheets: Iterable[str] | None = None,
     aliases : mapping of column -> list of str, optional
         Alias headers per register column (see :func:`load_aliases`); the shipped
         ``rules/aliases.toml`` if omitted.
+    plant : PlantRules, optional
+        The plant's words, the names defined and its choices (:func:`reader_options`
+        builds it from the rules); without it, names are read as written.
 
     Returns
     -------
@@ -83,12 +95,13 @@ def read_register(paths, *, sheets: Iterable[str] | None = None,
         for raw in raws:
             raw.file = label
         skipped.extend(notes)
-        built.extend(_built(raws, lookup, aliases, path))
+        built.extend(_built(raws, lookup, aliases, path, plant))
     return _item_table(built, skipped)
 
 
 def read_rows(header: Sequence[str], rows: Iterable[Sequence[str]], *, name: str = "rows",
-              aliases: Mapping[str, list[str]] | None = None) -> pd.DataFrame:
+              aliases: Mapping[str, list[str]] | None = None,
+              plant: PlantRules | None = None) -> pd.DataFrame:
     """Read register rows held in memory into the item table, as a register file is read.
 
     The header is matched against the column names and aliases, and the cells parsed, by the
@@ -104,6 +117,8 @@ def read_rows(header: Sequence[str], rows: Iterable[Sequence[str]], *, name: str
     name : str
         Stands for the file name in ``source`` (``name:row``) and in error messages.
     aliases : mapping of column -> list of str, optional
+        As for :func:`read_register`.
+    plant : PlantRules, optional
         As for :func:`read_register`.
 
     Returns
@@ -122,13 +137,13 @@ def read_rows(header: Sequence[str], rows: Iterable[Sequence[str]], *, name: str
     data = pd.DataFrame([[str(cell) for cell in row] for row in rows], dtype=object)
     path = Path(name)
     raw = finish(path, "", header, None, data, 1, False)
-    return _item_table(_built([raw], lookup, aliases, path), [])
+    return _item_table(_built([raw], lookup, aliases, path, plant), [])
 
 
 def _built(raws: list[RawSheet], lookup: Lookup, aliases: Mapping[str, list[str]],
-           path: Path) -> list:
+           path: Path, plant: PlantRules | None) -> list:
     """``build_sheet`` of each sheet of one register; a register without data rows refused."""
-    built = [build_sheet(raw, lookup, aliases.get("tag", [])) for raw in raws]
+    built = [build_sheet(raw, lookup, aliases.get("tag", []), plant) for raw in raws]
     if sum(len(t) for t, _, _ in built) == 0:
         raise RegisterError("a header row but no data rows", file=str(path),
                             expected="at least one item row below the header")

@@ -18,6 +18,7 @@ import re
 from functools import lru_cache
 
 from audit.io.readers.headers import DN_UNIT
+from audit.io.readers.thickness import decimal, split_layer
 from audit.problems import Problem
 from audit.pipe_sizes import NPS_BY_DN, NPS_BY_VALUE, OD_MM_BY_NPS
 from audit.units import NUMBER, UnitParseError, _normalise, parse_quantity, squeeze
@@ -39,12 +40,8 @@ _LEADING_NUMBER = re.compile(rf"^{NUMBER.pattern} ?")
 _UNIT_FREE = re.compile(r"^[\d\s.,+\-x×*/eE]+$")
 _WITH_UNIT = re.compile(r"^[\d\s.,+\-x×*/]*\d\s*(?:[a-wyzA-WYZ°\"'″%µ]|x[a-z])")
 _DEG_SPACE = re.compile(r"\bdeg\.?\s+([CFcf])\b")  # "300 deg F" -> "300 degF"
-_REPEAT = re.compile(r"^(\d+) ?[x×*] ?(.+)$", re.IGNORECASE)
+_REPEAT = re.compile(r"^(\d+) ?[x×*] ?([\d.].*)$", re.IGNORECASE)  # "2x50", "2 x 1.5in"
 _NAME_SPACE = re.compile(r"[\s_]+")
-# A layer: "<material> <thickness>" or "<thickness> <material>"; thickness may be "2x50".
-_THK = r"(?:\d+ ?[x×*] ?)?(?:\d+(?:\.\d*)?|\.\d+) ?(?:mm|cm|m|in|inch|inches|\"|″|'')?"
-_LAYER_MAT_FIRST = re.compile(rf"^(?P<mat>.*?\S) (?P<thk>{_THK})$", re.IGNORECASE)
-_LAYER_THK_FIRST = re.compile(rf"^(?P<thk>{_THK}) (?P<mat>\S.*)$", re.IGNORECASE)
 
 NUMBER_EXPECTED = "a number with an optional unit"
 
@@ -200,7 +197,8 @@ def _inches(text: str) -> float | None:
 
 @lru_cache(maxsize=65536)
 def thicknesses(text: str, default_unit: str):
-    """``(thicknesses_m, problem)`` from ``50``, ``2 in``, ``2x50`` (two of 50), ``50+40``."""
+    """``(thicknesses_m, problem)`` from ``50``, ``2 in``, ``2x50`` (two of 50), ``50+40``,
+    ``1-1/2 in``, ``1 1/2"``, ``2 x 1.5in``; the units of the layers may differ."""
     text = squeeze(text)
     parts = text.split("+")
     if len(parts) > MAX_LAYERS:
@@ -214,11 +212,15 @@ def thicknesses(text: str, default_unit: str):
             if len(digits) > 3 or int(digits) > MAX_LAYERS:
                 return (), _too_many_layers(digits)
             count = int(digits)
-        value, problem = quantity(part, default_unit, "m", "a thickness", 0.0, math.inf, True)
+        value, problem = quantity(decimal(part), default_unit, "m", "a thickness", 0.0,
+                                  math.inf, True)
         if problem or count < 1:
-            return (), Problem("not-a-thickness", "is not a thickness",
-                               f"a length per layer ({default_unit} if none), e.g. 50, 2 in, "
-                               "2x50 or 50+40")
+            expected = (f"a length per layer ({default_unit} if none), e.g. 50, 2 in, 1-1/2 in, "
+                        "2x50 or 50+40")
+            if problem and has_unit(part):
+                return (), Problem("not-a-length", "is not a thickness (not a length unit)",
+                                   expected)
+            return (), Problem("not-a-thickness", "is not a thickness", expected)
         result.extend([value] * count)
         if len(result) > MAX_LAYERS:
             return (), _too_many_layers(f"more than {MAX_LAYERS}")
@@ -246,16 +248,15 @@ def layers(text: str, default_unit: str):
     materials: list[str] = []
     result: list[float] = []
     for part in parts:
-        part = part.strip()
-        match = _LAYER_MAT_FIRST.match(part) or _LAYER_THK_FIRST.match(part)
-        if not match:
+        split = split_layer(part.strip(), lambda t: thicknesses(t, default_unit)[1] is None)
+        if split is None or not split[0]:
             return (), (), Problem("not-layers", "is not a list of layers",
                                    "'<material> <thickness>' joined by '+', innermost first, "
                                    "e.g. calcium-silicate 50mm + mineral-wool 2in, or none")
-        layer_thk, problem = thicknesses(match.group("thk").strip(), default_unit)
+        layer_thk, problem = thicknesses(split[1], default_unit)
         if problem:
             return (), (), problem
-        materials.extend([name(match.group("mat"))] * len(layer_thk))
+        materials.extend([name(split[0])] * len(layer_thk))
         result.extend(layer_thk)
         if len(result) > MAX_LAYERS:
             return (), (), _too_many_layers(f"more than {MAX_LAYERS}")

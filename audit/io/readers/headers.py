@@ -148,10 +148,18 @@ class Lookup:
         names: dict[str, tuple[str, int, str | None]] = {}
         for column in COLUMNS:
             names[normalise_name(column)] = (column, 0, None)
+        own = set(names)
         for column, alias_list in aliases.items():
             for priority, alias in enumerate(alias_list, start=1):
                 name, unit = split_unit(alias)
-                names.setdefault(normalise_name(name), (column, priority, unit))
+                key = normalise_name(name)
+                if key in own:
+                    # An alias that is a column's own name ("Area" for area_code, or for area)
+                    # says which column the plant means by it: no guessing from the cells.
+                    names[key] = (column, priority, unit)
+                    own.discard(key)
+                else:
+                    names.setdefault(key, (column, priority, unit))
         return cls(names)
 
     def column_of(self, header: str) -> tuple[str, int, str | None] | None:

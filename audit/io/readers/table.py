@@ -17,10 +17,13 @@ import pandas as pd
 
 from audit.errors import RegisterError
 from audit.io.readers import cells
+from audit.io.readers.ambiguous import decide_ambiguous, design_temperature
 from audit.io.readers.column import Column, RowNotes
 from audit.io.readers.sheet import MAX_CELL_CHARS, RawSheet
 from audit.io.readers.headers import DN_UNIT, HeaderMap, Lookup, match_headers
 from audit.io.readers.insulation import insulation_layers
+from audit.io.readers.plant import PlantRules
+from audit.io.readers.words import NAME_COLUMNS, translate_layers, translate_names
 from audit.pipe_sizes import OD_MM_BY_NPS
 from audit.problems import Problem
 from audit.schema import BY_NAME, ITEM_COLUMNS, REGISTER_COLUMNS, SCHEMA, STRING_COLUMNS
@@ -35,6 +38,9 @@ _HEADS_SYNONYMS = (("hemispheric", "hemispherical"), ("hemi", "hemispherical"),
 _ORIENTATION_SYNONYMS = (("horiz", "horizontal"), ("h", "horizontal"), ("vert", "vertical"),
                          ("v", "vertical"), ("facing-up", "up"), ("facing-down", "down"))
 _CONDITION_SYNONYMS = (("good", "intact"),)
+#: Spellings the reader accepts itself, beside the rules' names (not a plant's words).
+_OWN_SPELLINGS = {c: tuple(k for k, _ in pairs) for c, pairs in (
+    ("shape", _SHAPE_SYNONYMS), ("heads", _HEADS_SYNONYMS), ("condition", _CONDITION_SYNONYMS))}
 VESSELS = ("vertical-vessel", "horizontal-vessel")
 SMALLEST_OD_M = OD_MM_BY_NPS["1/8"] / 1000.0
 SIZED = ("pipe", *VESSELS, "sphere")
@@ -76,6 +82,10 @@ class SheetInfo:
     shadowed: list[tuple[str, str]]
     units_assumed: dict[str, tuple[str, int]] = field(default_factory=dict)
     notes: list[str] = field(default_factory=list)
+    #: plant words: column -> {"mapped": {word: [name, rows]}, "unknown": {text: [hints, rows]}}
+    words: dict = field(default_factory=dict)
+    #: how headers that could mean two things were read (``Area``, a design temperature)
+    decisions: list[str] = field(default_factory=list)
 
 
 def _check_header_units(raw: RawSheet, header_map: HeaderMap) -> None:
@@ -104,16 +114,18 @@ def _check_header_units(raw: RawSheet, header_map: HeaderMap) -> None:
                                          "temp [degF], thickness [in], od [mm]") from exc
 
 
-def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
-        pd.DataFrame, SheetInfo, pd.DataFrame]:
+def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str],
+                plant: PlantRules | None = None) -> tuple[pd.DataFrame, SheetInfo, pd.DataFrame]:
     """The item table of one sheet, what was read (for the summary) and its row problems
-    (:mod:`audit.problems`; ``row`` is the position in the sheet's table)."""
+    (:mod:`audit.problems`; ``row`` is the position in the sheet's table); a plant's words
+    (``plant``) translated to the rules' names."""
     header_map = match_headers(raw.header, lookup, raw.groups)
     if "tag" not in header_map.columns:
         raise RegisterError("missing the required tag column", file=raw.path,
                             sheet=raw.sheet or None, row=raw.header_row,
                             expected="a column named tag or " + ", ".join(tag_aliases))
     _check_header_units(raw, header_map)
+    decisions = decide_ambiguous(raw, header_map, lookup)
     n = len(raw.data)
     data = raw.data
     col = {c: Column(c, raw.stripped[header_map.columns[c]] if c in header_map.columns else None,
@@ -124,9 +136,12 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     blank = raw.blank
     out: dict[str, object] = {}
     info = SheetInfo(raw.file, raw.sheet, raw.header_row, n, dict(header_map.headers), [],
-                     header_map.shadowed, notes=list(raw.notes))
+                     header_map.shadowed, notes=list(raw.notes), decisions=decisions)
     everyone = np.ones(n, dtype=bool)
     _long_cells(raw, header_map, notes)
+    for c in NAME_COLUMNS:
+        if c in col:
+            translate_names(col[c], plant, info.words, _OWN_SPELLINGS.get(c, ()))
 
     tag = col["tag"]
     out["tag"] = tag.uniques[tag.codes]
@@ -142,10 +157,12 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str]) -> tuple[
     heads = _choice(col["heads"], HEADS, _HEADS_SYNONYMS, "", notes, vessel)
     out["heads"] = np.where(heads != "", heads, _words(vessel, "ellipsoidal", "none"))
     _temperature(col["temp"], notes, out, info)
+    _design_temperature(header_map, col["temp"], plant, notes, info)
     condition = _choice(col["condition"], CONDITIONS, _CONDITION_SYNONYMS, "intact", notes,
                         everyone)
     out["condition"] = condition
-    out["layer_materials"], out["layer_thicknesses_m"] = insulation_layers(col, condition, notes)
+    materials, out["layer_thicknesses_m"] = insulation_layers(col, condition, notes)
+    out["layer_materials"] = translate_layers(materials, "layers", plant, info.words)
     _surface(col, notes, out, info)
     for c in PLAIN:
         out[BY_NAME[c].item[0].name] = _plain(col[c], BY_NAME[c].parse, notes, info)
@@ -300,6 +317,27 @@ def _temperature(column: Column, notes: RowNotes, out, info: SheetInfo) -> None:
         "empty", "empty", f"the operating temperature ({unit} if no unit), AMB or normal/max"))
     notes.cells("warning", everyone, column, [a[4] for a in answers])
     _note_units(column, unit, info, notes)
+
+
+def _design_temperature(header_map: HeaderMap, column: Column, plant: PlantRules | None,
+                        notes: RowNotes, info: SheetInfo) -> None:
+    """A design temperature standing in for the operating one: a warning on every row it
+    feeds, or, where the rules refuse it, a reason."""
+    header = design_temperature(header_map)
+    if header is None:
+        return
+    if plant is not None and plant.design_temp == "refuse":
+        info.decisions.append(f"header {header!r} is a design temperature and no operating "
+                              'temperature is given: refused ([defaults] design_temp = "refuse")')
+        notes.reject(np.ones(len(column.codes), dtype=bool), "temp", Problem(
+            "design-temperature-refused", f'only a design temperature (header "{header}") and '
+            'the rules refuse it ([defaults] design_temp = "refuse")', "an operating temperature"))
+        return
+    info.decisions.append(f"header {header!r} is a design temperature, read as the operating "
+                          "temperature: no operating temperature is given (a warning on each row)")
+    notes.warn(column.given, "temp", Problem(
+        "design-temperature", f'design temperature (header "{header}") used as the operating '
+        "temperature; the register gives no operating temperature"))
 
 
 def _surface(col, notes: RowNotes, out, info: SheetInfo) -> None:

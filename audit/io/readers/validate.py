@@ -76,9 +76,12 @@ def summarise(table: pd.DataFrame, examples: int = 3) -> str:
         for header, column in sheet["shadowed"]:
             lines.append(f"    {header!r} also names {column}; "
                          f"{sheet['recognised'].get(column, '')!r} was used")
+        for decision in sheet.get("decisions", ()):
+            lines.append(f"    {decision}")
         for column, (unit, count) in sheet["units_assumed"].items():
             lines.append(f"    units assumed by default: {column} in {unit} "
                          f"({count} cell{'s' if count != 1 else ''} without a unit)")
+    lines += plant_words(s.sheets)
     for title, groups in (("Rejected rows by reason (column: code):", s.reasons),
                           ("Warnings (column: code):", s.warnings)):
         lines += ["", title]
@@ -88,3 +91,38 @@ def summarise(table: pd.DataFrame, examples: int = 3) -> str:
             meaning = CODES[label.rpartition(" ")[2]]
             lines.append(f"  {count:6d}  {label}: {meaning}  (e.g. {', '.join(where)})")
     return "\n".join(lines)
+
+
+def plant_words(sheets: list[dict]) -> list[str]:
+    """The summary's lines on a plant's words: every word mapped to a rules' name, and every
+    name that is neither defined nor a word, with the closest defined names (a hint only)."""
+    merged: dict = {}
+    more: dict = {}
+    for sheet in sheets:
+        for column, kinds in sheet.get("words", {}).items():
+            for kind, entries in kinds.items():
+                if kind == "more":
+                    more[column] = [a + b for a, b in zip(more.get(column, [0, 0]), entries)]
+                    continue
+                for text, (detail, rows) in entries.items():
+                    entry = merged.setdefault((column, kind), {}).setdefault(text, [detail, 0])
+                    entry[1] += rows
+    if not merged:
+        return []
+    lines = ["", "Plant words mapped ([words] of the rules):"]
+    mapped = sorted((c, t, d, r) for (c, k), e in merged.items() if k == "mapped"
+                    for t, (d, r) in e.items())
+    lines += [f"  {c}: {t!r} -> {d} ({_rows(r)})" for c, t, d, r in mapped] or ["  none"]
+    lines += ["", "Names neither defined nor a plant word (add a [words] entry or a definition "
+                  "to a rule file;",
+              "the closest defined names and words are a hint only, never applied):"]
+    unknown = sorted((c, t, d, r) for (c, k), e in merged.items() if k == "unknown"
+                     for t, (d, r) in e.items())
+    lines += [f"  {c}: {t!r} ({_rows(r)}); closest: {', '.join(d) or 'none'}"
+              for c, t, d, r in unknown] or ["  none"]
+    lines += [f"  {c}: {n} more names not listed ({_rows(r)})" for c, (n, r) in sorted(more.items())]
+    return lines
+
+
+def _rows(count: int) -> str:
+    return f"{count} row{'s' if count != 1 else ''}"

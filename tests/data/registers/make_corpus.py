@@ -119,9 +119,10 @@ CSV_FILES = {
         "N-2;40;3;90;none\n"
         "N-3;4;3;90;none\n"
     )),
-    # vessels, spheres and flat surfaces: shapes, heads, orientation
+    # vessels, spheres and flat surfaces: shapes, heads, orientation ("area [m2]": its unit says
+    # surface area, so a code on a pipe row is a bad cell, not a plant area)
     "vessels_flat.csv": ("utf-8", (
-        "tag,shape,od,length,area,heads,orientation,temp,layers\n"
+        "tag,shape,od,length,area [m2],heads,orientation,temp,layers\n"
         "V-1,vertical-vessel,2400,8.5,,hemispherical,,150,mineral-wool 100mm\n"
         "V-2,Horizontal Vessel,1800,6,,,,150,mineral-wool 100mm\n"
         "V-3,vertical-vessel,2400,8.5,,,horizontal,150,mineral-wool 100mm\n"
