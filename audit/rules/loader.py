@@ -120,12 +120,6 @@ _PLURAL = {"material": "materials", "jacket": "jackets", "metal": "metals", "sit
 #: [fluid.NAME] keys a boiling liquid (one with latent_heat) or a boil-off payer must have
 _BOILING_KEYS = ("latent_heat", "boiling_point")
 _BOIL_OFF_KEYS = ("price", "price_source", "co2", "co2_source")
-        if section in (ECONOMICS, PLANNING):
-            layer_keys(collected[section], body, path)  # validated by audit.economics.rules,
-            continue                                    # audit.planning
-        if section == "words":
-            read_words(body, path, words, problems)
-        elif section == "alias":
 #: The economic rules' section, and the subfolder of a rules folder that holds their files
 ECONOMICS = "economics"
 #: The work-order planning rules' section (access, asbestos, labour), layered as [economics]
@@ -245,6 +239,12 @@ def _read_file(path: Path, collected, aliases, defaults, words) -> None:
             problems.append(Problem(f"[{section}] is not a table", file=str(path), column=section,
                                     value=body))
             continue
+        if section in (ECONOMICS, PLANNING):
+            layer_keys(collected[section], body, path)  # validated by audit.economics.rules,
+            continue                                    # audit.planning
+        if section == "words":
+            read_words(body, path, words, problems)
+        elif section == "alias":
             for column, names in body.items():
                 if not (isinstance(names, list) and all(isinstance(n, str) for n in names)):
                     problems.append(Problem("aliases must be a list of strings", file=str(path),
