@@ -155,6 +155,11 @@ SCHEMA: tuple[RegisterColumn, ...] = (
     _quantity("hours", "hours_h", "operating hours per year (NaN if not given)",
               "h", "h", "hours per year", (0.0, 8784.0, False), selectable=True,
               calc_flag=False),
+    _quantity("elevation", "elevation_m", "height above grade or the nearest platform (NaN if "
+              "not given)", "m", "m", "a height", _NOT_NEGATIVE, selectable=True, calc_flag=False),
+    _quantity("install_year", "install_year", "year the insulation was installed (NaN if not "
+              "given)", "dimensionless", "dimensionless", "a calendar year", (1800.0, 2200.0, False),
+              selectable=True, calc_flag=False),
     RegisterColumn("accessible", _item("accessible", "bool", "within the personnel reach "
                                        "zone"), parse="yes_no", selectable=True, echo=True),
     RegisterColumn("valves", _item("valves", "int", "uninsulated valves on the run"),

@@ -28,7 +28,7 @@ GOOD_CELLS = {
     "location": "outdoor", "service": "heat-conservation", "material": "carbon-steel",
     "area_code": "U-200", "condition": "damaged", "ambient": "15", "wind": "2", "rh": "70",
     "surroundings": "10", "damaged": "5", "hours": "8000", "accessible": "yes", "valves": "2",
-    "flanges": "4", "fluid": "steam",
+    "flanges": "4", "fluid": "steam", "elevation": "6.5 m", "install_year": "1978",
 }
 #: numpy kinds each declared dtype may be held as in the item table.
 DTYPE_KINDS = {"str": "OU", "float": "f", "bool": "b", "int": "iu"}
@@ -152,3 +152,13 @@ def test_a_column_declared_in_the_schema_alone_reaches_reader_selector_and_calc(
     assert got == {"paint": ["epoxy-phenolic", "zinc"], "mask": [True, False],
                    "status": ["ok", "ok"], "raw": True,
                    "flag": ["--paint-system"]}  # spelt like the command line's other flags
+
+
+def test_elevation_and_install_year_are_read_with_units_and_bounds():
+    """Planning columns: a height with its unit, a calendar year; out-of-range years rejected."""
+    table = read_rows(["tag", "elevation [ft]", "install_year"],
+                      [["A", "10", "1978"], ["B", "", ""], ["C", "3", "1066"]], name="planning")
+    assert table.loc[0, "elevation_m"] == pytest.approx(3.048)  # 10 ft = 3.048 m exactly (NIST)
+    assert table.loc[0, "install_year"] == 1978
+    assert np.isnan(table.loc[1, "elevation_m"]) and np.isnan(table.loc[1, "install_year"])
+    assert table.loc[2, "status"] == "rejected" and "install_year" in table.loc[2, "reason"]

@@ -11,7 +11,8 @@ document system, mess included:
   ``DN150``, ``8000 h/yr``), layered thickness notation (``calcium-silicate 50mm + mineral-wool
   2x40mm``; ``2x2.5`` inches in the equipment list), ``AMB`` and ``normal/max`` temperatures;
 * extra columns the audit carries through (``P&ID``, ``Drawing``, ``Stream``, ``Remarks``) and the
-  CUI columns ``Cyclic`` and ``Install Year``;
+  CUI columns ``Cyclic`` and ``Install Year``, and the height of each item above grade or its
+  platform (``Elevation [m]``, ``Elev``) for the work orders' access planning;
 * in the XLSX, a title block above the header row and a notes sheet without a register;
 * a few bad rows, each a different mistake found in real registers (listed in ``BAD_ROWS``).
 
@@ -42,13 +43,19 @@ CREATED = datetime.datetime(2026, 1, 15, 8, 0, 0)
 LINE_HEADERS = ["Line No", "Unit", "P&ID", "Stream", "Size", "Length [m]", "Orientation",
                 "Op Temp [degC]", "Lagging", "Cladding", "Location", "Access",
                 "Insul Condition", "Damaged [%]", "Pipe Material", "Bare Valves",
-                "Bare Flanges", "Op Hours", "Purpose", "Cyclic", "Install Year", "Remarks"]
+                "Bare Flanges", "Op Hours", "Purpose", "Cyclic", "Install Year", "Remarks",
+                "Elevation [m]"]
 
 EQUIPMENT_HEADERS = ["Equipment Tag", "Description", "Type", "Diameter [mm]", "Tan Tan [m]",
                      "Surface Area [m^2]", "Head Type", "Orientation", "Op Temp [degF]",
                      "Insulation Material", "Insul Thk [in]", "Cladding", "Site", "Access",
                      "Condition", "Damage [%]", "MOC", "Plant Unit", "Op Hours", "Purpose",
-                     "Cyclic Service", "Install Year", "Drawing"]
+                     "Cyclic Service", "Install Year", "Drawing", "Elev"]
+#: Elevations come from a random state of their own, added after every other cell, so that
+#: adding them left the rest of the plant as it was.
+ELEVATION_STATE = 7209
+#: Pipe-rack levels of the invented plant above grade [m]; lines within reach run lower.
+RACK_LEVELS_M = (4.5, 6.0, 7.5, 9.0)
 
 #: Plant units: code, name, fluids with (low, high) operating temperature [degC], metal.
 UNITS = [
@@ -194,7 +201,17 @@ def line_rows(rng) -> list[list]:
     rows[187][LINE_HEADERS.index("Damaged [%]")] = ""
     # A tag entered twice (the second is a later revision of the same line): kept, with a warning.
     rows[120][0] = rows[119][0]
+    _add_elevations(rows, LINE_HEADERS.index("Access"), (*(f"{x:g}" for x in RACK_LEVELS_M), "0.5"))
     return rows
+
+
+def _add_elevations(rows: list[list], access: int, high: tuple[str, ...]) -> None:
+    """Append each row's height above grade or platform: within reach (access yes) 0.3 to
+    1.8 m; out of reach one of ``high`` (cells may carry their own unit)."""
+    rng = np.random.default_rng(ELEVATION_STATE)
+    for row in rows:
+        within_reach = str(row[access]).strip().lower() in ("y", "yes")
+        row.append(f"{rng.uniform(0.3, 1.8):.1f}" if within_reach else str(rng.choice(high)))
 
 
 def _size_text(rng, size: str) -> str:
@@ -363,7 +380,9 @@ EQUIPMENT = [
 
 
 def equipment_rows() -> list[list]:
-    return [list(row) for row in EQUIPMENT]
+    rows = [list(row) for row in EQUIPMENT]
+    _add_elevations(rows, EQUIPMENT_HEADERS.index("Access"), ("0", "0", "3.5", "8 m", "26 ft"))
+    return rows
 
 
 def _cell(text: str):

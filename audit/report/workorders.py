@@ -29,7 +29,9 @@ from audit import display_units
 from audit.checks.condensation import ICE
 from audit.io.writers import write_csv
 from audit.io.writers.place import OutputFolder, temporary_for
+from audit.economics import economic_rules
 from audit.outputs import MAX_WORKORDER_PAGES
+from audit.planning import plan_order, planning_rules
 from audit.report.context import SEVERITY_RANK, conditions_text, fmt, location_columns, worst_first
 from audit.report.html import render
 from audit.report.pdf import EmbeddedOnlyFetcher, write_pdf
@@ -100,6 +102,7 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
     table, results = audit.table, audit.results
     places = location_columns(table)
     outer_area = results["outer_area [m2]"].to_numpy(float)
+    payback = results["payback [yr]"].to_numpy(float)
     with np.errstate(invalid="ignore"):
         cold = ((results["process_temp [degC]"].to_numpy(float) < results["air_temp [degC]"].to_numpy(float))
                 | (table["service"].fillna("").to_numpy(object) == "cold"))
@@ -124,6 +127,10 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
                           # with --history: since when the finding has stood
                           "first_reported": f.get("first_reported", "")} for f in records],
             "quantities": _quantities(item, records, outer_area[row], bool(cold[row])),
+            # for the planning (audit/planning.py)
+            "installed_m": float(sum(item["layer_thicknesses_m"] or ())), "iced": any(ICE in str(f["message"]) for f in records),
+            "elevation_m": float(item["elevation_m"]), "install_year": float(item["install_year"]),
+            "payback": float(payback[row]),
         }
         order = by_tag.get(item["tag"])
         if order is None:
@@ -135,6 +142,7 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
         order["parts"].append(part)
         order["rank"] = max(order["rank"], rank)
     orders = []
+    planning, repair = planning_rules(audit.rules), economic_rules(audit.rules).repair
     for order in by_tag.values():
         parts = sorted(order["parts"], key=lambda p: -p["rank"])  # stable: register order within
         order.update(
@@ -143,9 +151,15 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
             findings=[f for p in parts for f in p["findings"]],
             remedies=_iced(parts) + list(dict.fromkeys(
                 f["remedy"] for p in parts for f in p["findings"] if f["remedy"])),
-            quantities=_summed([q for p in parts for q in p["quantities"]]))
+            quantities=_summed([q for p in parts for q in p["quantities"]]),
+            payback=min((p["payback"] for p in parts if np.isfinite(p["payback"])), default=np.inf))
+        order["planning"] = plan = plan_order(order, parts, repair, planning)
+        plan["shown"] = {k: fmt(plan[k]) for k in ("labour_h", "materials_cost", "labour_cost",
+                                                   "scaffold_cost", "repair_cost")}
+        plan["currency"] = audit.economics.currency
         orders.append(order)
-    orders.sort(key=lambda o: (o["area"], -o["rank"], str(o["tag"])))
+    # priority: severity, then the shortest payback (none last)
+    orders.sort(key=lambda o: (o["area"], -o["rank"], o["payback"], str(o["tag"])))
     return orders
 
 
@@ -393,6 +407,11 @@ GUARD = "personnel guard (alternative to insulation)"
 #: workorders.csv quantity columns
 QUANTITY_COLUMNS = ["insulate [m]", "insulate [m2]", "reinstate [m]", "reinstate [m2]",
                     "guard [m]", "guard [m2]", "guard [pcs]"]
+#: workorders.csv planning columns -> key of the order's planning (audit/planning.py)
+PLANNING_COLUMNS = {"scaffold": "scaffold", "asbestos_survey": "asbestos_survey",
+                    "labour [h]": "labour_h", "materials_cost": "materials_cost",
+                    "labour_cost": "labour_cost", "scaffold_cost": "scaffold_cost",
+                    "repair_cost": "repair_cost", "materials": "materials"}
 
 
 def _actions(findings: list[dict]) -> set[str]:
@@ -497,7 +516,9 @@ def _csv(orders: list[dict], files: dict, places: list[str], printed: set) -> pd
         insulation = [x for x in o["quantities"] if x["work"] == INSULATE]
         thickest = max(insulation, key=lambda x: x["thickness_mm"], default=None)
         location = dict(o["location"])
+        plan = o["planning"]
         rows.append({
+            "work_order_key": plan["key"],
             "tag": o["tag"], "area_code": o["area"], "priority": o["priority"],
             "checks": ";".join(dict.fromkeys(f["check"] for f in o["findings"])),
             "remedy": "; ".join(o["remedies"]),
@@ -505,14 +526,17 @@ def _csv(orders: list[dict], files: dict, places: list[str], printed: set) -> pd
             "remedy_thickness [mm]": thickest["thickness_mm"] if thickest else np.nan,
             **{c: q.get(c, np.nan) for c in QUANTITY_COLUMNS},
             "valve_covers": int(q.get("valve", 0)), "flange_covers": int(q.get("flange", 0)),
+            **{c: plan[k] for c, k in PLANNING_COLUMNS.items()},
+            "sequence": " -> ".join(plan["sequence"]),
             "rows": len(o["parts"]), "source": "; ".join(o["sources"]),
             "work_order_file": "workorders/" + files[o["area"]] if id(o) in printed else "",
             "first_reported": min((f["first_reported"] for f in o["findings"]), default=""),
             **{c: location.get(c, "") for c in places if c != "area_code"},
         })
-    columns = ["tag", "area_code", "priority", "checks", "remedy", "remedy_material",
+    columns = ["work_order_key", "tag", "area_code", "priority", "checks", "remedy", "remedy_material",
                "remedy_thickness [mm]", *QUANTITY_COLUMNS[:4], "valve_covers", "flange_covers",
-               *QUANTITY_COLUMNS[4:], "rows", "source", "work_order_file",
+               *QUANTITY_COLUMNS[4:], *PLANNING_COLUMNS, "sequence", "rows", "source",
+               "work_order_file",
                *[c for c in places if c != "area_code"]]
     if any(r["first_reported"] for r in rows):  # with --history: the item's oldest finding
         columns.insert(columns.index("source"), "first_reported")

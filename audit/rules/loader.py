@@ -120,9 +120,11 @@ _PLURAL = {"material": "materials", "jacket": "jackets", "metal": "metals", "sit
 #: [fluid.NAME] keys a boiling liquid (one with latent_heat) or a boil-off payer must have
 _BOILING_KEYS = ("latent_heat", "boiling_point")
 _BOIL_OFF_KEYS = ("price", "price_source", "co2", "co2_source")
-_TOP_LEVEL = set(SCHEMA) | {"alias", "words", "defaults", "check", "thicknesses", "economics"}
 #: The economic rules' section, and the subfolder of a rules folder that holds their files
 ECONOMICS = "economics"
+#: The work-order planning rules' section (access, asbestos, labour), layered as [economics]
+PLANNING = "planning"
+_TOP_LEVEL = set(SCHEMA) | {"alias", "words", "defaults", "check", "thicknesses", ECONOMICS, PLANNING}
 #: Keys every [check.NAME] may have; any other key is the check kind's own parameter.
 CHECK_KEYS = ("kind", "enabled", "site", "applies_to", "severity", "source", "description")
 #: [defaults] key -> the section its value names
@@ -154,6 +156,7 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
     collected["check"] = {}
     collected["thicknesses"] = {}
     collected[ECONOMICS] = {}
+    collected[PLANNING] = {}
     aliases: dict[str, list[str]] = {}
     words: dict[str, dict] = {}
     defaults: dict[str, str] = {}
@@ -165,7 +168,7 @@ def load_rules(extra_dirs: Iterable[str | Path] = (), *, shipped: bool = True) -
                   thicknesses=thicknesses.get("standard", ()),
                   thicknesses_source=thicknesses.get("source", ""), aliases=aliases,
                   defaults=defaults, files=tuple(str(f) for f in files),
-                  economics=collected[ECONOMICS], words=words)
+                  economics=collected[ECONOMICS], planning=collected[PLANNING], words=words)
     _check_references(rules)
     check_words(rules)
     return rules
@@ -236,9 +239,9 @@ def _read_file(path: Path, collected, aliases, defaults, words) -> None:
             problems.append(Problem(f"[{section}] is not a table", file=str(path), column=section,
                                     value=body))
             continue
-        if section == ECONOMICS:
-            layer_keys(collected[ECONOMICS], body, path)  # validated by audit.economics.rules
-            continue
+        if section in (ECONOMICS, PLANNING):
+            layer_keys(collected[section], body, path)  # validated by audit.economics.rules,
+            continue                                    # audit.planning
         if section == "words":
             read_words(body, path, words, problems)
         elif section == "alias":

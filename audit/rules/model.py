@@ -158,6 +158,9 @@ class Rules:
     #: the [economics] table as layered: key or sub-table -> (raw value, file); validated and
     #: built by :func:`audit.economics.rules.economic_rules`
     economics: dict = field(default_factory=dict)
+    #: the [planning] table as layered, as ``economics``; built by
+    #: :func:`audit.planning.planning_rules`
+    planning: dict = field(default_factory=dict)
     #: a plant's words: words table -> {normalised word: (rule name, word as written, file)}
     words: dict = field(default_factory=dict)
 
