@@ -26,7 +26,8 @@ What is read, per item of the table:
 * cyclic service and age: not contract columns; read from extra columns of the register,
   found by header (case-insensitive, ignoring spaces, underscores, hyphens and dots).
   ``cyclic`` cells are yes/no words; ``age`` cells are years (a unit in the header or cell is
-  converted); ``install_year`` cells are calendar years, aged against ``audit_year``.  A cell
+  converted); install years are calendar years, aged against ``audit_year``: the register's
+  ``install_year`` column as the reader read it, else an extra column by header.  A cell
   that cannot be read counts as not known and the finding's message says so.  A cyclic item
   above its metal's highest window edge still scores the metal's ``intermittent`` weight
   (API RP 581 names carbon steel in intermittent service above 175 degC as CUI-prone).
@@ -47,6 +48,7 @@ from audit.io.readers.headers import normalise_name, split_unit
 from audit.repeats import per_distinct
 from audit.rules import SEVERITIES
 from audit.rules.converters import list_of, quantity, rows, temperature, text
+from audit.schema import ITEM_COLUMNS
 from audit.thermal import ZERO_CELSIUS
 from audit.units import UnitParseError, parse_quantity
 
@@ -132,12 +134,15 @@ def _year(value) -> int:
 _HEADERS = list_of(text, "register headers")
 
 
+_ITEM = frozenset(ITEM_COLUMNS)
+
+
 def _extra_column(table: pd.DataFrame, names) -> tuple[str | None, str | None]:
     """The first extra column whose header (unit stripped) matches one of ``names``, by the
     register's own header rules (:mod:`audit.io.readers.headers`)."""
     wanted = {normalise_name(n) for n in names}
     for column in table.columns:
-        if not isinstance(column, str) or column.startswith("raw:"):
+        if not isinstance(column, str) or column.startswith("raw:") or column in _ITEM:
             continue
         name, unit = split_unit(column)
         if normalise_name(name) in wanted:
@@ -161,6 +166,13 @@ def _ages(table, age_names, year_names, audit_year) -> tuple[np.ndarray, np.ndar
     """(age in years, NaN if not known; cell not read bool; header)."""
     n = len(table)
     column, unit = _extra_column(table, age_names)
+    if column is None and "install_year" in table.columns:
+        # The register's install_year column, read by the reader as years.
+        years = table["install_year"].to_numpy(float)
+        if np.isfinite(years).any():
+            ages = audit_year - years
+            late = ages < 0  # an install year after the audit year is a data error, not age 0
+            return np.where(late, np.nan, ages), late, "install_year"
     by_year = column is None
     if by_year:
         column, _ = _extra_column(table, year_names)
