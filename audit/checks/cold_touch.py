@@ -16,10 +16,8 @@ contact time for this reason).  Insulation, a cover or a guard fixes it.
 
 from __future__ import annotations
 
-import numpy as np
-
-from audit.checks.base import CheckKind, bare_parts
-from audit.checks.touch_temperature import surface_verdict
+from audit.checks.base import CheckKind
+from audit.checks.touch_temperature import surface_verdict, surface_words
 from audit.rules.converters import boolean, quantity, temperature, text
 
 NAME = "cold-touch"
@@ -31,29 +29,11 @@ def evaluate(context, check, params):
 
 
 def word(context, check, params, verdict):
-    bare_words = context.once(bare_parts)[verdict.rows]
-    guard = params.get("guard_allowed", False)
-    contact = params.get("contact_time")
-    injury = params.get("injury", "cold injury")
-    suffix = f" (contact time {contact:g} s)" if contact is not None else ""
-    facts = verdict.facts
-    message, remedy = [], []
-    # Python values in the loop, not numpy scalars: tens of thousands of rows.
-    for bare, words, surface, guessed, v, lim in zip(
-            facts["bare"].tolist(), bare_words.tolist(), facts["surface"].tolist(),
-            facts["assumed"].tolist(), verdict.value.tolist(), verdict.limit.tolist()):
-        if bare:
-            text_ = f"{words} at {v:.0f} degC, below the {lim:.0f} degC {injury} limit for metal"
-            action = "insulate the bare parts (with a sealed vapour retarder) or fit a cover"
-        else:
-            text_ = (f"{surface} jacket surface at {v:.0f} degC, below the {lim:.0f} degC "
-                     f"{injury} limit for {surface} surfaces")
-            if guessed:
-                text_ += "; no jacket named, only an emissivity: taken as metal (conservative)"
-            action = "increase insulation thickness, with a sealed vapour retarder"
-        message.append(text_ + suffix)
-        remedy.append(action + (" or fit a personnel guard" if guard else ""))
-    return np.array(message, dtype=object), np.array(remedy, dtype=object)
+    return surface_words(
+        context, params, verdict, beyond="below",
+        limit_name=params.get("injury", "cold injury"),
+        bare_action="insulate the bare parts (with a sealed vapour retarder) or fit a cover",
+        jacket_action="increase insulation thickness, with a sealed vapour retarder")
 
 
 KIND = CheckKind(

@@ -108,9 +108,13 @@ def surface_verdict(context, check, limit_metal, limit_non_metal, *, cold=False)
                             "assumed": assumed[flagged]})
 
 
-def word(context, check, params, verdict):
+def surface_words(context, params, verdict, *, beyond: str, limit_name: str, bare_action: str,
+                  jacket_action: str):
+    """Message and remedy of each row of a :func:`surface_verdict` (hot or cold): the part
+    judged, its temperature ``beyond`` (``above``/``below``) the ``limit_name`` limit of its
+    surface class, and the action for bare parts or a jacket, a guard where allowed."""
     bare_words = context.once(bare_parts)[verdict.rows]
-    guard = params.get("guard_allowed", False)
+    guard = " or fit a personnel guard" if params.get("guard_allowed", False) else ""
     contact = params.get("contact_time")
     suffix = f" (contact time {contact:g} s)" if contact is not None else ""
     facts = verdict.facts
@@ -120,17 +124,23 @@ def word(context, check, params, verdict):
             facts["bare"].tolist(), bare_words.tolist(), facts["surface"].tolist(),
             facts["assumed"].tolist(), verdict.value.tolist(), verdict.limit.tolist()):
         if bare:
-            text = f"{words} at {v:.0f} degC, above the {lim:.0f} degC burn limit for metal"
-            action = "insulate the bare parts"
+            text = f"{words} at {v:.0f} degC, {beyond} the {lim:.0f} degC {limit_name} limit for metal"
+            action = bare_action
         else:
-            text = (f"{surface} jacket surface at {v:.0f} degC, above the {lim:.0f} degC burn "
-                    f"limit for {surface} surfaces")
+            text = (f"{surface} jacket surface at {v:.0f} degC, {beyond} the {lim:.0f} degC "
+                    f"{limit_name} limit for {surface} surfaces")
             if guessed:
                 text += "; no jacket named, only an emissivity: taken as metal (conservative)"
-            action = "increase insulation thickness"
+            action = jacket_action
         message.append(text + suffix)
-        remedy.append(action + (" or fit a personnel guard" if guard else ""))
+        remedy.append(action + guard)
     return np.array(message, dtype=object), np.array(remedy, dtype=object)
+
+
+def word(context, check, params, verdict):
+    return surface_words(context, params, verdict, beyond="above", limit_name="burn",
+                         bare_action="insulate the bare parts",
+                         jacket_action="increase insulation thickness")
 
 
 KIND = CheckKind(
