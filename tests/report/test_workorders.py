@@ -237,3 +237,28 @@ def test_packs_render_while_the_block_runs_and_an_error_in_it_leaves_no_pack(dem
     else:
         raise AssertionError("the block's error was swallowed")
     assert not [p for p in failed.rglob("*") if p.is_file()]  # no pack, no temporary, no CSV
+
+
+
+def test_orders_do_not_depend_on_how_many_rows_are_made_into_records_at_a_time(demo_audit,
+                                                                                monkeypatch,
+                                                                                tmp_path):
+    # The records are made a chunk of rows at a time to bound memory (RECORDS_CHUNK); chunks of
+    # 1, 7 or 1,000,000 rows must give the same orders, in the same order, to the last
+    # character: on the demo plant, and on a tag repeated on 30 rows that chunks of 7 split.
+    from audit.pipeline import audit_register
+
+    lines = ["tag,nps,length,temp,layers,jacket,location,accessible,service,valves,flanges"]
+    lines += [f"L-{k % 3},4,{10 + k},{120 + 5 * k},none,,outdoor,yes,heat-conservation,0,1"
+              for k in range(30)]
+    path = tmp_path / "repeated.csv"
+    path.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    repeated = audit_register([path])
+    for audit in (demo_audit, repeated):
+        whole = build_orders(audit)
+        assert len(whole) >= 3
+        for size in (1, 7, 1_000_000):
+            monkeypatch.setattr(workorders, "RECORDS_CHUNK", size)
+            assert repr(build_orders(audit)) == repr(whole)
+        monkeypatch.undo()
+    assert [len(o["parts"]) for o in build_orders(repeated)] == [10, 10, 10]
