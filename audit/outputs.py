@@ -18,6 +18,7 @@ import numpy as np
 import pandas as pd
 
 from audit import display_units
+from audit.heap import give_back
 from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
 from audit.io.writers.place import OutputFolder
 from audit.io.writers.safety import as_number
@@ -134,6 +135,7 @@ def write_outputs(audit, folder: OutputFolder, formats, meta: dict, advance=lamb
     written = []
     for writer in dict.fromkeys(WRITERS[f] for f in formats):
         written += writer(audit, folder, meta, formats, **options)
+        give_back()  # what the writer made and dropped, not kept resident for the next one
         advance(sum(WRITERS[f] is writer for f in formats))
     return written
 

@@ -16,6 +16,7 @@ from audit.checks.base import CheckContext
 from audit.checks.remedy import fill_remedies
 from audit.economics import Economics, EconomicRules, compute_economics
 from audit.economics import economic_rules as economic_rules_of
+from audit.heap import give_back
 from audit.io.readers import read_register, reader_options
 from audit.io.readers.survey import read_survey
 from audit.results import build_results
@@ -90,4 +91,7 @@ def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlation
     results = build_results(table, states, findings=names, severity=worst,
                             extra=extra,
                             judged={case: context.states(case) for case in cases})
-    return Audit(rules, table, results, findings, economics, states, survey=context.survey)
+    audit = Audit(rules, table, results, findings, economics, states, survey=context.survey)
+    del context  # the trial states and tables of the checks and remedies
+    give_back()
+    return audit

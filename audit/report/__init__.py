@@ -12,6 +12,7 @@ from contextlib import nullcontext
 from pathlib import Path
 
 from audit.cautions import CAUTION
+from audit.heap import give_back
 from audit.report.context import MAX_TABLE_ROWS, build_context
 from audit.report.html import render
 from audit.report.pdf import write_pdf
@@ -56,4 +57,5 @@ def write_reports(audit, out_dir, *, meta: dict, formats, economics=None,
                 with folder.writing("report.pdf") as temporary:
                     write_pdf(html, temporary)
                 written.append(folder.root / "report.pdf")
+                give_back()  # the layout's boxes, before workorders.csv is made
     return written + written_packs

@@ -26,6 +26,7 @@ import numpy as np
 import pandas as pd
 
 from audit import display_units
+from audit.heap import give_back
 from audit.checks.condensation import ICE
 from audit.io.writers import write_csv
 from audit.io.writers.place import OutputFolder, temporary_for
@@ -108,19 +109,28 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
                 | (table["service"].fillna("").to_numpy(object) == "cold"))
     columns = [c for c in table.columns if not str(c).startswith("raw:")] + ["raw:temp"] * ("raw:temp" in table)
     by_tag: dict = {}
+    # A plant's orders repeat their words (sizes, build-ups, conditions, limits): each distinct
+    # text or (label, text) pair is kept once and shared by every order that shows it.
+    shared: dict = {}
+
+    def one(value):
+        return shared.setdefault(value, value)
+
+    def found(f):
+        return one(f"{fmt(f['value'])} {f['unit']} against a limit of {fmt(f['limit'])} {f['unit']}")
+
     for row, item, records in _row_records(findings, table, columns):  # in order of worst finding
         rank = max(SEVERITY_RANK[f["severity"]] for f in records)
         part = {
             "row": int(row), "source": item["source"], "rank": rank,
-            "description": _description(item),
-            "findings": [{"check": f["check"], "severity": f["severity"],
-                          "found": f"{fmt(f['value'])} {f['unit']} against a limit of "
-                                   f"{fmt(f['limit'])} {f['unit']}",
-                          "conditions": conditions_text(f), "message": f["message"],
+            "description": [one(pair) for pair in _description(item)],
+            "findings": [{"check": f["check"], "severity": f["severity"], "found": found(f),
+                          "conditions": one(conditions_text(f)), "message": f["message"],
                           "remedy": f["remedy"], "source": item["source"],
                           # with --history: since when the finding has stood
                           "first_reported": f.get("first_reported", "")} for f in records],
-            "quantities": _quantities(item, records, outer_area[row], bool(cold[row])),
+            "quantities": [{k: one(v) if isinstance(v, str) else v for k, v in q.items()}
+                           for q in _quantities(item, records, outer_area[row], bool(cold[row]))],
             # for the planning (audit/planning.py)
             "installed_m": float(sum(item["layer_thicknesses_m"] or ())), "iced": any(ICE in str(f["message"]) for f in records),
             "elevation_m": float(item["elevation_m"]), "install_year": float(item["install_year"]),
@@ -131,7 +141,7 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
             by_tag[item["tag"]] = order = {
                 "row": int(row), "tag": item["tag"], "source": item["source"],
                 "area": str(item["area_code"] or ""), "rank": rank,
-                "location": [(c, _text(item[c])) for c in places if _text(item[c])],
+                "location": [one((c, _text(item[c]))) for c in places if _text(item[c])],
                 "description": part["description"], "parts": []}
         order["parts"].append(part)
         order["rank"] = max(order["rank"], rank)
@@ -148,8 +158,9 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
             quantities=_summed([q for p in parts for q in p["quantities"]]),
             payback=min((p["payback"] for p in parts if np.isfinite(p["payback"])), default=np.inf))
         order["planning"] = plan = plan_order(order, parts, repair, planning)
-        plan["shown"] = {k: fmt(plan[k]) for k in ("labour_h", "materials_cost", "labour_cost",
-                                                   "scaffold_cost", "repair_cost")}
+        plan["shown"] = {k: one(fmt(plan[k])) for k in ("labour_h", "materials_cost", "labour_cost",
+                                                        "scaffold_cost", "repair_cost")}
+        plan["materials"] = one(plan["materials"])
         plan["currency"] = audit.economics.currency
         orders.append(order)
     # priority: severity, then the shortest payback (none last)
@@ -178,6 +189,8 @@ def _row_records(findings: pd.DataFrame, table: pd.DataFrame, columns: list[str]
         items = table.iloc[chunk][columns].to_dict(orient="records")
         for row, item in zip(chunk, items):
             yield row, item, by_row[int(row)]
+        del by_row, items
+        give_back()  # the chunk's records, freed among the orders kept
 
 
 #: The precaution a work order leads with when a finding says the surface grows ice.
@@ -492,7 +505,9 @@ def _quantities(item, findings: list[dict], outer_area: float, cold: bool) -> li
 
 
 def _summed(quantities: list[dict]) -> list[dict]:
-    """Quantities with the same work, size, material, thickness and unit added up."""
+    """Quantities with the same work, size, material, thickness and unit added up.  A row
+    that nothing was added to is the row given (not a copy) where its text already reads as
+    the total's would: most orders' rows are their one register row's."""
     totals: dict = {}
     for q in quantities:
         key = (q["work"], q["od_m"], q["size"], q["material"], q.get("thickness_mm", 0.0),
@@ -500,10 +515,11 @@ def _summed(quantities: list[dict]) -> list[dict]:
         if key in totals:
             totals[key] = dict(totals[key], quantity=totals[key]["quantity"] + q["quantity"])
         else:
-            totals[key] = dict(q)
-    out = [totals[k] for k in sorted(totals)]
-    for q in out:
-        q["text"] = fmt(q["quantity"]) if q["unit"] != "pcs" else str(int(q["quantity"]))
+            totals[key] = q
+    out = []
+    for q in (totals[k] for k in sorted(totals)):
+        text = fmt(q["quantity"]) if q["unit"] != "pcs" else str(int(q["quantity"]))
+        out.append(q if q.get("text") == text else dict(q, text=text))
     return out
 
 
