@@ -117,7 +117,20 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
         return shared.setdefault(value, value)
 
     def found(f):
-        return one(f"{fmt(f['value'])} {f['unit']} against a limit of {fmt(f['limit'])} {f['unit']}")
+        key = ("found", _key(f["value"]), _key(f["limit"]), f["unit"])
+        if key not in shared:  # worded once per distinct value, limit and unit
+            shared[key] = one(f"{fmt(f['value'])} {f['unit']} against a limit of "
+                              f"{fmt(f['limit'])} {f['unit']}")
+        return shared[key]
+
+    air = next(c for c in findings.columns if str(c).startswith("air_temp ["))
+    wind = next(c for c in findings.columns if str(c).startswith("wind ["))
+
+    def conditions(f):
+        key = ("conditions", f["site"], _key(f[air]), _key(f[wind]), _key(f["rh [%]"]))
+        if key not in shared:  # the few scenarios of a plant, worded once each
+            shared[key] = one(conditions_text(f))
+        return shared[key]
 
     for row, item, records in _row_records(findings, table, columns):  # in order of worst finding
         rank = max(SEVERITY_RANK[f["severity"]] for f in records)
@@ -125,7 +138,7 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
             "row": int(row), "source": item["source"], "rank": rank,
             "description": [one(pair) for pair in _description(item)],
             "findings": [{"check": f["check"], "severity": f["severity"], "found": found(f),
-                          "conditions": one(conditions_text(f)), "message": f["message"],
+                          "conditions": conditions(f), "message": f["message"],
                           "remedy": f["remedy"], "source": item["source"],
                           # with --history: since when the finding has stood
                           "first_reported": f.get("first_reported", "")} for f in records],
@@ -166,6 +179,11 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
     # priority: severity, then the shortest payback (none last)
     orders.sort(key=lambda o: (o["area"], -o["rank"], o["payback"], str(o["tag"])))
     return orders
+
+
+def _key(number):
+    """A number as a dictionary key: NaN (never equal to itself) as None."""
+    return None if number != number else number
 
 
 #: Register rows whose findings and item are turned into Python records at a time: records of
