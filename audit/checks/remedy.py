@@ -230,19 +230,14 @@ class _Search:
         """Whether rows[at] pass every check they failed (``failed``) on their trial items
         (``trial_of(sub)``: the trial of rows[at[sub]])."""
         ok = np.ones(at.size, bool)
-        asked = [(check, np.flatnonzero(failed[check.name][at])) for check in self.recheck]
-        asked = [(check, sub) for check, sub in asked if sub.size]
-        if not asked:
-            return ok
-        # One trial of every row that any check asks about, solved once per site and shared
-        # by the checks (a check reads only its own rows of it): not one trial per check.
-        union = np.unique(np.concatenate([sub for _, sub in asked]))
-        trial_context = self.context.trial(trial_of(union))
-        for check, sub in asked:
+        for check in self.recheck:
+            sub = np.flatnonzero(failed[check.name][at])
+            if sub.size == 0:
+                continue
+            trial_context = self.context.trial(trial_of(sub))
             verdict = self.kinds[check.kind].evaluate(trial_context, check, self.params[check.name])
-            fails = ~trial_context.states(check.site)["computed"].to_numpy(bool)
-            fails[verdict.rows] = True
-            ok[sub[fails[np.searchsorted(union, sub)]]] = False
+            ok[sub[verdict.rows]] = False
+            ok[sub[~trial_context.states(check.site)["computed"].to_numpy(bool)]] = False
         return ok
 
     def smallest(self, items: np.ndarray, failed: dict, start: np.ndarray,
