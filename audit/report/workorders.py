@@ -109,52 +109,30 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
                 | (table["service"].fillna("").to_numpy(object) == "cold"))
     columns = [c for c in table.columns if not str(c).startswith("raw:")] + ["raw:temp"] * ("raw:temp" in table)
     by_tag: dict = {}
-    # A plant's orders repeat their words (sizes, build-ups, conditions, limits): each distinct
-    # text or (label, text) pair is kept once and shared by every order that shows it.
-    shared: dict = {}
-
-    def one(value):
-        return shared.setdefault(value, value)
-
-    def found(f):
-        key = ("found", _key(f["value"]), _key(f["limit"]), f["unit"])
-        if key not in shared:  # worded once per distinct value, limit and unit
-            shared[key] = one(f"{fmt(f['value'])} {f['unit']} against a limit of "
-                              f"{fmt(f['limit'])} {f['unit']}")
-        return shared[key]
-
-    air = next(c for c in findings.columns if str(c).startswith("air_temp ["))
-    wind = next(c for c in findings.columns if str(c).startswith("wind ["))
-
-    def conditions(f):
-        key = ("conditions", f["site"], _key(f[air]), _key(f[wind]), _key(f["rh [%]"]))
-        if key not in shared:  # the few scenarios of a plant, worded once each
-            shared[key] = one(conditions_text(f))
-        return shared[key]
-
+    words = _Words(findings.columns)
     for row, item, records in _row_records(findings, table, columns):  # in order of worst finding
         rank = max(SEVERITY_RANK[f["severity"]] for f in records)
         part = {
             "row": int(row), "source": item["source"], "rank": rank,
-            "description": [one(pair) for pair in _description(item)],
-            "findings": [{"check": f["check"], "severity": f["severity"], "found": found(f),
-                          "conditions": conditions(f), "message": f["message"],
+            "description": _description(item),
+            "findings": [{"check": f["check"], "severity": f["severity"], "found": words.found(f),
+                          "conditions": words.conditions(f), "message": f["message"],
                           "remedy": f["remedy"], "source": item["source"],
                           # with --history: since when the finding has stood
                           "first_reported": f.get("first_reported", "")} for f in records],
-            "quantities": [{k: one(v) if isinstance(v, str) else v for k, v in q.items()}
-                           for q in _quantities(item, records, outer_area[row], bool(cold[row]))],
+            "quantities": _quantities(item, records, outer_area[row], bool(cold[row])),
             # for the planning (audit/planning.py)
             "installed_m": float(sum(item["layer_thicknesses_m"] or ())), "iced": any(ICE in str(f["message"]) for f in records),
             "elevation_m": float(item["elevation_m"]), "install_year": float(item["install_year"]),
             "payback": float(payback[row]),
         }
+        words.share_part(part)
         order = by_tag.get(item["tag"])
         if order is None:
             by_tag[item["tag"]] = order = {
                 "row": int(row), "tag": item["tag"], "source": item["source"],
                 "area": str(item["area_code"] or ""), "rank": rank,
-                "location": [one((c, _text(item[c]))) for c in places if _text(item[c])],
+                "location": [(c, _text(item[c])) for c in places if _text(item[c])],
                 "description": part["description"], "parts": []}
         order["parts"].append(part)
         order["rank"] = max(order["rank"], rank)
@@ -171,14 +149,59 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
             quantities=_summed([q for p in parts for q in p["quantities"]]),
             payback=min((p["payback"] for p in parts if np.isfinite(p["payback"])), default=np.inf))
         order["planning"] = plan = plan_order(order, parts, repair, planning)
-        plan["shown"] = {k: one(fmt(plan[k])) for k in ("labour_h", "materials_cost", "labour_cost",
-                                                        "scaffold_cost", "repair_cost")}
-        plan["materials"] = one(plan["materials"])
+        plan["shown"] = {k: fmt(plan[k]) for k in ("labour_h", "materials_cost", "labour_cost",
+                                                   "scaffold_cost", "repair_cost")}
         plan["currency"] = audit.economics.currency
+        words.share_order(order)
         orders.append(order)
     # priority: severity, then the shortest payback (none last)
     orders.sort(key=lambda o: (o["area"], -o["rank"], o["payback"], str(o["tag"])))
     return orders
+
+
+class _Words:
+    """The texts of a plant's work orders, each distinct one kept once: orders repeat their
+    words (sizes, build-ups, scenarios, limits, planning figures), and 90,000 orders holding
+    their own copies were hundreds of MiB.  Texts worded from numbers are worded once per
+    distinct value."""
+
+    def __init__(self, finding_columns):
+        self._kept: dict = {}
+        self._air = next(c for c in finding_columns if str(c).startswith("air_temp ["))
+        self._wind = next(c for c in finding_columns if str(c).startswith("wind ["))
+
+    def one(self, value):
+        """The one kept object equal to ``value`` (a text, or a tuple of texts)."""
+        return self._kept.setdefault(value, value)
+
+    def found(self, f: dict) -> str:
+        """A finding's value against its limit, in words."""
+        key = ("found", _key(f["value"]), _key(f["limit"]), f["unit"])
+        if key not in self._kept:
+            self._kept[key] = self.one(f"{fmt(f['value'])} {f['unit']} against a limit of "
+                                       f"{fmt(f['limit'])} {f['unit']}")
+        return self._kept[key]
+
+    def conditions(self, f: dict) -> str:
+        """:func:`conditions_text` of a finding: the plant's few scenarios, worded once each."""
+        key = ("conditions", f["site"], _key(f[self._air]), _key(f[self._wind]), _key(f["rh [%]"]))
+        if key not in self._kept:
+            self._kept[key] = self.one(conditions_text(f))
+        return self._kept[key]
+
+    def share_part(self, part: dict) -> None:
+        """``part``'s description pairs and quantity texts replaced, in place, by kept ones."""
+        part["description"] = [self.one(pair) for pair in part["description"]]
+        part["quantities"] = [{k: self.one(v) if isinstance(v, str) else v for k, v in q.items()}
+                              for q in part["quantities"]]
+
+    def share_order(self, order: dict) -> None:
+        """``order``'s location pairs and planning texts replaced, in place, by kept ones (its
+        description, findings and quantities are its parts')."""
+        order["location"] = [self.one(pair) for pair in order["location"]]
+        plan = order["planning"]
+        plan.update({k: self.one(v) for k, v in plan.items() if isinstance(v, str)})
+        plan["shown"] = {k: self.one(v) for k, v in plan["shown"].items()}
 
 
 def _key(number):
