@@ -192,6 +192,8 @@ class _Words:
     def share_part(self, part: dict) -> None:
         """``part``'s description pairs and quantity texts replaced, in place, by kept ones."""
         part["description"] = [self.one(pair) for pair in part["description"]]
+        for f in part["findings"]:
+            f["message"], f["remedy"] = self.one(f["message"]), self.one(f["remedy"])
         part["quantities"] = [{k: self.one(v) if isinstance(v, str) else v for k, v in q.items()}
                               for q in part["quantities"]]
 
