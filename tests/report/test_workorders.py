@@ -262,3 +262,37 @@ def test_orders_do_not_depend_on_how_many_rows_are_made_into_records_at_a_time(d
             assert repr(build_orders(audit)) == repr(whole)
         monkeypatch.undo()
     assert [len(o["parts"]) for o in build_orders(repeated)] == [10, 10, 10]
+
+
+def test_orders_share_their_repeated_words_and_keep_their_parts_rows(tmp_path):
+    # Memory: 90,000 orders holding their own copies of the same words were hundreds of MiB.
+    # Equal texts are one object across orders; an order's summed row is its one part's row
+    # (not a copy) when nothing was added to it, and a new row when something was, the parts'
+    # rows untouched.
+    from audit.pipeline import audit_register
+    from audit.report.workorders import _summed
+
+    lines = ["tag,nps,length,temp,layers,jacket,location,accessible,service,valves,flanges"]
+    lines += [f"L-{k},4,{10 + k % 2},180,none,,outdoor,yes,heat-conservation,0,1" for k in range(4)]
+    lines += ["L-0,4,30,180,none,,outdoor,yes,heat-conservation,0,1"]  # L-0 on two rows
+    path = tmp_path / "plain.csv"
+    path.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    orders = {o["tag"]: o for o in build_orders(audit_register([path]))}
+    one, other = orders["L-1"], orders["L-3"]  # same size, length and temperature
+    assert one["description"][0] == ("shape", "pipe")
+    assert one["description"][0] is other["description"][0]
+    assert one["parts"][0]["findings"][0]["conditions"] is other["parts"][0]["findings"][0]["conditions"]
+    assert one["parts"][0]["findings"][0]["found"] is other["parts"][0]["findings"][0]["found"]
+    assert one["quantities"][0] is one["parts"][0]["quantities"][0]
+    twice = orders["L-0"]
+    insulate = [q for q in twice["quantities"] if q["work"] == INSULATE]
+    part_rows = [q for p in twice["parts"] for q in p["quantities"] if q["work"] == INSULATE]
+    assert len(insulate) == 1 and len(part_rows) == 2
+    assert insulate[0]["quantity"] == sum(q["quantity"] for q in part_rows) == 10 + 30
+    assert all(insulate[0] is not q for q in part_rows)
+    assert sorted(q["quantity"] for q in part_rows) == [10, 30]  # the parts' rows as they were
+    # A row whose text does not read as its total is copied with the total's text.
+    row = {"work": "w", "od_m": 0.1, "size": "s", "material": "", "thickness": "", "unit": "m",
+           "quantity": 2.5, "text": "stale"}
+    from audit.report.context import fmt
+    assert _summed([row])[0] == dict(row, text=fmt(2.5)) and row["text"] == "stale"
