@@ -241,19 +241,11 @@ def test_packs_render_while_the_block_runs_and_an_error_in_it_leaves_no_pack(dem
 
 
 def test_orders_do_not_depend_on_how_many_rows_are_made_into_records_at_a_time(demo_audit,
-                                                                                monkeypatch,
-                                                                                tmp_path):
+                                                                                monkeypatch):
     # The records are made a chunk of rows at a time to bound memory (RECORDS_CHUNK); chunks of
     # 1, 7 or 1,000,000 rows must give the same orders, in the same order, to the last
-    # character: on the demo plant, and on a tag repeated on 30 rows that chunks of 7 split.
-    from audit.pipeline import audit_register
-
-    lines = ["tag,nps,length,temp,layers,jacket,location,accessible,service,valves,flanges"]
-    lines += [f"L-{k % 3},4,{10 + k},{120 + 5 * k},none,,outdoor,yes,heat-conservation,0,1"
-              for k in range(30)]
-    path = tmp_path / "repeated.csv"
-    path.write_text("\n".join(lines) + "\n", encoding="utf-8")
-    repeated = audit_register([path])
+    # character: on the demo plant, and on tags repeated on ten rows each that chunks split.
+    repeated, _ = _repeated_tags_audit()
     for audit in (demo_audit, repeated):
         whole = build_orders(audit)
         assert len(whole) >= 3
@@ -296,3 +288,35 @@ def test_orders_share_their_repeated_words_and_keep_their_parts_rows(tmp_path):
            "quantity": 2.5, "text": "stale"}
     from audit.report.context import fmt
     assert _summed([row])[0] == dict(row, text=fmt(2.5)) and row["text"] == "stale"
+
+
+def _repeated_tags_audit():
+    """30 rows of three tags, ten rows each, interleaved (built once)."""
+    import tempfile
+
+    from audit.pipeline import audit_register
+
+    if not hasattr(_repeated_tags_audit, "audit"):
+        lines = ["tag,nps,length,temp,layers,jacket,location,accessible,service,valves,flanges"]
+        lines += [f"L-{k % 3},4,{10 + k},{120 + 5 * k},none,,outdoor,yes,heat-conservation,0,1"
+                  for k in range(30)]
+        with tempfile.TemporaryDirectory() as folder:
+            path = Path(folder) / "repeated.csv"
+            path.write_text("\n".join(lines) + "\n", encoding="utf-8")
+            _repeated_tags_audit.audit = audit_register([path])
+            _repeated_tags_audit.orders = repr(build_orders(_repeated_tags_audit.audit))
+    return _repeated_tags_audit.audit, _repeated_tags_audit.orders
+
+
+@settings(max_examples=25, deadline=None)  # an audit per run is built once; each example ~0.1 s
+@given(st.integers(min_value=1, max_value=31))
+def test_any_chunk_of_rows_gives_the_same_orders(size):
+    # Invariant of the chunked records (RECORDS_CHUNK): every chunk size, 1 to one more than
+    # the rows, gives the orders of a single chunk, character for character.
+    audit, whole = _repeated_tags_audit()
+    default = workorders.RECORDS_CHUNK
+    workorders.RECORDS_CHUNK = size
+    try:
+        assert repr(build_orders(audit)) == whole
+    finally:
+        workorders.RECORDS_CHUNK = default
