@@ -348,6 +348,16 @@ class PreparedItems:
         return self._with(np.ones(rows.size, bool),
                           {name: value[at] for name, value in self.fixed.items()}, at, rows=rows)
 
+    def measured(self, factor) -> PreparedItems:
+        """Every row with its layers' conductivity multiplied by ``factor`` [-] (one per
+        table row; NaN: as it is), the condition a field survey measured
+        (:func:`audit.survey.item_factors`); a repair or new insulation drops it again."""
+        factor = np.asarray(factor, float)[self.accepted]
+        fixed = dict(self.fixed)
+        fixed["layer_factor"] = self.fixed["layer_factor"] * np.where(
+            np.isfinite(factor), factor, 1.0)[:, None]
+        return self._with(self.accepted, fixed)
+
     def reinsulated(self, materials, thickness_m, *, cover_fittings: bool = True) -> PreparedItems:
         """Every row insulated with one intact layer of ``materials`` [name, or its index in
         ``self.index``] and ``thickness_m`` [m] instead of what it has (not wet, not damaged);
