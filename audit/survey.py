@@ -335,6 +335,10 @@ def survey_out(survey: pd.DataFrame) -> pd.DataFrame:
         "condition_factor [-]": survey["condition_factor"],
         "measured_heat_loss [W]": survey["measured_heat_loss_W"],
         "predicted_heat_loss [W]": survey["predicted_heat_loss_W"]})
-    for column in out.columns[9:]:
+    for column in out.columns[SURVEY_FIGURES:]:
         out[column] = significant(out[column].to_numpy(float))
     return out
+
+
+#: survey.csv's columns from this position on are figures (written to 6 significant figures).
+SURVEY_FIGURES = 9
