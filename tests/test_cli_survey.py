@@ -90,3 +90,19 @@ def test_us_units_convert_the_survey_columns_and_texts(tmp_path):
     assert deviation["air_temp [degF]"] == pytest.approx(68.0)  # the reading's own air
     # 1 m/s = 2.23694 mph (NIST SP 811: 1 mph = 0.44704 m/s exactly).
     assert deviation["wind [mph]"] == pytest.approx(1 / 0.44704, rel=1e-5)
+
+
+def test_validate_lists_each_unusable_reading_by_file_row_and_column(tmp_path, capsys):
+    (tmp_path / "reg.csv").write_text(REGISTER, encoding="utf-8")
+    (tmp_path / "ir.csv").write_text(READINGS + "P-1,44,20,1,50,1.7,2026-10-01\n"
+                                     "P-1,46,,,,0.9,2026-10-01\n", encoding="utf-8")
+    assert main(["validate", str(tmp_path / "reg.csv"), "--survey",
+                 str(tmp_path / "ir.csv")]) == 0
+    out = capsys.readouterr().out
+    assert "survey: 5 reading(s): 2 matched, 2 rejected, 1 with an unknown tag; 1 with " \
+           "warnings" in out
+    # CSV line numbers: the header is line 1, so the n-th reading is on line n + 1.
+    assert "ir.csv::3 (tag P-1): surface_temp: 185.0 degC is beyond the process" in out
+    assert 'ir.csv::4 (tag P-7): tag: "P-7" is not in the register' in out
+    assert 'ir.csv::5 (tag P-1): emissivity: "1.7"' in out
+    assert "ir.csv::6 (tag P-1): ambient/wind/rh: not recorded" in out
