@@ -128,10 +128,10 @@ def measured_against_predicted(points, unit: str = "°C", margin: float = np.nan
     axis = "".join(
         f'<line x1="{x(t):.1f}" y1="{top_y}" x2="{x(t):.1f}" y2="{top_y + size}" stroke="{GRID}"/>'
         f'<text x="{x(t):.1f}" y="{top_y + size + 12}" font-size="9" text-anchor="middle" '
-        f'fill="{INK}">{t:g}</text>'
+        f'fill="{INK}">{t + 0.0:g}</text>'
         f'<line x1="{left}" y1="{y(t):.1f}" x2="{left + size}" y2="{y(t):.1f}" stroke="{GRID}"/>'
         f'<text x="{left - 4}" y="{y(t) + 3:.1f}" font-size="9" text-anchor="end" '
-        f'fill="{INK}">{t:g}</text>' for t in ticks)
+        f'fill="{INK}">{t + 0.0:g}</text>' for t in ticks)  # + 0.0: no "-0"
     axis += (f'<text x="{left + size / 2:.1f}" y="{top_y + size + 26}" font-size="10" '
              f'text-anchor="middle" fill="{INK}">predicted as registered [{escape(unit)}]</text>'
              f'<text x="{left - 34}" y="{top_y + size / 2:.1f}" font-size="10" '

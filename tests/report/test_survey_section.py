@@ -3,6 +3,7 @@
 import xml.etree.ElementTree as ET
 
 import numpy as np
+import pypdf
 import pytest
 
 from audit.cautions import THERMOGRAPHY
@@ -81,3 +82,12 @@ def test_the_html_shows_the_section_with_its_cautions(surveyed, meta, tmp_path):
 def test_no_survey_no_section(hostile_audit, meta):
     assert build_context(hostile_audit, meta=meta, caution="c",
                          economics=hostile_audit.economics)["survey"] is None
+
+
+def test_the_pdf_carries_the_section_and_its_cautions(surveyed, meta, tmp_path):
+    write_reports(surveyed, tmp_path, meta=meta, formats=["pdf"], economics=surveyed.economics)
+    text = " ".join(" ".join(page.extract_text().split())
+                    for page in pypdf.PdfReader(tmp_path / "report.pdf").pages)
+    for words in ("Field survey", "What the register alone missed", "Worst deviations",
+                  "known emissivity", "predicted as registered"):
+        assert words in text, words
