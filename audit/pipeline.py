@@ -146,7 +146,9 @@ def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlation
             context.whole_item.measured_factor)
         extra = pd.concat([extra.reset_index(drop=True),
                            result_columns(context.survey, table.index),
-                           pd.DataFrame({"basis": np.where(basis, "measured", "register")})],
+                           pd.DataFrame({"basis": np.where(
+                               basis, "measured", np.where(table["status"] == "ok", "register",
+                                                           ""))})],
                           axis=1)
     states = context.states("")
     cases = dict.fromkeys(c.site for c in rules.checks.values() if c.enabled and c.site)

@@ -32,6 +32,9 @@ def test_demo_reconciles_its_survey_and_loses_no_reading(tmp_path):
     results = pd.read_csv(out / "results.csv")
     hot = results[results["tag"] == "QP-20-HP-4004"].iloc[0]
     assert hot["measured_temp [degC]"] == 62.0 and hot["condition_factor [-]"] > 2
+    assert hot["basis"] == "measured" and hot["missed_energy [MWh]"] > 0
+    # A rejected row has no basis: nothing was audited.
+    assert results.loc[results["status"] == "rejected", "basis"].isna().all()
 
 
 def test_an_unreadable_survey_exits_2_naming_it(tmp_path, capsys):
