@@ -63,6 +63,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     completed for the findings that insulation can fix, and ``remedy_action`` for those and
     the ``condition`` findings."""
     findings = _condition_actions(context.table, findings, kinds, params)
+    findings = _survey_actions(context, findings)
     if not len(findings) or not findings["fixable_by_insulation"].any() or not context.rules.thicknesses:
         return findings
     rules, table = context.rules, context.table
@@ -192,6 +193,21 @@ def _actions(insulate, to_spec, share, condition, covers, by_repair, material, t
     else:
         done.append("insulate" if material and thickness else "engineer")
     return ";".join(done + ["guard"] * bool(guard))
+
+
+def _survey_actions(context: CheckContext, findings: pd.DataFrame) -> pd.DataFrame:
+    """``findings`` with ``remedy_action`` ``replace-degraded`` on the survey-deviation
+    findings of the items the repair restores as installed (``CheckContext.measured_repair``):
+    the work order then counts the whole item, the most that opening it up can find."""
+    if context.measured_repair is None or not len(findings):
+        return findings
+    at = (findings["kind"].to_numpy(object) == "survey-deviation") & \
+        context.measured_repair[findings["row"].to_numpy(int)]
+    if not at.any():
+        return findings
+    out = findings.copy()
+    out.loc[at, "remedy_action"] = "replace-degraded"
+    return out
 
 
 def _condition_actions(table: pd.DataFrame, findings: pd.DataFrame, kinds: dict,
