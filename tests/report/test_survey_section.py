@@ -91,3 +91,15 @@ def test_the_pdf_carries_the_section_and_its_cautions(surveyed, meta, tmp_path):
     for words in ("Field survey", "What the register alone missed", "Worst deviations",
                   "known emissivity", "predicted as registered"):
         assert words in text, words
+
+
+def test_us_units_convert_the_section(surveyed, meta):
+    section = build_context(surveyed, meta=meta, caution="c", economics=surveyed.economics,
+                            units="us")["survey"]
+    # 5 K = 9 degF and 45 degC = 113 degF, exact by the definition of the scales.
+    assert (section["margin"], section["symbol"]) == ("9", "°F")
+    assert section["worst"][0]["measured"] == "113"
+    si = build_context(surveyed, meta=meta, caution="c", economics=surveyed.economics)["survey"]
+    # 1 MWh = 3.412142 MMBtu (Btu_IT, NIST SP 811); the report prints 4 significant figures.
+    assert float(section["missed"]["energy"]) == pytest.approx(
+        float(si["missed"]["energy"]) * 3.412142, rel=2e-3)
