@@ -24,7 +24,7 @@ from audit.engine.batch import take_items
 from audit.engine.cooling import freeze_time_stagnant, outlet_temperature_marched
 from audit.pipe_sizes import DEFAULT_SCHEDULE, WALL_MM_BY_SCHEDULE
 from audit.problems import Problem
-from audit.repeats import map_values
+from audit.repeats import map_values, per_distinct
 from audit.rules import Rules
 from audit.thermal import ZERO_CELSIUS, fluid_column, site_batch
 
@@ -138,8 +138,8 @@ def wall_thickness(table: pd.DataFrame) -> np.ndarray:
     schedule = _column(table, "schedule", "")
     schedule = np.where(schedule == "", DEFAULT_SCHEDULE, schedule)
     nps = table["nps"].fillna("").to_numpy(object)
-    from_table = np.array([WALL_MM_BY_SCHEDULE.get(s, {}).get(n, np.nan) / 1000.0
-                           for s, n in zip(schedule, nps)]) if len(table) else np.empty(0)
+    from_table = per_distinct(lambda s, n: WALL_MM_BY_SCHEDULE.get(s, {}).get(n, np.nan) / 1000.0,
+                              schedule, nps).astype(float)
     return np.where(np.isfinite(wall), wall, from_table)
 
 
@@ -210,7 +210,8 @@ def input_problems(table: pd.DataFrame, rules: Rules) -> list[tuple]:
     """``(severity, rows, column, problem)`` of the tracing, maintain and flow cells that
     contradict each other or the rules: a flow of a fluid without ``cp`` (reject), ``maintain``
     above the operating temperature of an untraced line (reject), tracing without
-    ``maintain`` (warning), a stagnant water line whose wall is not known (warning)."""
+    ``maintain`` (warning), a stagnant water line whose wall is not known (warning), tracing or
+    a flow on an item that is not a pipe (warning: not judged)."""
     flow = _column(table, "flow_kg_s")
     maintain = _column(table, "maintain_K")
     temp = table["temp_K"].to_numpy(float)
@@ -229,6 +230,13 @@ def input_problems(table: pd.DataFrame, rules: Rules) -> list[tuple]:
     found.append(("warning", stagnant_freezing(table, rules) & ~np.isfinite(wall_thickness(table)),
                   "wall", Problem("no-wall", "not known for a stagnant line that can freeze; its "
                                   "time to freeze is not computed",
-                                  "a wall thickness, or an NPS (schedule 40 assumed)")))
+                                  "a wall thickness, or an NPS of 1/8 to 24 (its schedule's "
+                                  "wall, schedule 40 if none given)")))
+    not_pipe = ~_pipe(table)
+    for column, given in (("tracing", _column(table, "tracing", "") != ""),
+                          ("flow", np.isfinite(flow))):
+        found.append(("warning", not_pipe & given, column, Problem(
+            "ignored", "given on an item that is not a pipe; the cold-weather checks judge "
+            "pipes only")))
     return [(severity, np.flatnonzero(mask), column, problem)
             for severity, mask, column, problem in found if mask.any()]

@@ -69,3 +69,13 @@ def test_bad_input_is_a_reason_naming_the_cell(tmp_path, rules):
     codes = set(problems_of(table).frame["code"])
     assert {"not-tracing", "no-heat-capacity", "maintain-above-temp", "no-maintain"} <= codes
     assert table.loc[table["tag"] == "OK", "schedule"].iloc[0] == "80"
+
+
+def test_tracing_and_flow_on_a_vessel_are_warned_as_not_judged(tmp_path, rules):
+    table = item_table(tmp_path, "tag,shape,od,length,temp,layers,jacket,tracing,maintain,flow,fluid\n"
+                       "V-1,vertical-vessel,2000,5,60,mineral-wool 50,aluminium-oxidised,"
+                       "electric 30,40,2,water\n", rules)
+    assert table["status"].iloc[0] == "ok"
+    warnings = table["warnings"].iloc[0]
+    assert "tracing: given on an item that is not a pipe" in warnings
+    assert "flow: given on an item that is not a pipe" in warnings
