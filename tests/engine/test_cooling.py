@@ -59,7 +59,10 @@ def test_freezing_time_with_u_held_constant_is_the_closed_form():
     t0, tf, ta = np.array([283.15, 278.15]), np.array([273.16, 273.16]), np.array([253.15, 263.15])
     g, c, h = np.array([0.3, 0.6]), np.array([11_000.0, 30_000.0]), np.array([2.0e5, 9.0e5])
     time = freeze_time_stagnant(t0, tf, ta, c, h, linear_loss(g, ta))
-    # Newton cooling of a lumped body: t = C/g ln((T0-Ta)/(Tf-Ta)); then H / (g (Tf - Ta)).
+    # Newton cooling of a lumped body: t = C/g ln((T0-Ta)/(Tf-Ta)), the form of ASHRAE
+    # Handbook -- Fundamentals (2009), ch. 23, eq. 1 for water cooling to its freezing point in
+    # an insulated pipe (C = rho cp pi D^2/4, 1/g the insulation's resistance per metre); then
+    # the latent heat H at the freezing point, H / (g (Tf - Ta)).
     expected = c / g * np.log((t0 - ta) / (tf - ta)) + h / (g * (tf - ta))
     np.testing.assert_allclose(time, expected, rtol=1e-12)
 
