@@ -113,3 +113,21 @@ def test_the_checks_are_judged_on_the_cold_design_day(rules):
     assert "common practice" in rules.checks["freeze-risk"].source.lower()
     assert "from memory" in validated_params(rules.checks["tracing-shortfall"],
                                              TRACING)["steam_source"].lower()
+
+
+def test_the_tracing_remedy_is_the_smallest_standard_thickness_that_suffices(tmp_path, rules):
+    from audit.pipeline import audit_table
+    line = "{tag},4,100,60,{layers},aluminium-oxidised,outdoor,electric 20 W/m,50,,"
+    table = item_table(tmp_path, HEAD + line.format(tag="SHORT", layers="mineral-wool 25") + "\n",
+                       rules)
+    found = audit_table(table, rules).findings
+    finding = found[found["check"] == "tracing-shortfall"].iloc[0]
+    assert finding["remedy_action"] == "insulate"
+    mm, material = finding["remedy_thickness [mm]"], finding["remedy_material"]
+    standard = [t * 1000 for t in rules.thicknesses]
+    thinner = max(t for t in standard if t < mm - 1e-9)
+    # Re-run the engine at the remedy and one standard step thinner: passes, then fails.
+    _, at = findings(tmp_path, rules, TRACING, "tracing-shortfall",
+                     [line.format(tag="AT", layers=f"{material} {mm:g}mm"),
+                      line.format(tag="THINNER", layers=f"{material} {thinner:g}mm")])
+    assert set(at["tag"]) == {"THINNER"}
