@@ -113,3 +113,25 @@ def test_no_freezing_where_the_air_is_above_the_freezing_point(context):
     times = freeze_times(context, "outdoor", 0.25)
     assert np.isinf(times[row(context, "STILL")])
     assert np.isnan(times[row(context, "FLOW")])  # flowing: not a stagnant line
+
+
+def test_thicker_insulation_lowers_the_need_delays_freezing_and_warms_the_outlet(tmp_path, rules):
+    # Beyond the critical radius (all these lines are well beyond it) more insulation loses
+    # less heat at every temperature: each answer must move monotonically with thickness.
+    thicknesses = (20, 40, 60, 100)
+    rows = []
+    for mm in thicknesses:
+        layers = f"mineral-wool {mm}"
+        rows += [f"T{mm},4,100,60,{layers},aluminium-oxidised,outdoor,electric 30,40,,,,",
+                 f"S{mm},2,40,8,{layers},aluminium-oxidised,outdoor,none,,,water,,",
+                 f"F{mm},6,600,80,{layers},aluminium-oxidised,outdoor,none,,5,water,,"]
+    table = item_table(tmp_path, HEAD + "\n".join(rows) + "\n", rules)
+    context = CheckContext(table, rules)
+    tags = table["tag"].to_numpy(object)
+    need = tracing_needed(context, "cold-design-day", 1.2)
+    freeze = freeze_times(context, "cold-design-day", 0.25)
+    outlet = outlet_temperatures(context, "cold-design-day")
+    pick = lambda values, kind: [values[tags == f"{kind}{mm}"][0] for mm in thicknesses]  # noqa: E731
+    assert np.all(np.diff(pick(need, "T")) < 0)
+    assert np.all(np.diff(pick(freeze, "S")) > 0)
+    assert np.all(np.diff(pick(outlet, "F")) > 0)
