@@ -14,6 +14,7 @@ import pandas as pd
 from audit.checks import check_kinds, run_checks, summarise_per_row, validate_checks
 from audit.checks.base import CheckContext
 from audit.checks.remedy import fill_remedies
+from audit.coldweather import result_columns as cold_weather_columns
 from audit.economics import Economics, EconomicRules, compute_economics
 from audit.economics import economic_rules as economic_rules_of
 from audit.io.readers import read_register, reader_options
@@ -134,7 +135,8 @@ def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlation
     economics = compute_economics(context, findings, rules, economic_rules=economic_rules,
                                   fuel_price=fuel_price, hours=hours)
     names, worst = summarise_per_row(findings, len(table))
-    extra = economics.per_row
+    extra = pd.concat([economics.per_row.reset_index(drop=True),
+                       cold_weather_columns(context, params)], axis=1)
     if readings is not None:
         findings["basis"], factor = finding_basis(findings, context)
         said = findings["basis"].eq("measured").to_numpy() & np.isfinite(factor)

@@ -62,6 +62,13 @@ def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> p
     fluid_rows, fluid_parts = _fluid_problems(out, rules)
     recorded.append(_recorded(out, "reject", fluid_rows, fluid_parts))
     out.iloc[fluid_rows, out.columns.get_loc("status")] = "rejected"
+    # Imported here: audit.coldweather builds on this module.
+    from audit.coldweather import input_problems
+    for severity, rows, column, problem in input_problems(out, rules):
+        if severity == "reject" or notes:
+            recorded.append(_recorded(out, severity, rows, [(column, None, problem)] * len(rows)))
+        if severity == "reject":
+            out.iloc[rows, out.columns.get_loc("status")] = "rejected"
     if notes:
         recorded += _note_defaults(out, rules)
     out.attrs["problems"] = problems_of(out).plus(pd.concat(recorded, ignore_index=True))

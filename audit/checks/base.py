@@ -123,6 +123,13 @@ class CheckContext:
             self._once[function] = function(self.table, self.rules) if rules else function(self.table)
         return self._once[function]
 
+    def memo(self, key, make: Callable):
+        """``make()``, computed once for this context per ``key`` (a hashable naming what
+        and under which case and parameters): a check and the results share its solves."""
+        if key not in self._once:
+            self._once[key] = make()
+        return self._once[key]
+
     def trial(self, items: PreparedItems) -> CheckContext:
         """A context of the trial ``items`` (derived from :meth:`prepared`): its table, the
         same rules, surface model and conductivity tables."""
