@@ -80,9 +80,11 @@ def outlet_temperature_marched(t_in, t_ref, length, capacity_rate, loss_per_m: L
     def slope(y):
         theta = sign * np.exp(y)
         q = loss_per_m((t_ref + theta)[:, None])[:, 0]
-        # An excess too small for a float (a very long run) has reached the air: it stays.
+        # An excess too small for a float (a very long run) has reached the air: it stays. So
+        # does one whose loss rounds to the wrong sign (t_ref + theta == t_ref in floats): a
+        # positive slope there would blow y up.
         with np.errstate(invalid="ignore", divide="ignore"):
-            return np.where(moving & (theta != 0), -(q / theta) / capacity_rate, 0.0)
+            return np.where(moving & (q * theta > 0), -(q / theta) / capacity_rate, 0.0)
 
     y = np.log(magnitude)
     for _ in range(steps):
