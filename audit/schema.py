@@ -169,6 +169,8 @@ SCHEMA: tuple[RegisterColumn, ...] = (
     RegisterColumn("fluid", _item("fluid", "str", "what the item holds, a `[fluid.NAME]` of "
                                   "the rules; empty if not given"), parse="name",
                    selectable=True),
+    _quantity("flow", "flow_kg_s", "mass flow in the line (NaN if not given)", "kg/s", "kg/s",
+              "a mass flow", _NOT_NEGATIVE, selectable=True, calc_flag=False),
 )
 
 BY_NAME = {column.name: column for column in SCHEMA}
