@@ -239,7 +239,7 @@ def _add_fixed_lines(rows: list[list]) -> None:
          "stainless-steel", "0", "0", "8760", "cold", "no", "2011", "thin foam"],
         # a hot line lagged with wool alone, above wool's limit
         ["QP-30-RE-2903", "U30", "QP-30-PID-004", "reactor effluent", "10", "60", "horizontal",
-         "1040 F", "mineral-wool 4in", "aluminium-oxidised", "outdoor-annual-mean", "no",
+         "1250 F", "mineral-wool 4in", "aluminium-oxidised", "outdoor-annual-mean", "no",
          "intact", "", "carbon-steel", "0", "2", "8400", "heat-conservation", "yes", "1995", ""],
         # a wet line in the CUI window, cycling
         ["QP-50-HE-2904", "U50", "QP-50-PID-030", "heated fuel oil", "6", "80", "horizontal",
