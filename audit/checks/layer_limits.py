@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from audit.checks.base import Verdict, rule_source
+from audit.checks.base import CheckKind, Verdict, rule_source
 from audit.repeats import per_distinct
 from audit.thermal import ZERO_CELSIUS
 
@@ -56,3 +56,21 @@ def worst_layer(context, check, limit_of, colder: bool) -> Verdict:
     return Verdict(rows, value=worst_temp[rows] - ZERO_CELSIUS,
                    limit=worst_limit[rows] - ZERO_CELSIUS, unit="degC", limit_source=sources,
                    facts={"material": worst_name[rows]})
+
+
+def layer_limit_kind(limit_of, colder: bool, face: str, beyond: str, limit: str, remedy: str,
+                     description: str) -> CheckKind:
+    """The check kind holding each layer's inner face to ``limit_of(material)``: its findings
+    say "<material> <face> face at T degC, <beyond> its <limit> of L degC"; insulation added
+    outside does not move the inner face, so every remedy must pass it too."""
+    def evaluate(context, check, params):
+        return worst_layer(context, check, limit_of, colder=colder)
+
+    def word(context, check, params, verdict):
+        message = [f"{name} {face} face at {value:.0f} degC, {beyond} its {limit} of "
+                   f"{bound:.0f} degC" for name, value, bound in zip(
+                       verdict.facts["material"], verdict.value, verdict.limit)]
+        return message, remedy
+
+    return CheckKind(evaluate=evaluate, word=word, params={}, fixable_by_insulation=False,
+                     description=description, remedy_must_pass=True)

@@ -9,25 +9,14 @@ outside does not warm the inner face, so the remedy is a material rated for the 
 
 from __future__ import annotations
 
-from audit.checks.base import CheckKind
-from audit.checks.layer_limits import worst_layer
+from audit.checks.layer_limits import layer_limit_kind
 
 NAME = "layer-too-cold"
 
-
-def evaluate(context, check, params):
-    return worst_layer(context, check, lambda material: material.min_temp, colder=True)
-
-
-def word(context, check, params, verdict):
-    message = [f"{name} cold face at {cold:.0f} degC, below its minimum use temperature of "
-               f"{limit:.0f} degC" for name, cold, limit in zip(
-                   verdict.facts["material"], verdict.value, verdict.limit)]
-    return message, ("replace the layer with a material rated for the temperature (for "
-                     "cryogenic service, one whose minimum use temperature is below the "
-                     "process temperature), with a sealed vapour retarder")
-
-
-KIND = CheckKind(evaluate=evaluate, word=word, params={}, fixable_by_insulation=False,
-                 description="a layer whose cold face is below its material's minimum use temperature",
-                 remedy_must_pass=True)
+KIND = layer_limit_kind(
+    lambda material: material.min_temp, colder=True, face="cold", beyond="below",
+    limit="minimum use temperature",
+    remedy=("replace the layer with a material rated for the temperature (for cryogenic "
+            "service, one whose minimum use temperature is below the process temperature), "
+            "with a sealed vapour retarder"),
+    description="a layer whose cold face is below its material's minimum use temperature")

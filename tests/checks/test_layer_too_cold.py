@@ -2,25 +2,12 @@
 
 import pytest
 
-from audit.checks import run_checks
 from audit.checks.base import CheckContext
-from audit.io.readers import read_register
 from audit.rules import load_rules
-from audit.thermal import resolve_names
+from support import check_findings, item_table, rules_with_material
 
 C = 273.15
-
-
-def context_for(tmp_path, rows, rules):
-    path = tmp_path / "reg.csv"
-    path.write_text("tag,nps,length,temp,layers,jacket,location\n" + rows, encoding="utf-8")
-    table = resolve_names(read_register(path, aliases=rules.aliases), rules)
-    return CheckContext(table, rules)
-
-
-def too_cold(context):
-    found = run_checks(context)
-    return found[found["check"] == "layer-too-cold"]
+NAME = "layer-too-cold"
 
 
 def test_inner_layer_at_process_temperature_either_side_of_min_temp(tmp_path):
@@ -29,7 +16,7 @@ def test_inner_layer_at_process_temperature_either_side_of_min_temp(tmp_path):
     limit = rules.materials["polyisocyanurate"].min_temp - C
     rows = (f"A,2,5,{limit + 0.5},polyisocyanurate 100mm,aluminium-oxidised,indoor\n"
             f"B,2,5,{limit - 0.5},polyisocyanurate 100mm,aluminium-oxidised,indoor\n")
-    found = too_cold(context_for(tmp_path, rows, rules))
+    found = check_findings(tmp_path, rows, rules, NAME)
     assert list(found["tag"]) == ["B"]
     assert found["limit"].iloc[0] == pytest.approx(limit)
     assert found["value"].iloc[0] == pytest.approx(limit - 0.5)
@@ -43,18 +30,14 @@ def test_outer_layer_cold_face_from_the_engine(tmp_path):
     # whose min_temp sits 1 K either side of it must be flagged exactly on one side.
     rules = load_rules()
     rows = "A,6,10,-160,cellular-glass 50mm + polyisocyanurate 50mm,aluminium-oxidised,indoor\n"
-    context = context_for(tmp_path, rows, rules)
-    cold_face = context.states(rules.checks["layer-too-cold"].site)["interface_1_K"].iloc[0] - C
+    table = item_table(tmp_path, "tag,nps,length,temp,layers,jacket,location\n" + rows, rules)
+    states = CheckContext(table, rules).states(rules.checks[NAME].site)
+    cold_face = states["interface_1_K"].iloc[0] - C
     assert -160 < cold_face < 20  # a real interface, between process and air
     for offset, flagged in ((-1.0, False), (+1.0, True)):
-        user = tmp_path / f"rules{offset}"
-        user.mkdir()
-        pir = rules.materials["polyisocyanurate"]
-        k_rows = ", ".join(f"[{t - C:.6f}, {k}]" for t, k in pir.k)
-        (user / "pir.toml").write_text(
-            f'[material.polyisocyanurate]\nk = [{k_rows}]\nmax_temp = 149\n'
-            f'min_temp = {cold_face + offset}\nsource = "test"\n', encoding="utf-8")
-        found = too_cold(context_for(tmp_path, rows, load_rules([user])))
+        layered = rules_with_material(tmp_path / f"rules{offset}", rules, "polyisocyanurate",
+                                      min_temp=cold_face + offset)
+        found = check_findings(tmp_path, rows, layered, NAME)
         assert (len(found) == 1) == flagged, offset
 
 
@@ -62,13 +45,11 @@ def test_a_material_without_min_temp_is_not_judged(tmp_path):
     rules = load_rules()
     assert rules.materials["aerogel-blanket"].min_temp != rules.materials["aerogel-blanket"].min_temp
     rows = "A,2,5,-190,aerogel-blanket 20mm,aluminium-oxidised,indoor\n"
-    assert too_cold(context_for(tmp_path, rows, rules)).empty
+    assert check_findings(tmp_path, rows, rules, NAME).empty
 
 
 def test_missing_insulation_is_not_a_cold_layer(tmp_path):
-    rules = load_rules()
-    path = tmp_path / "reg.csv"
-    path.write_text("tag,nps,length,temp,layers,condition,location\n"
-                    "A,2,5,-196,polyisocyanurate 50mm,missing,indoor\n", encoding="utf-8")
-    context = CheckContext(resolve_names(read_register(path), rules), rules)
-    assert too_cold(context).empty
+    rows = "A,2,5,-196,polyisocyanurate 50mm,missing,indoor\n"
+    found = check_findings(tmp_path, rows, load_rules(), NAME,
+                           head="tag,nps,length,temp,layers,condition,location")
+    assert found.empty
