@@ -228,12 +228,14 @@ def _run(args) -> int:
 
 def _demo(args) -> int:
     folder = shipped_dir("sample_data")
+    cold_area = folder / "demo_cold_area.xlsx"  # the LNG unit and refrigerated hall, both surveys
     if args.second_survey:
         return _audit_and_write([folder / "demo_line_list_resurvey.xlsx",
-                                 folder / "demo_equipment_resurvey.xlsx"], args)
+                                 folder / "demo_equipment_resurvey.xlsx", cold_area], args)
     if args.survey is None:  # the demo plant's invented infrared survey
         args.survey = [folder / "demo_survey.csv"]
-    return _audit_and_write([folder / "demo_line_list.xlsx", folder / "demo_equipment.xlsx"], args)
+    return _audit_and_write([folder / "demo_line_list.xlsx", folder / "demo_equipment.xlsx",
+                             cold_area], args)
 
 
 def _audit_and_write(registers, args) -> int:

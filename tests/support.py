@@ -18,6 +18,29 @@ def item_table(tmp_path, text, rules, *, name="reg.csv"):
     return resolve_names(read_register(path, **reader_options(rules)), rules)
 
 
+def check_findings(tmp_path, rows, rules, check, *,
+                   head="tag,nps,length,temp,layers,jacket,location"):
+    """The findings of ``check`` (all checks run) on a register of ``head`` and CSV ``rows``."""
+    from audit.checks import run_checks
+    from audit.checks.base import CheckContext
+    found = run_checks(CheckContext(item_table(tmp_path, head + "\n" + rows, rules), rules))
+    return found[found["check"] == check]
+
+
+def rules_with_material(folder, rules, name, **limits):
+    """The rules with material ``name`` redefined in a --rules ``folder``: its shipped k table
+    and the use-temperature ``limits`` given (``max_temp``, ``min_temp``, degC)."""
+    folder.mkdir()
+    k_rows = ", ".join(f"[{t - 273.15:.6f}, {k}]" for t, k in rules.materials[name].k)
+    keys = {"max_temp": rules.materials[name].max_temp - 273.15, **limits}
+    (folder / "material.toml").write_text(
+        f"[material.{name}]\nk = [{k_rows}]\n"
+        + "".join(f"{key} = {value}\n" for key, value in keys.items())
+        + 'source = "test"\n', encoding="utf-8")
+    from audit.rules import load_rules
+    return load_rules([folder])
+
+
 def refused_register(path, pattern, **kwargs):
     """read_register(path) must raise a RegisterError naming the file and saying what to do."""
     with pytest.raises(RegisterError, match=pattern) as info:

@@ -18,7 +18,7 @@ from audit.checks.base import (FINDING_COLUMNS, CheckContext, CheckKind, empty_f
 from audit.errors import RuleError
 from audit.rules import SEVERITIES, Rules
 
-_HELPERS = {"base", "remedy", "repairs"}
+_HELPERS = {"base", "remedy", "repairs", "layer_limits"}
 
 
 def check_kinds() -> dict[str, CheckKind]:

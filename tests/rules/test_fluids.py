@@ -136,3 +136,15 @@ def test_steel_wall_heat_capacity_agrees_with_ht(rules):
         ours = rules.metals[metal].density * rules.metals[metal].cp
         theirs = ht.insulation.rho_material(name) * ht.insulation.Cp_material(name)
         assert ours == pytest.approx(theirs, rel=0.05)
+
+
+def test_a_negative_flow_is_rejected_naming_the_cell_and_the_range(tmp_path, rules):
+    register = ("tag,nps,length,temp,layers,jacket,location,fluid,flow\n"
+                "NEG,2,10,-170,polyisocyanurate 100mm,pvc,outdoor,lng,-0.5 kg/s\n"
+                "ZERO,2,10,-170,polyisocyanurate 100mm,pvc,outdoor,lng,0\n"
+                "LBH,2,10,-170,polyisocyanurate 100mm,pvc,outdoor,lng,7200 lb/h\n")
+    table = item_table(tmp_path, register, rules)
+    assert list(table["status"]) == ["rejected", "ok", "ok"]
+    assert table["reason"][0] == 'flow: "-0.5 kg/s" is out of range; expected a mass flow at least 0 kg/s'
+    # 7200 lb/h = 7200 * 0.45359237 kg / 3600 s (NIST SP 811: 1 lb = 0.45359237 kg, exact)
+    assert table["flow_kg_s"][2] == pytest.approx(7200 * 0.45359237 / 3600, rel=1e-12)
