@@ -2,6 +2,7 @@
 
 from dataclasses import replace
 
+import pandas as pd
 import pytest
 
 from audit.checks.base import validated_params
@@ -55,3 +56,15 @@ def refused_parameter(rules, name, kind, key, value):
     with pytest.raises(RuleError) as info:
         validated_params(check, kind)
     assert f"check.{name}.{key}" in str(info.value)
+
+
+def readings(*rows):
+    """Survey readings as :func:`audit.io.readers.survey.read_survey` returns them, from
+    rows of (tag, surface [degC], air [degC], wind [m/s], emissivity); RH 50 %."""
+    frame = pd.DataFrame(rows, columns=["tag", "surface", "air", "wind_m_s", "emissivity"])
+    return pd.DataFrame({
+        "source": [f"s.csv::{i + 2}" for i in range(len(rows))], "tag": frame["tag"],
+        "surface_temp_K": frame["surface"] + 273.15, "ambient_K": frame["air"] + 273.15,
+        "wind_m_s": frame["wind_m_s"], "rh_pct": 50.0, "emissivity": frame["emissivity"],
+        "date": "2026-11-03", "note": "", "position": "", "status": "ok", "reason": "",
+        "warnings": ""})

@@ -16,7 +16,8 @@ FILES = {fmt: [DATA / f"demo_line_list.{fmt}", DATA / f"demo_equipment.{fmt}",
                DATA / f"demo_cold_area.{fmt}"] for fmt in ("csv", "xlsx")}
 #: The shipped checks that are enabled (rules/checks-*.toml, rules/spec-demo.toml).
 CHECKS = ["touch-temperature", "condensation", "layer-overheat", "heat-loss-limit", "below-spec",
-          "cui-window", "condition", "uninsulated-fittings", "cold-touch", "layer-too-cold"]
+          "cui-window", "condition", "uninsulated-fittings", "cold-touch", "layer-too-cold",
+          "tracing-shortfall", "freeze-risk", "temperature-drop"]
 #: The bad rows written on purpose (tools/make_demo_plant.py, BAD_ROWS and EQUIPMENT): the
 #: column each reason names.
 BAD_COLUMNS = ["length", "temp", "nps", "layers", "damaged", "accessible", "layers", "jacket",
@@ -44,7 +45,7 @@ def both():
 def test_sizes(audit):
     fmt, a = audit
     sources = a.results["source"].str.split(":").str[0]
-    assert (sources == f"demo_line_list.{fmt}").sum() == 300
+    assert (sources == f"demo_line_list.{fmt}").sum() == 310  # 300, and 10 cold-weather lines
     assert (sources == f"demo_equipment.{fmt}").sum() == 40
     assert (sources == f"demo_cold_area.{fmt}").sum() == 15
 
@@ -105,6 +106,22 @@ def test_generator_reproduces_the_files(tmp_path):
             assert path.read_bytes() == shipped.read_bytes(), path.name
         else:
             assert _cells(path) == _cells(shipped), path.name
+
+
+def test_cold_weather_lines_show_both_sides_of_each_check(audit):
+    # tools/make_demo_plant.py, COLD_WEATHER_LINES: each check has an item that passes beside
+    # one that fails, and the heated pump house's branch never freezes (indoor cold case).
+    a = audit[1]
+    flagged = {c: set(a.findings.loc[a.findings["check"] == c, "tag"])
+               for c in ("tracing-shortfall", "freeze-risk", "temperature-drop")}
+    assert {"QP-50-FO-2951", "QP-50-FO-2952"} <= flagged["tracing-shortfall"]
+    assert not {"QP-50-FO-2950", "QP-50-BI-2953"} & flagged["tracing-shortfall"]
+    assert "QP-50-FW-2961" in flagged["freeze-risk"]
+    assert not {"QP-50-FW-2960", "QP-50-FW-2962"} & flagged["freeze-risk"]
+    assert "QP-50-FO-2970" in flagged["temperature-drop"]
+    assert "QP-50-FO-2971" not in flagged["temperature-drop"]
+    hours = a.results.set_index("tag")["time_to_freeze [h]"]
+    assert hours["QP-50-FW-2960"] > 8 and pd.isna(hours["QP-50-FW-2962"])
 
 
 def test_the_cold_area_shows_boil_off_and_keeps_heat_lost_and_gained_apart(audit):

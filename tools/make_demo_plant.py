@@ -42,11 +42,15 @@ OUT = Path(__file__).resolve().parent.parent / "sample_data"
 #: A fixed creation date, so that the XLSX files do not change from run to run.
 CREATED = datetime.datetime(2026, 1, 15, 8, 0, 0)
 
+#: The cold-weather columns (heat tracing, freeze protection, temperature drop), after every
+#: other column: empty on every line but those of :func:`_add_cold_weather_lines`.
+COLD_WEATHER_HEADERS = ["Tracing", "Maintain [degC]", "Flow [kg/s]", "Fluid", "Schedule"]
+
 LINE_HEADERS = ["Line No", "Unit", "P&ID", "Stream", "Size", "Length [m]", "Orientation",
                 "Op Temp [degC]", "Lagging", "Cladding", "Location", "Access",
                 "Insul Condition", "Damaged [%]", "Pipe Material", "Bare Valves",
                 "Bare Flanges", "Op Hours", "Purpose", "Cyclic", "Install Year", "Remarks",
-                "Elevation [m]"]
+                "Elevation [m]", *COLD_WEATHER_HEADERS]
 
 EQUIPMENT_HEADERS = ["Equipment Tag", "Description", "Type", "Diameter [mm]", "Tan Tan [m]",
                      "Surface Area [m^2]", "Head Type", "Orientation", "Op Temp [degF]",
@@ -197,6 +201,7 @@ def line_rows(rng) -> list[list]:
             str(rng.choice(["yes", "no", "no", "no", ""])),
             str(int(rng.integers(1986, 2024))), ""])
     _add_fixed_lines(rows)
+    cold_weather = _add_cold_weather_lines(rows)
     for position, (header, value) in BAD_ROWS.items():
         rows[position][LINE_HEADERS.index(header)] = value
         rows[position][LINE_HEADERS.index("Remarks")] = "check with site"
@@ -204,6 +209,8 @@ def line_rows(rng) -> list[list]:
     # A tag entered twice (the second is a later revision of the same line): kept, with a warning.
     rows[120][0] = rows[119][0]
     _add_elevations(rows, LINE_HEADERS.index("Access"), (*(f"{x:g}" for x in RACK_LEVELS_M), "0.5"))
+    for row in rows:
+        row.extend(cold_weather.get(row[0], [""] * len(COLD_WEATHER_HEADERS)))
     return rows
 
 
@@ -379,6 +386,67 @@ EQUIPMENT = [
      "outdoor-annual-mean", "no", "intact", "", "carbon-steel", "U30", "8400",
      "heat-conservation", "no", "2008", "D-30-308"),
 ]
+
+
+#: Cold-weather lines of utilities unit U50: the base cells, then the COLD_WEATHER_HEADERS cells.
+COLD_WEATHER_LINES = [
+    # Heated fuel oil kept pumpable by electric tracing: intact, it holds; the same build-up
+    # with wet lagging, and a damaged line on one cable, do not (tracing-shortfall).
+    (["QP-50-FO-2950", "U50", "QP-50-PID-031", "heated fuel oil", "4", "80", "horizontal", "70",
+      "mineral-wool 50mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "0", "0", "8760", "heat-conservation", "no", "2012", "traced"],
+     ["electric 2x15 W/m", "50", "", "fuel-oil", ""]),
+    (["QP-50-FO-2951", "U50", "QP-50-PID-031", "heated fuel oil", "4", "60", "horizontal", "70",
+      "mineral-wool 50mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "wet", "",
+      "carbon-steel", "0", "0", "8760", "heat-conservation", "no", "2012", "traced, lagging wet"],
+     ["electric 2x15 W/m", "50", "", "fuel-oil", ""]),
+    (["QP-50-FO-2952", "U50", "QP-50-PID-032", "heated fuel oil", "3", "45", "horizontal", "65",
+      "mineral-wool 40mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "damaged", "20",
+      "carbon-steel", "1", "2", "8760", "heat-conservation", "no", "2009", "traced"],
+     ["electric 25 W/m", "50", "", "fuel-oil", ""]),
+    # Steam-traced bitumen branch: a 3/4 in tracer on its own steam holds it.
+    (["QP-50-BI-2953", "U50", "QP-50-PID-033", "bitumen", "2", "30", "horizontal", "170",
+      "mineral-wool 65mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "0", "0", "8760", "heat-conservation", "no", "2015", "steam traced"],
+     ["steam 3/4in 185 degC", "100", "", "", ""]),
+    # A traced water line whose tracing is off the map: 3/4 in tracers are listed, 1 in is not.
+    (["QP-50-TW-2954", "U50", "QP-50-PID-034", "tempered water", "2", "25", "horizontal", "60",
+      "mineral-wool 40mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "0", "0", "8760", "heat-conservation", "no", "2015", "steam traced"],
+     ["steam 1in 150 degC", "40", "", "water", ""]),
+    # Firewater: stagnant, untraced. The main holds through the cold day; a hydrant branch with
+    # thin lagging and the same branch in the heated pump house show the two ends.
+    (["QP-50-FW-2960", "U50", "QP-50-PID-040", "firewater", "8", "400", "horizontal", "8",
+      "mineral-wool 50mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "0", "0", "8760", "frost", "no", "2001", "stagnant firewater main"],
+     ["none", "", "", "water", ""]),
+    (["QP-50-FW-2961", "U50", "QP-50-PID-040", "firewater", "1-1/2", "35", "horizontal", "8",
+      "mineral-wool 25mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "damaged", "10",
+      "carbon-steel", "0", "0", "8760", "frost", "no", "2001", "hydrant branch"],
+     ["none", "", "", "water", "80"]),
+    (["QP-50-FW-2962", "U50", "QP-50-PID-041", "firewater", "1-1/2", "20", "horizontal", "8",
+      "mineral-wool 25mm", "aluminium-oxidised", "indoor", "no", "intact", "",
+      "carbon-steel", "0", "0", "8760", "frost", "no", "2001", "pump house"],
+     ["none", "", "", "water", ""]),
+    # The long fuel-oil transfer line to the tank farm: untraced, it arrives too cold on the
+    # cold day at its flow; the short loading line arrives warm enough (temperature-drop).
+    (["QP-50-FO-2970", "U50", "QP-50-PID-035", "heated fuel oil", "6", "650", "horizontal", "95",
+      "mineral-wool 40mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "2", "4", "8760", "heat-conservation", "no", "1998", "transfer line"],
+     ["none", "70", "0.6", "fuel-oil", ""]),
+    (["QP-50-FO-2971", "U50", "QP-50-PID-036", "heated fuel oil", "4", "90", "horizontal", "95",
+      "mineral-wool 50mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "0", "2", "8760", "heat-conservation", "no", "2016", "loading line"],
+     ["none", "70", "2.5", "fuel-oil", ""]),
+]
+
+
+def _add_cold_weather_lines(rows: list[list]) -> dict[str, list[str]]:
+    """Append the cold-weather lines (traced lines, stagnant firewater, long fuel-oil lines) to
+    ``rows``; their cold-weather cells by tag, for after the elevations."""
+    for base, _ in COLD_WEATHER_LINES:
+        rows.append(list(base))
+    return {base[0]: list(cells) for base, cells in COLD_WEATHER_LINES}
 
 
 def equipment_rows() -> list[list]:

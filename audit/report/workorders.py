@@ -402,7 +402,8 @@ def _description(item) -> list[tuple[str, str]]:
 INSULATE = "insulate to the remedy thickness (whole item)"
 REINSTATE = {"reinstate-damaged": "reinstate damaged share as installed",
              "replace-wet": "replace wet insulation as installed",
-             "reinstate-missing": "reinstate missing insulation as installed"}
+             "reinstate-missing": "reinstate missing insulation as installed",
+             "replace-degraded": "replace insulation the survey found degraded, as installed"}
 GUARD = "personnel guard (alternative to insulation)"
 #: workorders.csv quantity columns
 QUANTITY_COLUMNS = ["insulate [m]", "insulate [m2]", "reinstate [m]", "reinstate [m2]",
