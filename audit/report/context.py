@@ -35,9 +35,9 @@ ECONOMIC_COLUMNS = (("annual_energy", "MWh"), ("annual_fuel", "MWh"), ("annual_c
                     ("annual_co2", "t"), ("saving_if_repaired", "MWh"), ("boil_off", "kg/h"),
                     ("annual_boil_off", "t"))
 #: Unit labels the report's text shows, per unit system
-LABELS = {"si": {"power": "kW", "energy": "MWh", "co2": "t", "heat": "W", "temp": "°C",
-                 "mass_flow": "kg/h"},
-          "us": {"power": "kBtu/h", "energy": "MMBtu", "co2": "ton", "heat": "Btu/h",
+LABELS = {"si": {"power": "kW", "energy": "MWh", "co2": "t", "mass": "t", "heat": "W",
+                 "temp": "°C", "mass_flow": "kg/h"},
+          "us": {"power": "kBtu/h", "energy": "MMBtu", "co2": "ton", "mass": "ton", "heat": "Btu/h",
                  "temp": "°F", "mass_flow": "lb/h"}}
 
 
