@@ -1,11 +1,28 @@
-"""Planning a work order: access, asbestos survey, labour, cost, sequence and a stable key.
+"""Planning the work on each item: what to do (quantities), access, asbestos survey, labour
+hours, what it costs, the order of work, and a stable work-order key.
 
 The rules are the ``[planning]`` table of the rule files (grammar at the top of the shipped
 ``rules/planning.toml``), layered by the one loader and validated here by the one validator
-(:func:`audit.rules.keys.convert_keys`).  What an order is to do comes from the work-order
-quantities (:mod:`audit.report.workorders`); nothing here computes physics.  Materials are
-costed with the repair tables of ``[economics.repair]`` (:mod:`audit.economics.repair`), the
-labour with the hour tables of ``[planning.labour]`` in the same grid.
+(:func:`audit.rules.keys.convert_keys`).  What a register row is to have done is counted from
+its findings' remedies (:func:`row_quantities`); nothing here computes physics.
+
+One number per row: :func:`plan_rows` prices each planned row once, and that ``repair_cost``
+is what results.csv shows, what the payback divides (:mod:`audit.economics`) and what its work
+order adds up (:func:`plan_order`, the sum over the tag's rows)::
+
+    repair_cost = installed_cost + guard_cost + scaffold_cost
+    installed_cost  insulation and fitting covers at the [economics.repair] tables, which are
+                    INSTALLED rates: material, jacket and the insulators' labour included
+    guard_cost      personnel guards that are the row's only work: [planning.guard] material
+                    + [planning.labour] hours x rate
+    scaffold_cost   a row above the access height: scaffold hire + erect-and-strike hours x rate
+
+A guard offered as the alternative to the insulation or covers of the same row (a check's
+``guard_allowed``) is priced on its own, ``guard_alternative_cost``, and is in neither the
+repair cost nor the hours: the order is costed as the insulation it lists first.
+``labour [h]`` is every crew hour of that work for scheduling (insulation and covers from the
+hour tables of ``[planning.labour]``, guards, scaffold); the insulation and cover hours are
+not priced again, their labour being inside the installed rates.
 """
 
 from __future__ import annotations
@@ -14,10 +31,12 @@ import hashlib
 from dataclasses import dataclass
 
 import numpy as np
+import pandas as pd
 
+from audit.checks.condensation import ICE
 from audit.economics.repair import cover_cost, insulation_cost
 from audit.errors import Problem, RuleError
-from audit.rules import Rules
+from audit.rules import SEVERITIES, Rules
 from audit.rules.converters import list_of, quantity, text
 from audit.rules.keys import convert_keys
 from audit.rules.loader import PLANNING
@@ -142,44 +161,247 @@ def work_order_key(tag, checks) -> str:
     return "WO-" + hashlib.sha256(text.encode("utf-8")).hexdigest()[:12].upper()
 
 
-def _quantity_tables(table, q: dict, thickness_m: float):
-    """(materials cost, hours) of one quantity row from a per-metre/per-m2 table pair."""
-    pipe, count = q["unit"] == "m", float(q["quantity"])
-    od = np.array([q["od_m"] if np.isfinite(q["od_m"]) else np.nan])
-    return insulation_cost(table, np.array(["pipe" if pipe else "surface"], object), od,
-                           np.array([count if pipe else np.nan]),
-                           np.array([np.nan if pipe else count]), thickness_m)[0]
+
+#: A row is planned (gets quantities, hours and a cost) when its worst finding is at least
+#: this severity; ``info`` findings alone (a CUI score at the bottom band) make no work.
+PLANNED_FROM = "low"
+
+#: Work words of the quantities, by remedy action (audit/checks/remedy.py ``ACTIONS``).
+INSULATE = "insulate to the remedy thickness (whole item)"
+REINSTATE = {"reinstate-damaged": "reinstate damaged share as installed",
+             "replace-wet": "replace wet insulation as installed",
+             "reinstate-missing": "reinstate missing insulation as installed"}
+GUARD = "personnel guard (alternative to insulation)"
+
+#: Per-row planning columns of the results (``repair_cost`` is the economics' column, the same
+#: number: :attr:`RowPlans.repair_cost`).
+ROW_COLUMNS = ["scaffold", "asbestos_survey", "labour [h]", "installed_cost", "guard_cost",
+               "scaffold_cost", "guard_alternative_cost", "planning_note"]
+
+#: The words of ``scaffold`` when the register gives no elevation.
+UNKNOWN = "unknown"
+NO_ELEVATION = "elevation not given: access not assessed, no scaffold costed"
+NO_YEAR = "install_year not given: presumed to contain asbestos until surveyed"
+NO_INSPECTION_HOURS = ("CUI inspection: its hours and the reinstatement after it are not in "
+                       "the rules' tables, not counted")
 
 
-def labour_and_materials(quantities: list[dict], installed_m: float, repair,
-                         plan: PlanningRules) -> tuple[float, float]:
-    """Insulator hours [h] and materials cost [currency] of one register row's quantities.
+def text_of(value) -> str:
+    """A register cell as text, empty for a missing one."""
+    if value is None or (isinstance(value, float) and not np.isfinite(value)):
+        return ""
+    return str(value).strip()
 
-    Insulation to a remedy thickness is priced at that thickness; a reinstatement as
-    installed at ``installed_m`` (total installed thickness [m]); covers per fitting by size;
-    guards per unit.  NaN where a size or thickness lies outside the tables.
+
+def size_words(item) -> str:
+    """``NPS 4``, ``OD 610 mm`` or ``size not given``."""
+    nps, od = text_of(item["nps"]), float(item["od_m"])
+    if nps:
+        return f"NPS {nps}"
+    return f"OD {od * 1000:.0f} mm" if np.isfinite(od) else "size not given"
+
+
+def layers_words(item) -> str:
+    """The installed layers, innermost first, or ``none (bare)``."""
+    materials, thicknesses = item["layer_materials"], item["layer_thicknesses_m"]
+    if not isinstance(materials, tuple) or not materials:
+        return "none (bare)"
+    return " + ".join(f"{m} {t * 1000:.0f} mm" for m, t in zip(materials, thicknesses))
+
+
+def _actions(findings: list[dict]) -> set[str]:
+    return {a for f in findings for a in str(f.get("remedy_action") or "").split(";") if a}
+
+
+def row_quantities(item, findings: list[dict], outer_area: float, cold: bool) -> list[dict]:
+    """What to buy and fit for one register row, from its findings' remedies: dicts of
+    ``work``, ``size``, ``material``, ``thickness_mm`` (NaN: as installed), ``quantity``,
+    ``unit`` (``m``, ``m²``, ``pcs``) and ``od_m`` (inf when not given, so sizes sort by
+    diameter).
+
+    Insulation to a remedy thickness covers the whole item (the thickest any of its findings
+    asks; each is at least the installed thickness and the specification's), its fittings
+    included; otherwise the bare parts are made good as installed (the damaged share, wet or
+    missing insulation) and the fittings covered, where a remedy or a condition finding says
+    so.  A personnel guard offered beside the insulation (the check's ``guard_allowed``) is
+    counted on its own line: over the fittings of an otherwise insulated pipe, over the bare
+    share of a damaged one, else over the whole item.
     """
-    hours = cost = 0.0
-    for q in quantities:
-        work, unit = q["work"], q["unit"]
-        if "guard" in work:
-            hours += plan.guard_hours[unit] * q["quantity"]
-            cost += plan.guard_cost[unit] * q["quantity"]
-        elif unit == "pcs":
-            hours += float(cover_cost(plan.hours, [q["od_m"]], [q["quantity"]])[0])
-            cost += float(cover_cost(repair, [q["od_m"]], [q["quantity"]])[0])
+    shape, pipe = text_of(item["shape"]), item["shape"] == "pipe"
+    size = size_words(item) if shape != "flat" else "flat"
+    whole = (float(item["length_m"]), "m") if pipe else (outer_area, "m²")
+    actions = _actions(findings)
+    thickness = [(float(f["remedy_thickness [mm]"]), f["remedy_material"]) for f in findings
+                 if np.isfinite(float(f["remedy_thickness [mm]"]))]
+    valves, flanges = int(item["valves"] or 0), int(item["flanges"] or 0)
+    share = float(item["damaged_pct"]) / 100.0 if item["condition"] == "damaged" else 0.0
+    out = []
+    if thickness:
+        mm, material = max(thickness)
+        out.append({"work": INSULATE, "size": size, "material": material,
+                    "thickness_mm": mm, "quantity": whole[0], "unit": whole[1]})
+        covers = pipe
+    else:
+        layers = layers_words(item)
+        for action, work in REINSTATE.items():
+            if action in actions:
+                part = share if action == "reinstate-damaged" else 1.0
+                out.append({"work": work, "size": size, "material": layers, "thickness_mm": np.nan,
+                            "quantity": whole[0] * part, "unit": whole[1]})
+        covers = pipe and "covers" in actions
+    if covers:
+        kind = "vapour-sealed removable cover" if cold else "removable insulation cover"
+        for count, what in ((valves, "valve"), (flanges, "flange")):
+            if count:
+                out.append({"work": f"{kind}, {what}", "size": size, "material": "",
+                            "thickness_mm": np.nan, "quantity": count, "unit": "pcs"})
+    guarded = [f for f in findings if "guard" in str(f.get("remedy_action") or "")]
+    if guarded:
+        over_bare = all("insulate" not in f["remedy_action"] and "engineer" not in f["remedy_action"]
+                        for f in guarded)
+        if over_bare and pipe and share == 0 and valves + flanges:
+            out.append({"work": GUARD + ", fittings", "size": size, "material": "",
+                        "thickness_mm": np.nan, "quantity": valves + flanges, "unit": "pcs"})
         else:
-            t = q["thickness_mm"] / 1000.0 if q.get("thickness_mm") else installed_m
-            hours += float(_quantity_tables(plan.hours, q, t))
-            cost += float(_quantity_tables(repair, q, t))
-    return hours, cost
+            out.append({"work": GUARD, "size": size, "material": "", "thickness_mm": np.nan,
+                        "quantity": whole[0] * (share if over_bare and share > 0 else 1.0),
+                        "unit": whole[1]})
+    od = float(item["od_m"])
+    for row in out:
+        row["od_m"] = od if np.isfinite(od) else np.inf
+    return out
 
 
-def sequence(*, scaffold, asbestos: bool, cui: bool, iced: bool) -> list[str]:
-    """The planner's order of work for one order, first step first."""
+def quantity_costs(quantities: list[list[dict]], installed_m, repair, plan: PlanningRules):
+    """Per row: crew hours [h] and installed cost [currency] of its insulation and covers,
+    and crew hours [h] and cost [currency] of its guards.
+
+    ``quantities``: one list per row (:func:`row_quantities`); ``installed_m``: each row's
+    total installed thickness [m], the thickness of a reinstatement as installed.  Insulation
+    is priced at its remedy thickness (or as installed) from the per-metre table of its size,
+    or per m2; covers per fitting by size; both from ``repair`` (installed rates) with their
+    hours from the hour tables of the same grid.  Guards: material plus hours at the rate.
+    NaN where a size or thickness lies outside the tables, never the nearest entry.
+    """
+    flat = [(i, q) for i, qs in enumerate(quantities) for q in qs]
+    n = len(quantities)
+    if not flat:
+        return np.zeros(n), np.zeros(n), np.zeros(n), np.zeros(n)
+    row = np.array([i for i, _ in flat])
+    unit = np.array([q["unit"] for _, q in flat], object)
+    amount = np.array([float(q["quantity"]) for _, q in flat])
+    od = np.array([q["od_m"] for _, q in flat], float)
+    guard = np.array([q["work"].startswith(GUARD) for _, q in flat])
+    cover = (unit == "pcs") & ~guard
+    insulation = ~guard & ~cover
+    mm = np.array([q["thickness_mm"] for _, q in flat], float)
+    thickness = np.where(np.isfinite(mm), mm / 1000.0, np.asarray(installed_m, float)[row])
+    metres = unit == "m"
+    shape = np.where(metres, "pipe", "surface").astype(object)
+    length, area = np.where(metres, amount, np.nan), np.where(metres, np.nan, amount)
+
+    def priced(table):
+        laid = insulation_cost(table, shape, od, length, area, thickness)
+        fitted = cover_cost(table, od, np.where(cover, amount, 0.0))
+        return np.where(insulation, laid, 0.0) + np.where(cover, fitted, 0.0)
+
+    guard_hours = np.array([plan.guard_hours.get(u, np.nan) for u in unit]) * amount
+    guard_material = np.array([plan.guard_cost.get(u, np.nan) for u in unit]) * amount
+    hours = np.where(guard, 0.0, priced(plan.hours))
+    installed = np.where(guard, 0.0, priced(repair))
+    guards = np.where(guard, guard_material + guard_hours * plan.rate, 0.0)
+    return tuple(np.bincount(row, weights=w, minlength=n)
+                 for w in (hours, installed, np.where(guard, guard_hours, 0.0), guards))
+
+
+@dataclass
+class RowPlans:
+    """The planning of every register row, aligned with the item table (planned rows: those
+    whose worst finding is at least :data:`PLANNED_FROM`; the others have empty fields)."""
+
+    planned: np.ndarray       #: bool
+    quantities: list          #: per row, its quantity dicts ([] when not planned)
+    iced: np.ndarray          #: bool: a condensation finding says the surface grows ice
+    frame: pd.DataFrame       #: ROW_COLUMNS, index of the item table
+    repair_cost: np.ndarray   #: installed + guard + scaffold cost [currency]; NaN: not planned
+
+    def part(self, row: int) -> dict:
+        """The planning fields of one row, for its work order."""
+        return {**self.frame.iloc[row].to_dict(), "repair_cost": float(self.repair_cost[row]),
+                "quantities": self.quantities[row], "iced": bool(self.iced[row])}
+
+
+def plan_rows(table: pd.DataFrame, states: pd.DataFrame, findings: pd.DataFrame,
+              plan: PlanningRules, repair) -> RowPlans:
+    """Quantities, access, asbestos survey, hours and cost of every register row with a
+    finding at or above :data:`PLANNED_FROM`; ``states`` at the items' own conditions (their
+    outer area and process and air temperatures); ``findings`` with their remedies; ``plan``
+    from :func:`planning_rules`; ``repair`` the ``[economics.repair]`` tables."""
+    n = len(table)
+    rank = {name: r for r, name in enumerate(SEVERITIES)}
+    by_row: dict = {}
+    for f in findings.to_dict(orient="records") if len(findings) else ():
+        by_row.setdefault(int(f["row"]), []).append(f)
+    planned = np.zeros(n, bool)
+    for r, records in by_row.items():
+        planned[r] = max(rank[f["severity"]] for f in records) >= rank[PLANNED_FROM]
+    rows = np.flatnonzero(planned)
+    outer = states["outer_area_m2"].to_numpy(float)
+    with np.errstate(invalid="ignore"):
+        cold = ((states["process_temp_K"].to_numpy(float) < states["air_temp_K"].to_numpy(float))
+                | (table["service"].fillna("").to_numpy(object) == "cold"))
+    columns = ["shape", "nps", "od_m", "length_m", "valves", "flanges", "damaged_pct",
+               "condition", "layer_materials", "layer_thicknesses_m"]
+    items = table.iloc[rows][columns].to_dict(orient="records")
+    quantities = [[] for _ in range(n)]
+    for r, item in zip(rows, items):
+        quantities[r] = row_quantities(item, by_row[r], outer[r], bool(cold[r]))
+    installed_m = np.array([float(sum(t)) if isinstance(t, tuple) else 0.0
+                            for t in table["layer_thicknesses_m"].to_numpy(object)])
+    hours, installed, guard_hours, guards = quantity_costs(quantities, installed_m, repair, plan)
+    # a guard beside insulation or covers is their alternative, else it is the work itself
+    alternative = np.array([any(not q["work"].startswith(GUARD) for q in qs) for qs in quantities],
+                           bool)
+
+    scaffold = needs_scaffold(table["elevation_m"].to_numpy(float), plan.scaffold_above)
+    up, unknown_height = scaffold == True, scaffold == None  # noqa: E711,E712 (object array)
+    checks = [{f["check"] for f in by_row.get(r, ())} for r in range(n)]
+    # any insulation work or a CUI inspection may cut old insulation or its remnants (a guard
+    # alone does not); a row without an install year is presumed old
+    disturbs = np.array([any(not q["work"].startswith(GUARD) for q in qs) or "cui-window" in c
+                         for qs, c in zip(quantities, checks)], bool)
+    year = table["install_year"].to_numpy(float)
+    survey = disturbs & presumed_asbestos(year, plan.presumed_before)
+    notes = np.full(n, "", dtype=object)
+    for mask, words in ((unknown_height, NO_ELEVATION), (survey & ~np.isfinite(year), NO_YEAR),
+                        (np.array(["cui-window" in c for c in checks]), NO_INSPECTION_HOURS)):
+        notes = np.where(mask, np.where(notes == "", words, notes + "; " + words), notes)
+
+    hours = hours + np.where(alternative, 0.0, guard_hours) + np.where(up, plan.scaffold_hours, 0.0)
+    scaffold_cost = np.where(up, plan.scaffold_hire + plan.scaffold_hours * plan.rate, 0.0)
+    guard_cost = np.where(alternative, 0.0, guards)
+    frame = pd.DataFrame({
+        "scaffold": np.where(up, "yes", np.where(unknown_height, UNKNOWN, "no")),
+        "asbestos_survey": np.where(survey, "yes", "no"),
+        "labour [h]": hours,
+        "installed_cost": installed, "guard_cost": guard_cost, "scaffold_cost": scaffold_cost,
+        "guard_alternative_cost": np.where(alternative & (guards > 0), guards, np.nan),
+        "planning_note": notes}, index=table.index, columns=ROW_COLUMNS)
+    frame.loc[~planned, :] = None
+    iced = np.array([any(ICE in str(f["message"]) for f in by_row.get(r, ())) for r in range(n)])
+    return RowPlans(planned=planned, quantities=quantities, iced=iced & planned, frame=frame,
+                    repair_cost=np.where(planned, installed + guard_cost + scaffold_cost, np.nan))
+
+
+def sequence(*, scaffold: str, asbestos: bool, cui: bool, iced: bool) -> list[str]:
+    """The planner's order of work for one order, first step first; ``scaffold`` is
+    ``yes``, ``no`` or :data:`UNKNOWN`."""
     steps = []
-    if scaffold:
+    if scaffold == "yes":
         steps.append("erect scaffolding or bring a lift; inspect it before use")
+    elif scaffold == UNKNOWN:
+        steps.append("confirm access on site (no elevation in the register): scaffolding or a "
+                     "lift may be needed")
     if asbestos:
         steps.append("asbestos survey of the existing insulation before any removal or cutting")
     if iced:
@@ -190,43 +412,35 @@ def sequence(*, scaffold, asbestos: bool, cui: bool, iced: bool) -> list[str]:
     return steps
 
 
-def plan_order(order: dict, parts: list[dict], repair, plan: PlanningRules) -> dict:
-    """Planning fields of one work order from its register rows.
+#: Money fields of an order, each the sum of its rows'.
+MONEY = ("installed_cost", "guard_cost", "scaffold_cost", "repair_cost")
 
-    ``parts`` are dicts with ``quantities``, ``installed_m``, ``elevation_m``,
-    ``install_year`` and ``iced`` (a condensation finding says the surface ices); ``order`` has ``tag``, ``findings`` and ``quantities``
-    (summed over its rows: the materials list).
-    """
-    scaffold_rows = needs_scaffold([p["elevation_m"] for p in parts], plan.scaffold_above)
-    scaffold = True if any(s is True for s in scaffold_rows) else (
-        None if any(s is None for s in scaffold_rows) else False)
-    disturbs = [any("guard" not in q["work"] for q in p["quantities"]) for p in parts]
-    presumed = presumed_asbestos([p["install_year"] for p in parts], plan.presumed_before)
-    asbestos = bool(any(d and a for d, a in zip(disturbs, presumed)))
+
+def _sum_given(values) -> float:
+    """The sum of the values given (not NaN); NaN when none is."""
+    given = [v for v in values if v is not None and np.isfinite(v)]
+    return float(sum(given)) if given else np.nan
+
+
+def plan_order(order: dict, parts: list[dict], plan: PlanningRules) -> dict:
+    """Planning fields of one work order from its register rows' planning
+    (:meth:`RowPlans.part`): hours and costs are the sums over the rows (each row is its own
+    run at its own elevation, so each row above the access height has its own scaffold);
+    ``scaffold`` is ``yes`` if any row needs it, else :data:`UNKNOWN` if any row's elevation
+    is not given, else ``no``; an asbestos survey if any row needs one.  ``order`` has
+    ``tag`` and ``findings``."""
+    scaffolds = {p["scaffold"] for p in parts}
+    scaffold = "yes" if "yes" in scaffolds else UNKNOWN if UNKNOWN in scaffolds else "no"
+    asbestos = any(p["asbestos_survey"] == "yes" for p in parts)
     checks = [f["check"] for f in order["findings"]]
-    hours = materials = 0.0
-    for p in parts:
-        h, c = labour_and_materials(p["quantities"], p["installed_m"], repair, plan)
-        hours, materials = hours + h, materials + c
-    if scaffold:
-        hours += plan.scaffold_hours
-    labour_cost = hours * plan.rate
-    notes = [] if scaffold is not None else ["elevation not given: access not assessed"]
+    notes = [n for p in parts for n in str(p["planning_note"] or "").split("; ") if n]
     return {
         "key": work_order_key(order["tag"], checks),
-        "scaffold": {True: "yes", False: "no", None: ""}[scaffold],
-        "asbestos_survey": "yes" if asbestos else "no",
-        "labour_h": hours, "materials_cost": materials, "labour_cost": labour_cost,
-        "scaffold_cost": plan.scaffold_hire if scaffold else 0.0,
-        "repair_cost": materials + labour_cost + (plan.scaffold_hire if scaffold else 0.0),
-        "materials": "; ".join(_material_line(q) for q in order["quantities"]),
+        "scaffold": scaffold, "asbestos_survey": "yes" if asbestos else "no",
+        "labour_h": float(sum(p["labour [h]"] for p in parts)),
+        **{k: float(sum(p[k] for p in parts)) for k in MONEY},  # NaN if a row is unpriced
+        "guard_alternative_cost": _sum_given([p["guard_alternative_cost"] for p in parts]),
         "sequence": sequence(scaffold=scaffold, asbestos=asbestos, cui="cui-window" in checks,
                              iced=any(p["iced"] for p in parts)),
-        "notes": notes, "caution": plan.caution if asbestos else "",
+        "notes": list(dict.fromkeys(notes)), "caution": plan.caution if asbestos else "",
     }
-
-
-def _material_line(q: dict) -> str:
-    what = " ".join(x for x in (q["material"], f"{q['thickness']} mm" if q["thickness"] else "")
-                    if x)
-    return f"{q['work']} {q['size']}" + (f" {what}" if what else "") + f": {q['text']} {q['unit']}"

@@ -27,6 +27,7 @@ def main() -> None:
     from audit.checks.base import CheckContext
     from audit.economics import compute_economics, load_economic_rules
     from audit.io.readers import read_register
+    from audit.planning import plan_rows, planning_rules
     from audit.rules import load_rules
     from audit.thermal import resolve_names
 
@@ -39,10 +40,13 @@ def main() -> None:
         table = resolve_names(read_register(register, **reader_options(rules)), rules)
         context = CheckContext(table, rules)
         findings = timed("checks (all scenarios)", run_checks, context, validate_checks(rules))
-        got = timed("compute_economics", compute_economics, context, findings, rules, economic_rules=econ)
+        repairs = timed("plan_rows (no remedies)", plan_rows, table, context.states(""), findings,
+                        planning_rules(rules), econ.repair)
+        got = timed("compute_economics", compute_economics, context, findings, rules,
+                    economic_rules=econ, repairs=repairs)
         fresh = CheckContext(table, rules)
         start = time.perf_counter()
-        compute_economics(fresh, findings, rules, economic_rules=econ)
+        compute_economics(fresh, findings, rules, economic_rules=econ, repairs=repairs)
         print(f"  {'compute_economics (no cache)':<28} {time.perf_counter() - start:7.2f} s")
         row = got.per_row
         print(f"  items with energy {int(row['annual_energy [MWh]'].notna().sum())}, "
