@@ -331,6 +331,18 @@ class RowPlans:
                 "quantities": self.quantities[row], "iced": bool(self.iced[row])}
 
 
+def _records(frame: pd.DataFrame, columns: list[str]) -> list[dict]:
+    """``frame[columns]`` as one dict per row (column by column: many times faster than
+    pandas's ``to_dict`` on wide tables)."""
+    values = [frame[c].to_numpy(object) for c in columns]
+    return [dict(zip(columns, row)) for row in zip(*values)]
+
+
+#: The columns of the findings the planning reads.
+_FINDING_COLUMNS = ["row", "check", "severity", "message", "remedy_action",
+                    "remedy_thickness [mm]", "remedy_material"]
+
+
 def plan_rows(table: pd.DataFrame, states: pd.DataFrame, findings: pd.DataFrame,
               plan: PlanningRules, repair) -> RowPlans:
     """Quantities, access, asbestos survey, hours and cost of every register row with a
@@ -340,7 +352,7 @@ def plan_rows(table: pd.DataFrame, states: pd.DataFrame, findings: pd.DataFrame,
     n = len(table)
     rank = {name: r for r, name in enumerate(SEVERITIES)}
     by_row: dict = {}
-    for f in findings.to_dict(orient="records") if len(findings) else ():
+    for f in _records(findings, [c for c in _FINDING_COLUMNS if c in findings.columns]):
         by_row.setdefault(int(f["row"]), []).append(f)
     planned = np.zeros(n, bool)
     for r, records in by_row.items():
@@ -352,7 +364,7 @@ def plan_rows(table: pd.DataFrame, states: pd.DataFrame, findings: pd.DataFrame,
                 | (table["service"].fillna("").to_numpy(object) == "cold"))
     columns = ["shape", "nps", "od_m", "length_m", "valves", "flanges", "damaged_pct",
                "condition", "layer_materials", "layer_thicknesses_m"]
-    items = table.iloc[rows][columns].to_dict(orient="records")
+    items = _records(table.iloc[rows], columns)
     quantities = [[] for _ in range(n)]
     for r, item in zip(rows, items):
         quantities[r] = row_quantities(item, by_row[r], outer[r], bool(cold[r]))

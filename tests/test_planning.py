@@ -179,6 +179,10 @@ def test_one_repair_cost_in_results_payback_workorders_and_pack(tmp_path):
             return {r["tag"]: r for r in csv.DictReader(f)}
 
     orders, results = rows_of("workorders.csv"), rows_of("results.csv")
+    # priority: all three are "high"; then the shortest payback first (the scaffold makes HI-1's
+    # longest), then the tag
+    assert list(orders) == ["LO-1", "NA-1", "HI-1"]
+    assert {o["priority"] for o in orders.values()} == {"high"}
     high, low, unknown = orders["HI-1"], orders["LO-1"], orders["NA-1"]
     assert (high["scaffold"], high["asbestos_survey"]) == ("yes", "yes")
     assert (low["scaffold"], low["asbestos_survey"]) == ("no", "no")  # at the limits: neither

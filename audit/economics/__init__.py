@@ -41,7 +41,8 @@ __all__ = ["Economics", "EconomicRules", "compute_economics", "economic_rules", 
 #: boiled off (``energy_bought``: fuel, electricity, boil-off or none); ``saving_if_repaired [MWh]`` energy bought as is minus repaired (0 when
 #: nothing is to be repaired); ``payback [yr]`` = ``repair_cost`` / ``annual_saving`` (money
 #: per year), empty when nothing is to be repaired or the repair saves nothing; ``repair`` what
-#: the repair is; ``installed_thickness [mm]``; ``economic_thickness [mm]`` of
+#: the repair is; ``repair_cost`` the row's work as its work order prices it
+#: (:mod:`audit.planning`); ``installed_thickness [mm]``; ``economic_thickness [mm]`` of
 #: ``economic_material``; ``economics_note`` why a value is empty; ``annual_boil_off [t]`` the
 #: liquid a boiling liquid's heat gain boils off in the year; ``boil_off [kg/h]`` the same at
 #: the item's own conditions (those of ``heat_loss [W]``), as the contract's columns are.  NaN for rows without a result.
