@@ -29,6 +29,7 @@ from __future__ import annotations
 
 import hashlib
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 import pandas as pd
@@ -159,7 +160,6 @@ def work_order_key(tag, checks) -> str:
     maintenance system does not import an order twice) and differs when either changes."""
     text = "\x1f".join([str(tag).strip(), *sorted(set(checks))])
     return "WO-" + hashlib.sha256(text.encode("utf-8")).hexdigest()[:12].upper()
-
 
 
 #: A row is planned (gets quantities, hours and a cost) when its worst finding is at least
@@ -325,9 +325,13 @@ class RowPlans:
     frame: pd.DataFrame       #: ROW_COLUMNS, index of the item table
     repair_cost: np.ndarray   #: installed + guard + scaffold cost [currency]; NaN: not planned
 
+    @cached_property
+    def _rows(self) -> list[dict]:
+        return _records(self.frame, ROW_COLUMNS)
+
     def part(self, row: int) -> dict:
-        """The planning fields of one row, for its work order."""
-        return {**self.frame.iloc[row].to_dict(), "repair_cost": float(self.repair_cost[row]),
+        """The planning fields of one row (by position), for its work order."""
+        return {**self._rows[row], "repair_cost": float(self.repair_cost[row]),
                 "quantities": self.quantities[row], "iced": bool(self.iced[row])}
 
 

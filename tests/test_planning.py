@@ -9,6 +9,8 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from audit.economics.rules import Repair
 from audit.errors import RuleError
@@ -221,3 +223,26 @@ def test_one_repair_cost_in_results_payback_workorders_and_pack(tmp_path):
     text = " ".join(text.split())
     assert "Planning" in text and high["work_order_key"] in text and "local law" in text.lower()
     assert "elevation not given" in text and "installed (material and insulators' labour)" in text
+
+
+_QUANTITY = st.one_of(
+    st.builds(lambda mm, length: _q(INSULATE, length, "m", thickness_mm=mm),
+              st.floats(25.0, 50.0), st.floats(0.0, 500.0)),
+    st.builds(lambda area: _q("reinstate damaged share as installed", area, "m²", od=2.0),
+              st.floats(0.0, 500.0)),
+    st.builds(lambda n: _q("removable insulation cover, flange", n, "pcs"), st.integers(0, 20)),
+    st.builds(lambda n: _q(GUARD, n, "m"), st.floats(0.0, 100.0)))
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.lists(_QUANTITY, max_size=4), min_size=1, max_size=6))
+def test_rows_are_priced_apart_and_in_proportion_to_their_quantities(rows):
+    """Invariants: pricing many rows at once gives each row what it gets alone (the vectorised
+    sums never mix rows), and doubling every quantity doubles every hour and cost."""
+    installed = [0.0375] * len(rows)
+    together = np.array(quantity_costs(rows, installed, REPAIR, PLAN))
+    alone = np.array([[x[0] for x in quantity_costs([r], [0.0375], REPAIR, PLAN)] for r in rows]).T
+    np.testing.assert_allclose(together, alone, rtol=1e-12, atol=1e-9)  # summation order only
+    doubled = [[{**q, "quantity": 2 * q["quantity"]} for q in r] for r in rows]
+    np.testing.assert_allclose(np.array(quantity_costs(doubled, installed, REPAIR, PLAN)),
+                               2 * together, rtol=1e-12, atol=1e-9)  # linear in the quantity
