@@ -29,7 +29,7 @@ from __future__ import annotations
 
 import hashlib
 from dataclasses import dataclass
-from functools import cached_property
+from functools import cached_property, lru_cache
 
 import numpy as np
 import pandas as pd
@@ -206,6 +206,12 @@ def layers_words(item) -> str:
     materials, thicknesses = item["layer_materials"], item["layer_thicknesses_m"]
     if not isinstance(materials, tuple) or not materials:
         return "none (bare)"
+    return _layers_text(materials, tuple(thicknesses))
+
+
+@lru_cache(maxsize=4096)
+def _layers_text(materials: tuple, thicknesses: tuple) -> str:
+    """Worded once per distinct build-up (a register repeats a few thousand at most)."""
     return " + ".join(f"{m} {t * 1000:.0f} mm" for m, t in zip(materials, thicknesses))
 
 
