@@ -170,7 +170,8 @@ def test_one_repair_cost_in_results_payback_workorders_and_pack(tmp_path):
     register.write_text("tag,nps,length,temp,layers,condition,accessible,elevation,install_year,area_code\n"
                         "HI-1,4,10,250,mineral-wool 50,missing,yes,6 m,1975,U1\n"
                         "LO-1,4,10,250,mineral-wool 50,missing,yes,2 m,1990,U1\n"
-                        "NA-1,4,10,250,mineral-wool 50,missing,yes,,,U1\n")
+                        "NA-1,4,10,250,mineral-wool 50,missing,yes,,,U1\n"
+                        "CU-1,4,10,90,mineral-wool 50,intact,no,5,2010,U1\n")
     out = tmp_path / "out"
     done = subprocess.run([sys.executable, "-m", "audit", "run", str(register), "--out", str(out),
                            "--format", "csv,pdf"], capture_output=True, text=True)
@@ -183,8 +184,8 @@ def test_one_repair_cost_in_results_payback_workorders_and_pack(tmp_path):
     orders, results = rows_of("workorders.csv"), rows_of("results.csv")
     # priority: all three are "high"; then the shortest payback first (the scaffold makes HI-1's
     # longest), then the tag
-    assert list(orders) == ["LO-1", "NA-1", "HI-1"]
-    assert {o["priority"] for o in orders.values()} == {"high"}
+    assert list(orders) == ["LO-1", "NA-1", "HI-1", "CU-1"]
+    assert [o["priority"] for o in orders.values()] == ["high"] * 3 + ["low"]
     high, low, unknown = orders["HI-1"], orders["LO-1"], orders["NA-1"]
     assert (high["scaffold"], high["asbestos_survey"]) == ("yes", "yes")
     assert (low["scaffold"], low["asbestos_survey"]) == ("no", "no")  # at the limits: neither
@@ -202,9 +203,11 @@ def test_one_repair_cost_in_results_payback_workorders_and_pack(tmp_path):
         total = sum(float(order[c]) for c in ("installed_cost", "guard_cost", "scaffold_cost"))
         assert float(order["repair_cost"]) == pytest.approx(total, rel=1e-9)  # csv rounding only
         # the payback divides that same cost by the money saved a year
-        assert float(item["payback [yr]"]) == pytest.approx(
-            float(item["repair_cost"]) / float(item["annual_saving"]), rel=1e-5)  # csv digits
-        assert order["work_order_key"].startswith("WO-") and order["materials"]
+        if tag != "CU-1":
+            assert float(item["payback [yr]"]) == pytest.approx(
+                float(item["repair_cost"]) / float(item["annual_saving"]), rel=1e-5)  # csv digits
+        assert order["work_order_key"].startswith("WO-")
+        assert bool(order["materials"]) == (tag != "CU-1")  # an inspection buys nothing
     # the same items cost the same but for the scaffold: its hours at the rate, and its hire;
     # the insulators' hours are in the installed rates, so they add nothing to the cost
     plan = planning_rules(load_rules())
@@ -218,6 +221,12 @@ def test_one_repair_cost_in_results_payback_workorders_and_pack(tmp_path):
     assert float(low["guard_alternative_cost"]) == pytest.approx(
         10 * (plan.guard_cost["m"] + plan.guard_hours["m"] * plan.rate))
     assert float(unknown["scaffold_cost"]) == 0.0
+    # a CUI window alone: an inspection from a scaffold, costed, saving nothing, no payback
+    cui, cui_item = orders["CU-1"], results["CU-1"]
+    assert (cui["checks"], cui["scaffold"], cui["asbestos_survey"]) == ("cui-window", "yes", "no")
+    assert float(cui["repair_cost"]) == pytest.approx(plan.scaffold_hire + plan.scaffold_hours * plan.rate)
+    assert cui_item["payback [yr]"] == "" and "no payback: the planned work" in cui_item["economics_note"]
+    assert "CUI inspection: its hours" in cui["planning_note"]
     assert "asbestos survey" in high["sequence"] and "asbestos" not in low["sequence"]
     text = " ".join(p.extract_text() for p in pypdf.PdfReader(out / "workorders" / "U1.pdf").pages)
     text = " ".join(text.split())

@@ -159,6 +159,9 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
         "economics_note": _notes(computed, [
             (plan.needed & ~fixed, "the repaired item could not be computed by the engine"),
             (plan.needed & ~planned, "no repair cost: no work order for a finding of this row"),
+            (planned & ~plan.needed & (cost > 0),
+             "no payback: the planned work (repair_cost: an inspection, a guard, insulation "
+             "beyond the specification) saves nothing against the item as specified"),
             (plan.needed & fixed & planned & ~np.isfinite(cost),
              "no repair cost: thickness or fitting size outside the [economics.repair] or "
              "[planning.labour] tables"),
