@@ -37,6 +37,7 @@ import pandas as pd
 from audit.checks.condensation import ICE
 from audit.economics.repair import cover_cost, insulation_cost
 from audit.errors import Problem, RuleError
+from audit.repeats import per_distinct
 from audit.rules import SEVERITIES, Rules
 from audit.rules.converters import list_of, quantity, text
 from audit.rules.keys import convert_keys
@@ -172,6 +173,7 @@ REINSTATE = {"reinstate-damaged": "reinstate damaged share as installed",
              "replace-wet": "replace wet insulation as installed",
              "reinstate-missing": "reinstate missing insulation as installed"}
 GUARD = "personnel guard (alternative to insulation)"
+GUARD_FITTINGS = GUARD + ", fittings"
 
 #: Per-row planning columns of the results (``repair_cost`` is the economics' column, the same
 #: number: :attr:`RowPlans.repair_cost`).
@@ -195,7 +197,12 @@ def text_of(value) -> str:
 
 def size_words(item) -> str:
     """``NPS 4``, ``OD 610 mm`` or ``size not given``."""
-    nps, od = text_of(item["nps"]), float(item["od_m"])
+    return _size_text(text_of(item["nps"]), float(item["od_m"]))
+
+
+@lru_cache(maxsize=4096)
+def _size_text(nps: str, od: float) -> str:
+    """Worded once per distinct size (one string object for every row of that size)."""
     if nps:
         return f"NPS {nps}"
     return f"OD {od * 1000:.0f} mm" if np.isfinite(od) else "size not given"
@@ -215,35 +222,86 @@ def _layers_text(materials: tuple, thicknesses: tuple) -> str:
     return " + ".join(f"{m} {t * 1000:.0f} mm" for m, t in zip(materials, thicknesses))
 
 
-def _actions(findings: list[dict]) -> set[str]:
-    return {a for f in findings for a in str(f.get("remedy_action") or "").split(";") if a}
+@dataclass
+class FindingSummary:
+    """What the quantities of a row need from its findings, per row of the item table (one
+    vectorised pass over the findings, no record per finding)."""
+
+    worst: np.ndarray          #: highest severity rank (-1: no finding)
+    thickest_mm: np.ndarray    #: the thickest remedy thickness asked [mm] (NaN: none)
+    thickest_material: np.ndarray  #: its material (the greatest name among equal thicknesses)
+    actions: dict              #: remedy action -> bool per row: a finding asks for it
+    over_bare: np.ndarray      #: every guard offered is over bare parts (no insulate, engineer)
+    iced: np.ndarray           #: a condensation finding says the surface grows ice
+    cui: np.ndarray            #: a cui-window finding (an inspection)
 
 
-def row_quantities(item, findings: list[dict], outer_area: float, cold: bool) -> list[dict]:
+def summarise_findings(findings: pd.DataFrame, n: int) -> FindingSummary:
+    """:class:`FindingSummary` of ``findings`` (with their remedies) over ``n`` rows."""
+    empty = np.zeros(n, bool)
+    if not len(findings):
+        return FindingSummary(np.full(n, -1), np.full(n, np.nan), np.full(n, "", object),
+                              {a: empty for a in ACTIONS_READ}, empty, empty, empty)
+    row = findings["row"].to_numpy(int)
+
+    def per_row(flags) -> np.ndarray:
+        return np.bincount(row, weights=np.asarray(flags, float), minlength=n) > 0
+
+    rank = findings["severity"].map({name: r for r, name in enumerate(SEVERITIES)}).to_numpy(int)
+    worst = np.full(n, -1)
+    np.maximum.at(worst, row, rank)
+    codes, uniques = pd.factorize(findings["remedy_action"].fillna("").astype(str))
+    tokens = [set(u.split(";")) for u in uniques]
+    has = {a: np.array([a in t for t in tokens] + [False], bool)[codes] for a in ACTIONS_READ}
+    mm = findings["remedy_thickness [mm]"].to_numpy(float)
+    asked = pd.DataFrame({"row": row, "mm": mm,
+                          "material": findings["remedy_material"].fillna("").astype(str)})
+    asked = asked[np.isfinite(mm)].sort_values(["row", "mm", "material"], kind="stable")
+    asked = asked.drop_duplicates("row", keep="last")
+    thickest_mm, thickest_material = np.full(n, np.nan), np.full(n, "", object)
+    thickest_mm[asked["row"].to_numpy()] = asked["mm"].to_numpy()
+    thickest_material[asked["row"].to_numpy()] = asked["material"].to_numpy(object)
+    guard = has["guard"]
+    iced = findings["message"].astype(str).str.contains(ICE, regex=False).to_numpy(bool)
+    return FindingSummary(
+        worst=worst, thickest_mm=thickest_mm, thickest_material=thickest_material,
+        actions={a: per_row(f) for a, f in has.items()},
+        over_bare=per_row(guard) & ~per_row(guard & (has["insulate"] | has["engineer"])),
+        iced=per_row(iced), cui=per_row(findings["check"].to_numpy(object) == "cui-window"))
+
+
+#: The remedy actions (audit/checks/remedy.py ``ACTIONS``) the quantities read.
+ACTIONS_READ = (*REINSTATE, "covers", "guard", "insulate", "engineer")
+_COVER = {(cold, what): f"{'vapour-sealed removable cover' if cold else 'removable insulation cover'}"
+                        f", {what}" for cold in (False, True) for what in ("valve", "flange")}
+
+
+def row_quantities(item, outer_area: float, cold: bool, *, thickest: tuple | None,
+                   actions: set, guarded: bool, over_bare: bool) -> list[dict]:
     """What to buy and fit for one register row, from its findings' remedies: dicts of
-    ``work``, ``size``, ``material``, ``thickness_mm`` (NaN: as installed), ``quantity``,
-    ``unit`` (``m``, ``m²``, ``pcs``) and ``od_m`` (inf when not given, so sizes sort by
-    diameter).
+    :data:`QUANTITY_FIELDS`: ``work``, ``size``, ``material``, ``thickness_mm`` (NaN: as
+    installed), ``quantity``, ``unit`` (``m``, ``m²``, ``pcs``) and ``od_m`` (inf when not
+    given, so sizes sort by diameter).
 
-    Insulation to a remedy thickness covers the whole item (the thickest any of its findings
-    asks; each is at least the installed thickness and the specification's), its fittings
-    included; otherwise the bare parts are made good as installed (the damaged share, wet or
-    missing insulation) and the fittings covered, where a remedy or a condition finding says
-    so.  A personnel guard offered beside the insulation (the check's ``guard_allowed``) is
-    counted on its own line: over the fittings of an otherwise insulated pipe, over the bare
-    share of a damaged one, else over the whole item.
+    ``thickest``: (mm, material) of the thickest remedy its findings ask, or None;
+    ``actions``: the remedy actions they ask; ``guarded``: a guard is offered;
+    ``over_bare``: every guard offered is over bare parts.
+    Insulation to a remedy thickness covers the whole item (each remedy is at least the
+    installed thickness and the specification's), its fittings included; otherwise the bare
+    parts are made good as installed (the damaged share, wet or missing insulation) and the
+    fittings covered, where a remedy or a condition finding says so.  A personnel guard
+    offered beside the insulation (the check's ``guard_allowed``) is counted on its own line:
+    over the fittings of an otherwise insulated pipe, over the bare share of a damaged one,
+    else over the whole item.
     """
     shape, pipe = text_of(item["shape"]), item["shape"] == "pipe"
     size = size_words(item) if shape != "flat" else "flat"
     whole = (float(item["length_m"]), "m") if pipe else (outer_area, "m²")
-    actions = _actions(findings)
-    thickness = [(float(f["remedy_thickness [mm]"]), f["remedy_material"]) for f in findings
-                 if np.isfinite(float(f["remedy_thickness [mm]"]))]
     valves, flanges = int(item["valves"] or 0), int(item["flanges"] or 0)
     share = float(item["damaged_pct"]) / 100.0 if item["condition"] == "damaged" else 0.0
     out = []
-    if thickness:
-        mm, material = max(thickness)
+    if thickest is not None:
+        mm, material = thickest
         out.append({"work": INSULATE, "size": size, "material": material,
                     "thickness_mm": mm, "quantity": whole[0], "unit": whole[1]})
         covers = pipe
@@ -256,17 +314,13 @@ def row_quantities(item, findings: list[dict], outer_area: float, cold: bool) ->
                             "quantity": whole[0] * part, "unit": whole[1]})
         covers = pipe and "covers" in actions
     if covers:
-        kind = "vapour-sealed removable cover" if cold else "removable insulation cover"
         for count, what in ((valves, "valve"), (flanges, "flange")):
             if count:
-                out.append({"work": f"{kind}, {what}", "size": size, "material": "",
+                out.append({"work": _COVER[bool(cold), what], "size": size, "material": "",
                             "thickness_mm": np.nan, "quantity": count, "unit": "pcs"})
-    guarded = [f for f in findings if "guard" in str(f.get("remedy_action") or "")]
     if guarded:
-        over_bare = all("insulate" not in f["remedy_action"] and "engineer" not in f["remedy_action"]
-                        for f in guarded)
         if over_bare and pipe and share == 0 and valves + flanges:
-            out.append({"work": GUARD + ", fittings", "size": size, "material": "",
+            out.append({"work": GUARD_FITTINGS, "size": size, "material": "",
                         "thickness_mm": np.nan, "quantity": valves + flanges, "unit": "pcs"})
         else:
             out.append({"work": GUARD, "size": size, "material": "", "thickness_mm": np.nan,
@@ -278,29 +332,38 @@ def row_quantities(item, findings: list[dict], outer_area: float, cold: bool) ->
     return out
 
 
-def quantity_costs(quantities: list[list[dict]], installed_m, repair, plan: PlanningRules):
-    """Per row: crew hours [h] and installed cost [currency] of its insulation and covers,
-    and crew hours [h] and cost [currency] of its guards.
+#: The fields of a quantity (:func:`row_quantities`), the columns of a quantity table.
+QUANTITY_FIELDS = ("work", "size", "material", "thickness_mm", "quantity", "unit", "od_m")
 
-    ``quantities``: one list per row (:func:`row_quantities`); ``installed_m``: each row's
+
+def quantity_frame(pairs) -> pd.DataFrame:
+    """A quantity table from (row, quantity dict) pairs: ``row`` and :data:`QUANTITY_FIELDS`,
+    one row per quantity (tuples, not dicts, are kept while it is built)."""
+    records = [(row, *(q[k] for k in QUANTITY_FIELDS)) for row, q in pairs]
+    return pd.DataFrame.from_records(records, columns=["row", *QUANTITY_FIELDS])
+
+
+def quantity_costs(quantities: pd.DataFrame, n: int, installed_m, repair, plan: PlanningRules):
+    """Per row of ``n``: crew hours [h] and installed cost [currency] of its insulation and
+    covers, and crew hours [h] and cost [currency] of its guards.
+
+    ``quantities``: a quantity table (:func:`quantity_frame`); ``installed_m``: each row's
     total installed thickness [m], the thickness of a reinstatement as installed.  Insulation
     is priced at its remedy thickness (or as installed) from the per-metre table of its size,
     or per m2; covers per fitting by size; both from ``repair`` (installed rates) with their
     hours from the hour tables of the same grid.  Guards: material plus hours at the rate.
     NaN where a size or thickness lies outside the tables, never the nearest entry.
     """
-    flat = [(i, q) for i, qs in enumerate(quantities) for q in qs]
-    n = len(quantities)
-    if not flat:
+    if not len(quantities):
         return np.zeros(n), np.zeros(n), np.zeros(n), np.zeros(n)
-    row = np.array([i for i, _ in flat])
-    unit = np.array([q["unit"] for _, q in flat], object)
-    amount = np.array([float(q["quantity"]) for _, q in flat])
-    od = np.array([q["od_m"] for _, q in flat], float)
-    guard = np.array([q["work"].startswith(GUARD) for _, q in flat])
+    row = quantities["row"].to_numpy(int)
+    unit = quantities["unit"].to_numpy(object)
+    amount = quantities["quantity"].to_numpy(float)
+    od = quantities["od_m"].to_numpy(float)
+    guard = quantities["work"].isin([GUARD, GUARD_FITTINGS]).to_numpy(bool)
     cover = (unit == "pcs") & ~guard
     insulation = ~guard & ~cover
-    mm = np.array([q["thickness_mm"] for _, q in flat], float)
+    mm = quantities["thickness_mm"].to_numpy(float)
     thickness = np.where(np.isfinite(mm), mm / 1000.0, np.asarray(installed_m, float)[row])
     metres = unit == "m"
     shape = np.where(metres, "pipe", "surface").astype(object)
@@ -311,8 +374,8 @@ def quantity_costs(quantities: list[list[dict]], installed_m, repair, plan: Plan
         fitted = cover_cost(table, od, np.where(cover, amount, 0.0))
         return np.where(insulation, laid, 0.0) + np.where(cover, fitted, 0.0)
 
-    guard_hours = np.array([plan.guard_hours.get(u, np.nan) for u in unit]) * amount
-    guard_material = np.array([plan.guard_cost.get(u, np.nan) for u in unit]) * amount
+    guard_hours = pd.Series(unit).map(plan.guard_hours).to_numpy(float) * amount
+    guard_material = pd.Series(unit).map(plan.guard_cost).to_numpy(float) * amount
     hours = np.where(guard, 0.0, priced(plan.hours))
     installed = np.where(guard, 0.0, priced(repair))
     guards = np.where(guard, guard_material + guard_hours * plan.rate, 0.0)
@@ -326,31 +389,29 @@ class RowPlans:
     whose worst finding is at least :data:`PLANNED_FROM`; the others have empty fields)."""
 
     planned: np.ndarray       #: bool
-    quantities: list          #: per row, its quantity dicts ([] when not planned)
+    quantities: pd.DataFrame  #: the quantity table of the planned rows (:func:`quantity_frame`)
     iced: np.ndarray          #: bool: a condensation finding says the surface grows ice
     frame: pd.DataFrame       #: ROW_COLUMNS, index of the item table
     repair_cost: np.ndarray   #: installed + guard + scaffold cost [currency]; NaN: not planned
 
     @cached_property
-    def _rows(self) -> list[dict]:
-        return _records(self.frame, ROW_COLUMNS)
+    def _columns(self) -> dict:
+        return {c: self.frame[c].to_numpy(object) for c in ROW_COLUMNS}
+
+    @cached_property
+    def _starts(self) -> np.ndarray:
+        return np.searchsorted(self.quantities["row"].to_numpy(int), np.arange(len(self.planned) + 1))
+
+    def quantities_of(self, row: int) -> list[dict]:
+        """The quantities of one row (by position), as dicts of :data:`QUANTITY_FIELDS`."""
+        rows = self.quantities.iloc[self._starts[row]:self._starts[row + 1]]
+        return [dict(zip(QUANTITY_FIELDS, q)) for q in rows[list(QUANTITY_FIELDS)].itertuples(index=False)]
 
     def part(self, row: int) -> dict:
         """The planning fields of one row (by position), for its work order."""
-        return {**self._rows[row], "repair_cost": float(self.repair_cost[row]),
-                "quantities": self.quantities[row], "iced": bool(self.iced[row])}
-
-
-def _records(frame: pd.DataFrame, columns: list[str]) -> list[dict]:
-    """``frame[columns]`` as one dict per row (column by column: many times faster than
-    pandas's ``to_dict`` on wide tables)."""
-    values = [frame[c].to_numpy(object) for c in columns]
-    return [dict(zip(columns, row)) for row in zip(*values)]
-
-
-#: The columns of the findings the planning reads.
-_FINDING_COLUMNS = ["row", "check", "severity", "message", "remedy_action",
-                    "remedy_thickness [mm]", "remedy_material"]
+        return {**{c: values[row] for c, values in self._columns.items()},
+                "repair_cost": float(self.repair_cost[row]), "quantities": self.quantities_of(row),
+                "iced": bool(self.iced[row])}
 
 
 def plan_rows(table: pd.DataFrame, states: pd.DataFrame, findings: pd.DataFrame,
@@ -360,13 +421,8 @@ def plan_rows(table: pd.DataFrame, states: pd.DataFrame, findings: pd.DataFrame,
     outer area and process and air temperatures); ``findings`` with their remedies; ``plan``
     from :func:`planning_rules`; ``repair`` the ``[economics.repair]`` tables."""
     n = len(table)
-    rank = {name: r for r, name in enumerate(SEVERITIES)}
-    by_row: dict = {}
-    for f in _records(findings, [c for c in _FINDING_COLUMNS if c in findings.columns]):
-        by_row.setdefault(int(f["row"]), []).append(f)
-    planned = np.zeros(n, bool)
-    for r, records in by_row.items():
-        planned[r] = max(rank[f["severity"]] for f in records) >= rank[PLANNED_FROM]
+    found = summarise_findings(findings, n)
+    planned = found.worst >= SEVERITIES.index(PLANNED_FROM)
     rows = np.flatnonzero(planned)
     outer = states["outer_area_m2"].to_numpy(float)
     with np.errstate(invalid="ignore"):
@@ -374,45 +430,57 @@ def plan_rows(table: pd.DataFrame, states: pd.DataFrame, findings: pd.DataFrame,
                 | (table["service"].fillna("").to_numpy(object) == "cold"))
     columns = ["shape", "nps", "od_m", "length_m", "valves", "flanges", "damaged_pct",
                "condition", "layer_materials", "layer_thicknesses_m"]
-    items = _records(table.iloc[rows], columns)
-    quantities = [[] for _ in range(n)]
-    for r, item in zip(rows, items):
-        quantities[r] = row_quantities(item, by_row[r], outer[r], bool(cold[r]))
-    installed_m = np.array([float(sum(t)) if isinstance(t, tuple) else 0.0
-                            for t in table["layer_thicknesses_m"].to_numpy(object)])
-    hours, installed, guard_hours, guards = quantity_costs(quantities, installed_m, repair, plan)
+    values = [table[c].to_numpy(object)[rows] for c in columns]
+    guard = found.actions["guard"]
+    asked = (*REINSTATE, "covers")
+    quantities = quantity_frame(
+        (r, q) for r, cells in zip(rows, zip(*values))
+        for q in row_quantities(
+            dict(zip(columns, cells)), outer[r], bool(cold[r]),
+            thickest=(found.thickest_mm[r], found.thickest_material[r])
+            if np.isfinite(found.thickest_mm[r]) else None,
+            actions={a for a in asked if found.actions[a][r]},
+            guarded=bool(guard[r]), over_bare=bool(found.over_bare[r])))
+    installed_m = per_distinct(lambda t: float(sum(t)) if isinstance(t, tuple) else 0.0,
+                               table["layer_thicknesses_m"].to_numpy(object)).astype(float)
+    hours, installed, guard_hours, guards = quantity_costs(quantities, n, installed_m, repair, plan)
+    q_row = quantities["row"].to_numpy(int)
+    not_guard = ~quantities["work"].isin([GUARD, GUARD_FITTINGS]).to_numpy(bool)
     # a guard beside insulation or covers is their alternative, else it is the work itself
-    alternative = np.array([any(not q["work"].startswith(GUARD) for q in qs) for qs in quantities],
-                           bool)
+    alternative = np.bincount(q_row, weights=not_guard, minlength=n) > 0
 
     scaffold = needs_scaffold(table["elevation_m"].to_numpy(float), plan.scaffold_above)
     up, unknown_height = scaffold == True, scaffold == None  # noqa: E711,E712 (object array)
-    checks = [{f["check"] for f in by_row.get(r, ())} for r in range(n)]
     # any insulation work or a CUI inspection may cut old insulation or its remnants (a guard
     # alone does not); a row without an install year is presumed old
-    disturbs = np.array([any(not q["work"].startswith(GUARD) for q in qs) or "cui-window" in c
-                         for qs, c in zip(quantities, checks)], bool)
+    disturbs = alternative | found.cui
     year = table["install_year"].to_numpy(float)
     survey = disturbs & presumed_asbestos(year, plan.presumed_before)
     notes = np.full(n, "", dtype=object)
     for mask, words in ((unknown_height, NO_ELEVATION), (survey & ~np.isfinite(year), NO_YEAR),
-                        (np.array(["cui-window" in c for c in checks]), NO_INSPECTION_HOURS)):
+                        (found.cui, NO_INSPECTION_HOURS)):
         notes = np.where(mask, np.where(notes == "", words, notes + "; " + words), notes)
 
     hours = hours + np.where(alternative, 0.0, guard_hours) + np.where(up, plan.scaffold_hours, 0.0)
     scaffold_cost = np.where(up, plan.scaffold_hire + plan.scaffold_hours * plan.rate, 0.0)
     guard_cost = np.where(alternative, 0.0, guards)
     frame = pd.DataFrame({
-        "scaffold": np.where(up, "yes", np.where(unknown_height, UNKNOWN, "no")),
-        "asbestos_survey": np.where(survey, "yes", "no"),
+        "scaffold": _shared(np.where(up, "yes", np.where(unknown_height, UNKNOWN, "no"))),
+        "asbestos_survey": _shared(np.where(survey, "yes", "no")),
         "labour [h]": hours,
         "installed_cost": installed, "guard_cost": guard_cost, "scaffold_cost": scaffold_cost,
         "guard_alternative_cost": np.where(alternative & (guards > 0), guards, np.nan),
-        "planning_note": notes}, index=table.index, columns=ROW_COLUMNS)
+        "planning_note": _shared(notes)}, index=table.index, columns=ROW_COLUMNS)
     frame.loc[~planned, :] = None
-    iced = np.array([any(ICE in str(f["message"]) for f in by_row.get(r, ())) for r in range(n)])
-    return RowPlans(planned=planned, quantities=quantities, iced=iced & planned, frame=frame,
+    return RowPlans(planned=planned, quantities=quantities, iced=found.iced & planned, frame=frame,
                     repair_cost=np.where(planned, installed + guard_cost + scaffold_cost, np.nan))
+
+
+def _shared(values) -> np.ndarray:
+    """``values`` as an object array holding one string object per distinct text (a column
+    of 100,000 "no" holds one)."""
+    codes, uniques = pd.factorize(pd.Series(values, dtype=object))
+    return np.append(np.asarray(uniques, object), None)[codes]
 
 
 def sequence(*, scaffold: str, asbestos: bool, cui: bool, iced: bool) -> list[str]:

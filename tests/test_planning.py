@@ -16,7 +16,8 @@ from audit.economics.rules import Repair
 from audit.errors import RuleError
 from audit.planning import (GUARD, INSULATE, NO_ELEVATION, NO_YEAR, UNKNOWN, HourTable,
                             PlanningRules, needs_scaffold, plan_order, planning_rules,
-                            presumed_asbestos, quantity_costs, work_order_key)
+                            presumed_asbestos, quantity_costs, quantity_frame,
+                            work_order_key)
 from audit.rules import load_rules
 
 NPS4_OD = 0.1143  # m, ASME B36.10M outside diameter of NPS 4
@@ -37,6 +38,12 @@ def _q(work, quantity, unit, od=NPS4_OD, thickness_mm=np.nan, material=""):
             "thickness_mm": thickness_mm, "material": material}
 
 
+def costs(rows, installed_m):
+    """quantity_costs of rows given as lists of quantities, one list per row."""
+    table = quantity_frame((r, q) for r, quantities in enumerate(rows) for q in quantities)
+    return quantity_costs(table, len(rows), installed_m, REPAIR, PLAN)
+
+
 PIPE = [_q(INSULATE, 10.0, "m", thickness_mm=50.0, material="mineral-wool"),
         _q("removable insulation cover, valve", 2, "pcs"),
         _q(GUARD + ", fittings", 3, "pcs")]
@@ -44,7 +51,7 @@ VESSEL = [_q("reinstate damaged share as installed", 12.0, "m²", od=2.0)]
 
 
 def test_hours_installed_and_guard_cost_of_a_pipe_against_hand_totals():
-    hours, installed, guard_hours, guards = quantity_costs([PIPE], [0.05], REPAIR, PLAN)
+    hours, installed, guard_hours, guards = costs([PIPE], [0.05])
     # hours: 10 m x 0.5 h/m + 2 covers x 1.5 h = 5 + 3 = 8 h; guards 3 x 0.5 h = 1.5 h
     assert hours[0] == pytest.approx(8.0, rel=1e-12)  # exact sums of table entries
     assert guard_hours[0] == pytest.approx(1.5, rel=1e-12)
@@ -55,7 +62,7 @@ def test_hours_installed_and_guard_cost_of_a_pipe_against_hand_totals():
 
 
 def test_reinstatement_is_priced_at_the_installed_thickness_interpolated():
-    hours, installed, _, guards = quantity_costs([[], VESSEL], [0.0, 0.0375], REPAIR, PLAN)
+    hours, installed, _, guards = costs([[], VESSEL], [0.0, 0.0375])
     # 37.5 mm is halfway between 25 and 50 mm: 0.5 h/m2 and 70 /m2; 12 m2 -> 6 h, 840
     assert hours[1] == pytest.approx(6.0, rel=1e-12)
     assert installed[1] == pytest.approx(840.0, rel=1e-12)
@@ -63,7 +70,7 @@ def test_reinstatement_is_priced_at_the_installed_thickness_interpolated():
 
 
 def test_outside_the_tables_has_no_cost_rather_than_the_nearest():
-    hours, installed, _, _ = quantity_costs([VESSEL], [0.100], REPAIR, PLAN)  # 100 mm beyond 50 mm
+    hours, installed, _, _ = costs([VESSEL], [0.100])  # 100 mm beyond 50 mm
     assert math.isnan(hours[0]) and math.isnan(installed[0])
 
 
@@ -249,9 +256,9 @@ def test_rows_are_priced_apart_and_in_proportion_to_their_quantities(rows):
     """Invariants: pricing many rows at once gives each row what it gets alone (the vectorised
     sums never mix rows), and doubling every quantity doubles every hour and cost."""
     installed = [0.0375] * len(rows)
-    together = np.array(quantity_costs(rows, installed, REPAIR, PLAN))
-    alone = np.array([[x[0] for x in quantity_costs([r], [0.0375], REPAIR, PLAN)] for r in rows]).T
+    together = np.array(costs(rows, installed))
+    alone = np.array([[x[0] for x in costs([r], [0.0375])] for r in rows]).T
     np.testing.assert_allclose(together, alone, rtol=1e-12, atol=1e-9)  # summation order only
     doubled = [[{**q, "quantity": 2 * q["quantity"]} for q in r] for r in rows]
-    np.testing.assert_allclose(np.array(quantity_costs(doubled, installed, REPAIR, PLAN)),
+    np.testing.assert_allclose(np.array(costs(doubled, installed)),
                                2 * together, rtol=1e-12, atol=1e-9)  # linear in the quantity
