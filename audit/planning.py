@@ -402,10 +402,15 @@ class RowPlans:
     def _starts(self) -> np.ndarray:
         return np.searchsorted(self.quantities["row"].to_numpy(int), np.arange(len(self.planned) + 1))
 
+    @cached_property
+    def _quantity_columns(self) -> list[np.ndarray]:
+        return [self.quantities[c].to_numpy(object) for c in QUANTITY_FIELDS]
+
     def quantities_of(self, row: int) -> list[dict]:
         """The quantities of one row (by position), as dicts of :data:`QUANTITY_FIELDS`."""
-        rows = self.quantities.iloc[self._starts[row]:self._starts[row + 1]]
-        return [dict(zip(QUANTITY_FIELDS, q)) for q in rows[list(QUANTITY_FIELDS)].itertuples(index=False)]
+        start, stop = self._starts[row], self._starts[row + 1]
+        return [dict(zip(QUANTITY_FIELDS, values))
+                for values in zip(*(column[start:stop] for column in self._quantity_columns))]
 
     def part(self, row: int) -> dict:
         """The planning fields of one row (by position), for its work order."""

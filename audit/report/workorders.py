@@ -390,7 +390,7 @@ def _labelled(q: dict) -> dict:
     """A row's quantity with its printed thickness and quantity text."""
     mm = q["thickness_mm"]
     return {**q, "thickness": fmt(mm) if np.isfinite(mm) else "",
-            "text": fmt(q["quantity"]) if q["unit"] != "pcs" else str(q["quantity"])}
+            "text": fmt(q["quantity"]) if q["unit"] != "pcs" else str(int(q["quantity"]))}
 
 
 def _material_line(q: dict) -> str:
