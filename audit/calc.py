@@ -19,12 +19,13 @@ from __future__ import annotations
 import argparse
 import math
 import textwrap
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
 
 from audit import methods
+from audit.coldweather import COLUMNS
 from audit.errors import LagauditError
 from audit import display_units
 from audit.io.readers import read_rows, reader_options
@@ -76,6 +77,8 @@ class CalcResult:
     findings: pd.DataFrame
     site: str             #: site condition its own conditions come from
     rules: Rules
+    #: the results' cold-weather columns of the item (audit.coldweather.COLUMNS), NaN if none
+    cold_weather: dict = field(default_factory=dict)
 
 
 def flag_of(column: str) -> str:
@@ -189,7 +192,8 @@ def calc_item(*, rules: Rules | None = None, rules_dirs=(), surface_model: str =
     if not bool(state["computed"]):
         raise LagauditError(f"the engine could not compute the item: {state['engine_reason']}")
     site = row["location"] or rules.defaults.get("site", "")
-    return CalcResult(row, state, audit.findings, site, rules)
+    return CalcResult(row, state, audit.findings, site, rules,
+                      {c: float(audit.results[c].iloc[0]) for c in COLUMNS})
 
 
 def _cell(value) -> str:
@@ -263,6 +267,10 @@ def format_calc(result: CalcResult, units: str = "si") -> str:
     rows.append(("heat flux at the outer surface", value, unit))
     value, unit = convert(state["outer_area_m2"], "area", units)
     rows.append(("outer area", value, unit))
+    outlet = result.cold_weather.get("outlet_temp [degC]", math.nan)
+    if math.isfinite(outlet):
+        value, unit = convert(outlet, "temperature", units)
+        rows.append(("temperature at the end of the run", value, unit))
     lines.append("Results at these conditions")
     width = max(len(r[0]) for r in rows)
     lines += [f"  {label:<{width}}  {_number(v):>10}  {u}" for label, v, u in rows]

@@ -17,14 +17,16 @@ from audit import display_units
 from audit.display_units import SYSTEMS
 from audit.errors import LagauditError
 from audit.io.readers import read_register, reader_options
-from audit.io.readers.validate import summarise
+from audit.io.readers.validate import summarise, summarise_survey
 from audit.io.writers.place import OutputFolder
 from audit.outputs import FORMATS, MAX_WORKORDER_PAGES, check_outputs, write_outputs
+from audit.io.readers.survey import read_survey
 from audit.pipeline import audit_register
 from audit.progress import printable, progress
 from audit.rules import SEVERITIES, load_rules
 from audit.rules.describe import describe_rules
 from audit.shipped import shipped_dir
+from audit.survey import reconcile
 from audit.thermal import resolve_names
 
 
@@ -126,6 +128,9 @@ def _parser() -> argparse.ArgumentParser:
     validate.add_argument("registers", nargs="+", metavar="REGISTER")
     _rules_option(validate)
     validate.add_argument("--sheet", action="append", metavar="NAME")
+    validate.add_argument("--survey", nargs="+", metavar="READINGS",
+                          help="also read these field readings (CSV/XLSX) and list, by file, "
+                               "row and column, every reading that cannot be used and why")
     validate.set_defaults(run=_validate)
 
     history = sub.add_parser(
@@ -223,12 +228,14 @@ def _run(args) -> int:
 
 def _demo(args) -> int:
     folder = shipped_dir("sample_data")
+    cold_area = folder / "demo_cold_area.xlsx"  # the LNG unit and refrigerated hall, both surveys
     if args.second_survey:
         return _audit_and_write([folder / "demo_line_list_resurvey.xlsx",
-                                 folder / "demo_equipment_resurvey.xlsx"], args)
+                                 folder / "demo_equipment_resurvey.xlsx", cold_area], args)
     if args.survey is None:  # the demo plant's invented infrared survey
         args.survey = [folder / "demo_survey.csv"]
-    return _audit_and_write([folder / "demo_line_list.xlsx", folder / "demo_equipment.xlsx"], args)
+    return _audit_and_write([folder / "demo_line_list.xlsx", folder / "demo_equipment.xlsx",
+                             cold_area], args)
 
 
 def _audit_and_write(registers, args) -> int:
@@ -332,6 +339,8 @@ def _validate(args) -> int:
     table = read_register(args.registers, sheets=args.sheet, **reader_options(rules))
     table = resolve_names(table, rules)
     print(printable(summarise(table)))
+    if args.survey:
+        print(printable(summarise_survey(reconcile(read_survey(args.survey), table, rules))))
     return 0
 
 

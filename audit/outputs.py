@@ -22,8 +22,8 @@ from audit.io.writers import summary_sheet, write_csv, write_json, write_xlsx
 from audit.io.writers.place import OutputFolder
 from audit.io.writers.safety import as_number
 from audit.progress import printable
-from audit.results import carried_columns, findings_out
-from audit.survey import survey_out
+from audit.results import carried_columns, findings_out, significant
+from audit.survey import SURVEY_FIGURES, survey_out
 
 
 def shown(audit, table: pd.DataFrame, units: str = "si") -> pd.DataFrame:
@@ -42,8 +42,9 @@ def _csv(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
          **options) -> list[Path]:
     jobs = [(shown(audit, audit.results, units), "results.csv"),
             (_findings(audit, units), "findings.csv")]
-    if getattr(audit, "survey", None) is not None:
-        jobs.append((display_units.frame(survey_out(audit.survey), units), "survey.csv"))
+    survey = _survey(audit, units)
+    if survey is not None:
+        jobs.append((survey, "survey.csv"))
     # Two threads: much of the writing is numpy formatting and file output, which let go of
     # the interpreter lock, so the two files overlap.
     with ThreadPoolExecutor(2) as pool:
@@ -52,8 +53,22 @@ def _csv(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
 
 def _json(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
           **options) -> list[Path]:
+    survey = _survey(audit, units)
     return [placed(folder, "results.json", write_json, shown(audit, audit.results, units),
-                   meta={**meta, "units": units})]
+                   meta={**meta, "units": units},
+                   tables=None if survey is None else {"survey": survey})]
+
+
+def _survey(audit, units: str) -> pd.DataFrame | None:
+    """survey.csv's table in ``units``: every reading once, with its status (None without a
+    survey)."""
+    if getattr(audit, "survey", None) is None:
+        return None
+    out = display_units.frame(survey_out(audit.survey), units)
+    if units != "si":  # the converted figures rounded again, as the SI ones are
+        for column in out.columns[SURVEY_FIGURES:]:
+            out[column] = significant(out[column].to_numpy(float))
+    return out
 
 
 def _xlsx(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
@@ -66,6 +81,9 @@ def _xlsx(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",
               "by check": shown(audit, economics.by_check, units),
               "best paybacks": shown(audit, economics.top_repairs, units),
               "assumptions": pd.DataFrame(economics.assumptions)}
+    survey = _survey(audit, units)
+    if survey is not None:
+        sheets["survey"] = survey
     notes = []
     written = [placed(folder, "results.xlsx", write_xlsx, sheets, notes=notes)]
     for note in notes:  # a split is news: said even with --quiet

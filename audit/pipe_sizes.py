@@ -51,3 +51,19 @@ NOMINAL_PIPE_SIZES: tuple[tuple[str, float, int, float], ...] = (
 NPS_BY_VALUE: dict[float, str] = {value: text for text, value, _, _ in NOMINAL_PIPE_SIZES}
 NPS_BY_DN: dict[int, str] = {dn: text for text, _, dn, _ in NOMINAL_PIPE_SIZES}
 OD_MM_BY_NPS: dict[str, float] = {text: od for text, _, _, od in NOMINAL_PIPE_SIZES}
+
+#: Wall thickness [mm] of steel pipe by schedule and NPS -- ASME B36.10M, Table 1 (schedules 40
+#: and 80, sizes 1/8 to 24 where the table gives them; from memory, every value held to the
+#: ``fluids`` library's ASME B36.10M tables in tests/test_pipe_sizes.py).
+WALL_MM_BY_SCHEDULE: dict[str, dict[str, float]] = {
+    "40": {"1/8": 1.73, "1/4": 2.24, "3/8": 2.31, "1/2": 2.77, "3/4": 2.87, "1": 3.38,
+           "1-1/4": 3.56, "1-1/2": 3.68, "2": 3.91, "2-1/2": 5.16, "3": 5.49, "3-1/2": 5.74,
+           "4": 6.02, "5": 6.55, "6": 7.11, "8": 8.18, "10": 9.27, "12": 10.31, "14": 11.13,
+           "16": 12.70, "18": 14.27, "20": 15.09, "24": 17.48},
+    "80": {"1/8": 2.41, "1/4": 3.02, "3/8": 3.20, "1/2": 3.73, "3/4": 3.91, "1": 4.55,
+           "1-1/4": 4.85, "1-1/2": 5.08, "2": 5.54, "2-1/2": 7.01, "3": 7.62, "3-1/2": 8.08,
+           "4": 8.56, "5": 9.53, "6": 10.97, "8": 12.70, "10": 15.09, "12": 17.48, "14": 19.05,
+           "16": 21.44, "18": 23.83, "20": 26.19, "24": 30.96},
+}
+#: The schedule of a pipe whose register gives neither ``schedule`` nor ``wall`` (README).
+DEFAULT_SCHEDULE = "40"

@@ -14,6 +14,7 @@ import pandas as pd
 from audit.checks import check_kinds, run_checks, summarise_per_row, validate_checks
 from audit.checks.base import CheckContext
 from audit.checks.remedy import fill_remedies
+from audit.coldweather import result_columns as cold_weather_columns
 from audit.economics import Economics, EconomicRules, compute_economics
 from audit.economics import economic_rules as economic_rules_of
 from audit.io.readers import read_register, reader_options
@@ -21,7 +22,7 @@ from audit.io.readers.survey import read_survey
 from audit.planning import ROW_COLUMNS, PlanningRules, RowPlans, plan_rows, planning_rules
 from audit.results import build_results
 from audit.rules import Rules, load_rules
-from audit.survey import reconcile, result_columns
+from audit.survey import item_factors, more_heat_than_predicted, reconcile, result_columns
 from audit.thermal import resolve_names
 
 
@@ -38,6 +39,54 @@ class Audit:
     history: object = None   #: with --history: this audit beside the last (audit.history.SinceLast)
     survey: pd.DataFrame | None = None  #: with --survey: every reading, reconciled (audit.survey)
     planning: RowPlans | None = None  #: each row's planned work, hours and cost (audit.planning)
+
+
+def measured_context(context: CheckContext, deviations: dict) -> CheckContext:
+    """Measured beats assumed: the audit's context (its ``survey`` reconciled) with every
+    item the survey-deviation checks flagged (``deviations``: their findings) at the
+    condition its readings measured (:func:`audit.survey.item_factors`): the spot condition
+    (the largest factor, where above 1) for the checks of one spot, and beside it
+    (``whole_item``) the whole-item condition (the mean factor) for the heat loss, the energy
+    and the money; ``registered`` keeps the items as registered.  An item whose readings all
+    lie within the margin stays as registered: the readings confirm it, and a factor read
+    from a few kelvin (near the air, a kelvin moves the factor several-fold) would be noise.
+    Where the survey found more heat through the insulation, the repair restores it as
+    installed (``measured_repair``)."""
+    table, registered, survey = context.table, context.prepared(), context.survey
+    flagged = np.zeros(len(table), bool)
+    for found in deviations.values():
+        flagged[found["row"].to_numpy(int)] = True
+    local, whole = (np.where(flagged, f, np.nan) for f in item_factors(survey, table.index))
+    repair = flagged & more_heat_than_predicted(survey, table.index)
+
+    def at(factor):
+        return CheckContext(table, context.rules, surface_model=context.surface_model,
+                            survey=survey, _tables=context.tables(),
+                            _prepared=registered.measured(factor), measured_factor=factor,
+                            registered=registered, measured_repair=repair)
+
+    out = at(local)
+    # One context (one solve per case) where both conditions agree, as without readings.
+    same = np.array_equal(local, whole, equal_nan=True)
+    out.whole_item = out if same else at(whole)
+    return out
+
+
+def finding_basis(findings: pd.DataFrame, context: CheckContext) -> tuple[np.ndarray, np.ndarray]:
+    """Per finding: ``measured`` where a field reading decided it (a survey-deviation finding,
+    or a check of the thermal state on an item carrying a measured condition), else
+    ``register``; and the condition factor [-] the check judged the item at (NaN: none, and
+    for the survey-deviation findings, which say their own)."""
+    kinds = check_kinds()
+    rows = findings["row"].to_numpy(int)
+    kind = findings["kind"].to_numpy(object)
+    whole = np.array([kinds[k].whole_item for k in kind], dtype=bool)
+    thermal = np.array([kinds[k].thermal for k in kind], dtype=bool)
+    factor = np.where(whole, context.whole_item.measured_factor[rows],
+                      context.measured_factor[rows]) if rows.size else np.empty(0)
+    factor = np.where(thermal & (kind != "survey-deviation"), factor, np.nan)
+    return np.where((kind == "survey-deviation") | np.isfinite(factor), "measured",
+                    "register"), factor
 
 
 def audit_register(registers, *, rules_dirs=(), sheets=None, surface_model="correlations",
@@ -77,21 +126,40 @@ def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlation
     table = table.copy(deep=False)
     table.attrs = {}
     context = CheckContext(table, rules, surface_model=surface_model)
+    done = {}
     if readings is not None:
         context.survey = reconcile(readings, table, rules, prepared=context.prepared(),
                                    tables=context.tables(), surface_model=surface_model)
-    findings = run_checks(context, params)
+        kinds = check_kinds()
+        done = {check.name: kinds[check.kind].findings(context, check, params[check.name])
+                for check in rules.checks.values()
+                if check.enabled and check.kind == "survey-deviation"}
+        context = measured_context(context, done)
+    findings = run_checks(context, params, done=done)
     findings = fill_remedies(context, findings, check_kinds(), params)
     states = context.states("")
     repairs = plan_rows(table, states, findings, planning, economic_rules.repair)
     economics = compute_economics(context, findings, rules, economic_rules=economic_rules,
                                   repairs=repairs, fuel_price=fuel_price, hours=hours)
     names, worst = summarise_per_row(findings, len(table))
-    extra = pd.concat([economics.per_row, repairs.frame[ROW_COLUMNS]], axis=1)
+    extra = pd.concat([economics.per_row.reset_index(drop=True),
+                       repairs.frame[ROW_COLUMNS].reset_index(drop=True),
+                       cold_weather_columns(context, params)], axis=1)
     if readings is not None:
-        findings["basis"] = np.where(findings["kind"] == "survey-deviation", "measured", "register")
+        findings["basis"], factor = finding_basis(findings, context)
+        said = findings["basis"].eq("measured").to_numpy() & np.isfinite(factor)
+        findings.loc[said, "message"] = [
+            f"{message} (as measured: the field survey's condition factor {f:.2g} on the "
+            "insulation's conductivity)" for message, f in zip(findings.loc[said, "message"],
+                                                              factor[said])]
+        basis = np.isfinite(context.measured_factor) | np.isfinite(
+            context.whole_item.measured_factor)
         extra = pd.concat([extra.reset_index(drop=True),
-                           result_columns(context.survey, table.index)], axis=1)
+                           result_columns(context.survey, table.index),
+                           pd.DataFrame({"basis": np.where(
+                               basis, "measured", np.where(table["status"] == "ok", "register",
+                                                           ""))})],
+                          axis=1)
     cases = dict.fromkeys(c.site for c in rules.checks.values() if c.enabled and c.site)
     results = build_results(table, states, findings=names, severity=worst,
                             extra=extra,

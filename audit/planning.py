@@ -171,7 +171,8 @@ PLANNED_FROM = "low"
 INSULATE = "insulate to the remedy thickness (whole item)"
 REINSTATE = {"reinstate-damaged": "reinstate damaged share as installed",
              "replace-wet": "replace wet insulation as installed",
-             "reinstate-missing": "reinstate missing insulation as installed"}
+             "reinstate-missing": "reinstate missing insulation as installed",
+             "replace-degraded": "replace insulation the survey found degraded, as installed"}
 GUARD = "personnel guard (alternative to insulation)"
 GUARD_FITTINGS = GUARD + ", fittings"
 

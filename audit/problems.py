@@ -57,6 +57,11 @@ CODES = {
     "fittings-not-counted": "fittings given on an item that is not a pipe",
     "beyond-fitting-table": "a pipe size beyond the rules' fitting table",
     "above-boiling-point": "a boiling liquid of the rules hotter than its boiling point",
+    "not-tracing": "not a heat-tracing description (none, electric RATING, steam SIZE)",
+    "no-heat-capacity": "a flow given for a line whose fluid has no cp in the rules",
+    "maintain-above-temp": "maintain above the operating temperature on an untraced line",
+    "no-maintain": "tracing given without the maintain temperature it must hold",
+    "no-wall": "a stagnant water line whose pipe wall is not known (no wall, schedule or NPS)",
 }
 
 SEVERITIES = ("reject", "warning")

@@ -169,6 +169,25 @@ SCHEMA: tuple[RegisterColumn, ...] = (
     RegisterColumn("fluid", _item("fluid", "str", "what the item holds, a `[fluid.NAME]` of "
                                   "the rules; empty if not given"), parse="name",
                    selectable=True),
+    # Heat tracing, freeze protection and flow (issue 20): audit/coldweather.py reads them.
+    RegisterColumn("tracing", (
+        ItemColumn("tracing", "str", "`none`, `electric`, `steam`; empty if not given"),
+        ItemColumn("tracing_W_per_m", "float", "electric tracing's output, rating times cables "
+                                               "(NaN if not electric)"),
+        ItemColumn("tracer_nps", "float", "steam tracer tube size, inches (NaN if not steam)"),
+        ItemColumn("tracing_steam_K", "float", "steam temperature the cell gives (NaN: the "
+                                               "rules')"),
+    ), selectable=True, calc_flag=False),
+    _quantity("maintain", "maintain_K", "temperature the tracing or the process must hold (NaN "
+              "if not given)", "degC", "kelvin", "a temperature", _NOT_NEGATIVE, selectable=True,
+              echo=True),
+    _quantity("flow", "flow_kg_s", "mass flow in the line (NaN if not given; 0: stagnant)",
+              "kg/s", "kg/s", "a mass flow", _NOT_NEGATIVE, selectable=True, echo=True),
+    RegisterColumn("schedule", _item("schedule", "str", "pipe wall schedule of ASME B36.10M "
+                                     "(`40`, `80`), empty if not given"),
+                   words=("40", "80"), numeric=True, selectable=True, calc_flag=False),
+    _quantity("wall", "wall_m", "pipe wall thickness (NaN if not given: from the schedule)",
+              "mm", "m", "a wall thickness", _POSITIVE, calc_flag=False),
 )
 
 BY_NAME = {column.name: column for column in SCHEMA}

@@ -41,7 +41,8 @@ BISECTIONS = 24       # halvings of ln(FACTOR_HIGH/FACTOR_LOW) = 9.2: the factor
 
 #: Columns :func:`reconcile` adds to the readings.
 ADDED = ("item_row", "item_source", "predicted_temp_K", "condition_factor",
-         "measured_heat_loss_W", "predicted_heat_loss_W", "air_temp_K", "process_temp_K")
+         "measured_heat_loss_W", "predicted_heat_loss_W", "air_temp_K", "process_temp_K",
+         "wind_used_m_s", "rh_used_pct", "surroundings_temp_K")
 
 
 def reconcile(readings: pd.DataFrame, table: pd.DataFrame, rules: Rules, *,
@@ -188,6 +189,9 @@ def _figures(out, matched, rows, prepared, rules, conductivity, surface_model,
         found & ~outside, at_factor.heat_loss, np.nan)
     out.loc[out.index[matched], "air_temp_K"] = air
     out.loc[out.index[matched], "process_temp_K"] = process
+    out.loc[out.index[matched], "wind_used_m_s"] = conditions["wind_m_s"]
+    out.loc[out.index[matched], "rh_used_pct"] = conditions["rh_pct"]
+    out.loc[out.index[matched], "surroundings_temp_K"] = conditions["surroundings_temp_K"]
     uninsulated = ~insulated & ~outside
     for k in np.flatnonzero(uninsulated):
         _add(warning, matched[k], "surface_temp: the item is registered without insulation; "
@@ -245,6 +249,53 @@ def worst_readings(survey: pd.DataFrame | None, index: pd.Index) -> tuple[np.nda
     return worst, count
 
 
+def item_factors(survey: pd.DataFrame | None, index: pd.Index) -> tuple[np.ndarray, np.ndarray]:
+    """Per item-table row (``index``: the table's labels), the condition factors [-] its
+    matched readings give the rest of the audit (NaN: none; the item is judged as registered).
+
+    Returns ``(local, whole)``:
+
+    - ``local``, for what one spot decides (a burn, a cold touch, sweating, a layer's hot
+      face): the largest factor of the item's readings, the spot letting most heat through;
+      NaN where that is not above 1, since a reading cooler than predicted never relaxes a
+      safety check (a low-emissivity jacket or a reflection biases a reading cold);
+    - ``whole``, for what the whole item decides (its heat loss, energy and money): the mean
+      of its readings' factors, each reading a sample of the item's length.
+
+    Readings no factor reproduces (hotter than bare metal, or nearer the air than a tenth of
+    the registered conductivity allows) give none: they stand in the survey-deviation check.
+    """
+    n = len(index)
+    local, whole = np.full(n, np.nan), np.full(n, np.nan)
+    if survey is None or not len(survey):
+        return local, whole
+    factor = survey["condition_factor"].to_numpy(float)
+    use = np.flatnonzero((survey["status"] == "matched").to_numpy() & np.isfinite(factor))
+    at = index.get_indexer(survey["item_row"].to_numpy()[use])
+    total, count, high = np.zeros(n), np.zeros(n), np.full(n, -np.inf)
+    np.add.at(total, at, factor[use])
+    np.add.at(count, at, 1)
+    np.maximum.at(high, at, factor[use])
+    has = count > 0
+    whole[has] = total[has] / count[has]
+    local[has & (high > 1.0)] = high[has & (high > 1.0)]
+    return local, whole
+
+
+def more_heat_than_predicted(survey: pd.DataFrame | None, index: pd.Index) -> np.ndarray:
+    """Per item-table row: whether its worst reading lets more heat through than the item as
+    registered would (hotter than predicted on a hot item, colder on a cold one)."""
+    worst, _ = worst_readings(survey, index)
+    out = np.zeros(len(index), bool)
+    has = worst >= 0
+    if has.any():
+        picked = survey.iloc[worst[has]]
+        hot = picked["process_temp_K"].to_numpy(float) >= picked["air_temp_K"].to_numpy(float)
+        out[has] = np.where(hot, 1.0, -1.0) * (picked["surface_temp_K"].to_numpy(float)
+                                               - picked["predicted_temp_K"].to_numpy(float)) > 0
+    return out
+
+
 #: Results columns of the survey (contract names) -> column of the reconciled survey; kelvin
 #: columns go to degC.
 RESULT_COLUMNS = {"measured_temp [degC]": "surface_temp_K",
@@ -284,6 +335,10 @@ def survey_out(survey: pd.DataFrame) -> pd.DataFrame:
         "condition_factor [-]": survey["condition_factor"],
         "measured_heat_loss [W]": survey["measured_heat_loss_W"],
         "predicted_heat_loss [W]": survey["predicted_heat_loss_W"]})
-    for column in out.columns[9:]:
+    for column in out.columns[SURVEY_FIGURES:]:
         out[column] = significant(out[column].to_numpy(float))
     return out
+
+
+#: survey.csv's columns from this position on are figures (written to 6 significant figures).
+SURVEY_FIGURES = 9

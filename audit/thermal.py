@@ -62,6 +62,13 @@ def resolve_names(table: pd.DataFrame, rules: Rules, *, notes: bool = True) -> p
     fluid_rows, fluid_parts = _fluid_problems(out, rules)
     recorded.append(_recorded(out, "reject", fluid_rows, fluid_parts))
     out.iloc[fluid_rows, out.columns.get_loc("status")] = "rejected"
+    # Imported here: audit.coldweather builds on this module.
+    from audit.coldweather import input_problems
+    for severity, rows, column, problem in input_problems(out, rules):
+        if severity == "reject" or notes:
+            recorded.append(_recorded(out, severity, rows, [(column, None, problem)] * len(rows)))
+        if severity == "reject":
+            out.iloc[rows, out.columns.get_loc("status")] = "rejected"
     if notes:
         recorded += _note_defaults(out, rules)
     out.attrs["problems"] = problems_of(out).plus(pd.concat(recorded, ignore_index=True))
@@ -347,6 +354,16 @@ class PreparedItems:
         at = (np.cumsum(self.accepted) - 1)[rows]
         return self._with(np.ones(rows.size, bool),
                           {name: value[at] for name, value in self.fixed.items()}, at, rows=rows)
+
+    def measured(self, factor) -> PreparedItems:
+        """Every row with its layers' conductivity multiplied by ``factor`` [-] (one per
+        table row; NaN: as it is), the condition a field survey measured
+        (:func:`audit.survey.item_factors`); a repair or new insulation drops it again."""
+        factor = np.asarray(factor, float)[self.accepted]
+        fixed = dict(self.fixed)
+        fixed["layer_factor"] = self.fixed["layer_factor"] * np.where(
+            np.isfinite(factor), factor, 1.0)[:, None]
+        return self._with(self.accepted, fixed)
 
     def reinsulated(self, materials, thickness_m, *, cover_fittings: bool = True) -> PreparedItems:
         """Every row insulated with one intact layer of ``materials`` [name, or its index in

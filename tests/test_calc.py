@@ -261,3 +261,17 @@ def test_the_emissivity_printed_is_that_of_each_surface(rules):
                                     jacket="aluminium-oxidised"), "si")
     assert (f"emissivity       {rules.jackets['aluminium-oxidised'].emissivity:.2f} (insulated "
             f"surface), {rules.metals['carbon-steel'].emissivity:.2f} (bare metal)") in flanged
+
+
+def test_a_flowing_line_prints_its_outlet_temperature_as_the_register_audit_gives_it(rules, tmp_path):
+    from support import item_table
+    flags = dict(nps="6", length="650", temp="95", layers="mineral-wool 40",
+                 jacket="aluminium-oxidised", flow="0.6", fluid="fuel-oil")
+    result = calc_item(rules=rules, **flags)
+    table = item_table(tmp_path, ",".join(["tag", *flags]) + "\nT," + ",".join(flags.values())
+                       + "\n", rules)
+    register = audit_table(table, rules).results["outlet_temp [degC]"].iloc[0]
+    assert result.cold_weather["outlet_temp [degC]"] == pytest.approx(register, rel=1e-12)
+    assert 10 < register < 95  # between the annual-mean air and the inlet
+    printed, unit = _row(format_calc(result), "temperature at the end of the run")
+    assert unit == "degC" and printed == pytest.approx(register, abs=0.05)  # printed to 0.1

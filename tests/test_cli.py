@@ -111,7 +111,7 @@ def test_demo_runs_on_the_shipped_demo_plant(tmp_path, capsys):
     out = tmp_path / "demo"
     assert main(["demo", "--out", str(out), "--format", "csv"]) == 0
     results = pd.read_csv(out / "results.csv", keep_default_na=False)
-    assert len(results) == 340  # the demo plant's 300 lines and 40 equipment items
+    assert len(results) == 365  # the demo plant: 310 lines, 40 equipment items, 15 cold-area rows
     assert "Caution" in capsys.readouterr().out
 
 

@@ -12,15 +12,16 @@ from audit.pipeline import audit_register
 
 ROOT = Path(__file__).resolve().parent.parent
 DATA = ROOT / "sample_data"
-FILES = {"csv": [DATA / "demo_line_list.csv", DATA / "demo_equipment.csv"],
-         "xlsx": [DATA / "demo_line_list.xlsx", DATA / "demo_equipment.xlsx"]}
+FILES = {fmt: [DATA / f"demo_line_list.{fmt}", DATA / f"demo_equipment.{fmt}",
+               DATA / f"demo_cold_area.{fmt}"] for fmt in ("csv", "xlsx")}
 #: The shipped checks that are enabled (rules/checks-*.toml, rules/spec-demo.toml).
 CHECKS = ["touch-temperature", "condensation", "layer-overheat", "heat-loss-limit", "below-spec",
-          "cui-window", "condition", "uninsulated-fittings"]
+          "cui-window", "condition", "uninsulated-fittings", "cold-touch", "layer-too-cold",
+          "tracing-shortfall", "freeze-risk", "temperature-drop"]
 #: The bad rows written on purpose (tools/make_demo_plant.py, BAD_ROWS and EQUIPMENT): the
 #: column each reason names.
 BAD_COLUMNS = ["length", "temp", "nps", "layers", "damaged", "accessible", "layers", "jacket",
-               "od"]
+               "od", "fluid", "flow"]
 
 
 def _generator():
@@ -44,8 +45,9 @@ def both():
 def test_sizes(audit):
     fmt, a = audit
     sources = a.results["source"].str.split(":").str[0]
-    assert (sources == f"demo_line_list.{fmt}").sum() == 300
+    assert (sources == f"demo_line_list.{fmt}").sum() == 310  # 300, and 10 cold-weather lines
     assert (sources == f"demo_equipment.{fmt}").sum() == 40
+    assert (sources == f"demo_cold_area.{fmt}").sum() == 15
 
 
 @pytest.mark.parametrize("check", CHECKS)
@@ -104,3 +106,47 @@ def test_generator_reproduces_the_files(tmp_path):
             assert path.read_bytes() == shipped.read_bytes(), path.name
         else:
             assert _cells(path) == _cells(shipped), path.name
+
+
+def test_cold_weather_lines_show_both_sides_of_each_check(audit):
+    # tools/make_demo_plant.py, COLD_WEATHER_LINES: each check has an item that passes beside
+    # one that fails, and the heated pump house's branch never freezes (indoor cold case).
+    a = audit[1]
+    flagged = {c: set(a.findings.loc[a.findings["check"] == c, "tag"])
+               for c in ("tracing-shortfall", "freeze-risk", "temperature-drop")}
+    assert {"QP-50-FO-2951", "QP-50-FO-2952"} <= flagged["tracing-shortfall"]
+    assert not {"QP-50-FO-2950", "QP-50-BI-2953"} & flagged["tracing-shortfall"]
+    assert "QP-50-FW-2961" in flagged["freeze-risk"]
+    assert not {"QP-50-FW-2960", "QP-50-FW-2962"} & flagged["freeze-risk"]
+    assert "QP-50-FO-2970" in flagged["temperature-drop"]
+    assert "QP-50-FO-2971" not in flagged["temperature-drop"]
+    hours = a.results.set_index("tag")["time_to_freeze [h]"]
+    assert hours["QP-50-FW-2960"] > 8 and pd.isna(hours["QP-50-FW-2962"])
+
+
+def test_the_cold_area_shows_boil_off_and_keeps_heat_lost_and_gained_apart(audit):
+    _, a = audit
+    results = a.results.set_index("tag")
+    # LNG and liquid nitrogen boil off what they gain; send-out gas and glycol hold no boiling
+    # liquid. Boil-off = heat gained / latent heat (tests/economics check the arithmetic).
+    boil = results["boil_off [kg/h]"]
+    assert (boil[["QP-70-LNG-7001", "QP-70-T-7010", "QP-70-D-7022", "QP-80-NH-8002"]] > 0).all()
+    assert boil[["QP-70-NG-7003", "QP-80-GL-8003"]].isna().all()
+    bought = results["energy_bought"]
+    assert bought["QP-70-LNG-7001"] == "boil-off" and bought["QP-70-NG-7003"] == "none"
+    assert bought["QP-80-NH-8002"] == "electricity"
+    plant = a.economics.plant
+    assert plant["energy_heat_lost [MWh]"] > 0 and plant["energy_heat_gained [MWh]"] > 0
+    assert plant["boil_off [kg/h]"] == pytest.approx(boil.sum(skipna=True), rel=1e-9)
+
+
+def test_the_cold_area_flags_the_wrong_materials_and_the_bare_cold_metal(audit):
+    _, a = audit
+    found = a.findings.groupby("check")["tag"].apply(set)
+    # PIR (ASTM C591: to -183 degC) on liquid nitrogen; mineral wool (C547: to 0 degF) on
+    # ammonia at -40 degC; calcium silicate (C533: from 80 degF) on chilled water.
+    assert found["layer-too-cold"] == {"QP-70-LN-7020", "QP-80-NH-8002", "QP-80-CW-8004"}
+    assert {"QP-70-LNG-7004", "QP-80-NH-8005"} <= found["cold-touch"]
+    ice = a.findings[(a.findings["check"] == "condensation")
+                     & a.findings["tag"].isin(["QP-70-LNG-7004", "QP-80-NH-8005"])]
+    assert len(ice) == 2 and ice["message"].str.contains("ice").all()

@@ -29,6 +29,8 @@ GOOD_CELLS = {
     "area_code": "U-200", "condition": "damaged", "ambient": "15", "wind": "2", "rh": "70",
     "surroundings": "10", "damaged": "5", "hours": "8000", "accessible": "yes", "valves": "2",
     "flanges": "4", "fluid": "steam", "elevation": "6.5 m", "install_year": "1978",
+    "tracing": "electric 2x15 W/m", "maintain": "40", "flow": "2.5", "schedule": "80",
+    "wall": "6 mm",
 }
 #: numpy kinds each declared dtype may be held as in the item table.
 DTYPE_KINDS = {"str": "OU", "float": "f", "bool": "b", "int": "iu"}

@@ -43,3 +43,13 @@ def test_dn_above_nps_4_is_25_times_nps():
     for _, nps, dn, _ in NOMINAL_PIPE_SIZES:
         if nps >= 4:
             assert dn == 25 * nps
+
+
+@pytest.mark.parametrize("schedule", ["40", "80"])
+def test_wall_thicknesses_match_fluids_b36_10m(schedule):
+    from audit.pipe_sizes import WALL_MM_BY_SCHEDULE
+    value_of = {text: value for value, text in NPS_BY_VALUE.items()}
+    for nps, wall_mm in WALL_MM_BY_SCHEDULE[schedule].items():
+        # fluids.piping.nearest_pipe: ASME B36.10M walls [m]; the table gives 0.01 mm.
+        assert wall_mm / 1000 == pytest.approx(
+            piping.nearest_pipe(NPS=value_of[nps], schedule=schedule)[3], abs=5e-6), nps

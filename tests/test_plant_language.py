@@ -41,7 +41,8 @@ US = {"degC": ("degF", "degC", "degF"), "mm": ("in", "mm", "inch"), "m": ("ft", 
       "m2": ("ft2", "m**2", "foot**2"), "m/s": ("mph", "m/s", "mile/hour"),
       "W": ("Btu/h", "W", "Btu_it/hour"), "W/m": ("Btu/h/ft", "W/m", "Btu_it/hour/foot"),
       "W/m2": ("Btu/(h ft2)", "W/m**2", "Btu_it/hour/foot**2"), "MWh": ("MMBtu", "MWh", "MBtu_it"),
-      "t": ("ton", "metric_ton", "short_ton"), "kg/h": ("lb/h", "kg/hour", "lb/hour")}
+      "t": ("ton", "metric_ton", "short_ton"), "kg/h": ("lb/h", "kg/hour", "lb/hour"),
+      "kg/s": ("lb/h", "kg/s", "lb/hour")}
 SI_IN_TEXT = re.compile(r"\d ?(degC|°C|mm|W/m2|W/m|m/s|m2|MWh|kg/h)\b|\d ?m\b")
 
 

@@ -6,7 +6,6 @@ from dataclasses import replace
 
 import ht
 import numpy as np
-import pandas as pd
 import pytest
 import scipy.constants
 from CoolProp.CoolProp import PropsSI
@@ -17,6 +16,7 @@ from audit.engine import solve_items
 from audit.io.readers import read_rows
 from audit.survey import FACTOR_HIGH, reconcile
 from audit.thermal import conductivity_tables, prepare_items, resolve_names, site_batch
+from support import readings as survey
 
 HEADER = ["tag", "shape", "nps", "length", "temp", "layers", "jacket", "location", "ambient",
           "wind", "rh", "emissivity"]
@@ -27,17 +27,6 @@ def register(rules, *rows):
     table = resolve_names(read_rows(HEADER, rows, name="reg.csv", aliases=rules.aliases), rules)
     assert (table["status"] == "ok").all(), table["reason"].tolist()
     return table
-
-
-def survey(*rows):
-    """Readings as the reader returns them: tag, surface [degC], air [degC], wind [m/s], eps."""
-    frame = pd.DataFrame(rows, columns=["tag", "surface", "air", "wind_m_s", "emissivity"])
-    return pd.DataFrame({
-        "source": [f"s.csv::{i + 2}" for i in range(len(rows))], "tag": frame["tag"],
-        "surface_temp_K": frame["surface"] + 273.15, "ambient_K": frame["air"] + 273.15,
-        "wind_m_s": frame["wind_m_s"], "rh_pct": 50.0, "emissivity": frame["emissivity"],
-        "date": "2026-11-03", "note": "", "position": "", "status": "ok", "reason": "",
-        "warnings": ""})
 
 
 PIPE = ["P-1", "pipe", "4", "10", "180", "mineral-wool 50mm", "aluminium-oxidised", "outdoor",

@@ -14,7 +14,9 @@ document system, mess included:
   CUI columns ``Cyclic`` and ``Install Year``, and the height of each item above grade or its
   platform (``Elevation [m]``, ``Elev``) for the work orders' access planning;
 * in the XLSX, a title block above the header row and a notes sheet without a register;
-* a few bad rows, each a different mistake found in real registers (listed in ``BAD_ROWS``).
+* a few bad rows, each a different mistake found in real registers (listed in ``BAD_ROWS``);
+* a small cold area in a register of its own (``COLD_AREA``): an LNG unit with a
+  liquid-nitrogen supply, and a refrigerated hall.
 
 The rows come from a fixed random state, so the files are the same on every run::
 
@@ -40,11 +42,15 @@ OUT = Path(__file__).resolve().parent.parent / "sample_data"
 #: A fixed creation date, so that the XLSX files do not change from run to run.
 CREATED = datetime.datetime(2026, 1, 15, 8, 0, 0)
 
+#: The cold-weather columns (heat tracing, freeze protection, temperature drop), after every
+#: other column: empty on every line but those of :func:`_add_cold_weather_lines`.
+COLD_WEATHER_HEADERS = ["Tracing", "Maintain [degC]", "Flow [kg/s]", "Fluid", "Schedule"]
+
 LINE_HEADERS = ["Line No", "Unit", "P&ID", "Stream", "Size", "Length [m]", "Orientation",
                 "Op Temp [degC]", "Lagging", "Cladding", "Location", "Access",
                 "Insul Condition", "Damaged [%]", "Pipe Material", "Bare Valves",
                 "Bare Flanges", "Op Hours", "Purpose", "Cyclic", "Install Year", "Remarks",
-                "Elevation [m]"]
+                "Elevation [m]", *COLD_WEATHER_HEADERS]
 
 EQUIPMENT_HEADERS = ["Equipment Tag", "Description", "Type", "Diameter [mm]", "Tan Tan [m]",
                      "Surface Area [m^2]", "Head Type", "Orientation", "Op Temp [degF]",
@@ -195,6 +201,7 @@ def line_rows(rng) -> list[list]:
             str(rng.choice(["yes", "no", "no", "no", ""])),
             str(int(rng.integers(1986, 2024))), ""])
     _add_fixed_lines(rows)
+    cold_weather = _add_cold_weather_lines(rows)
     for position, (header, value) in BAD_ROWS.items():
         rows[position][LINE_HEADERS.index(header)] = value
         rows[position][LINE_HEADERS.index("Remarks")] = "check with site"
@@ -202,6 +209,8 @@ def line_rows(rng) -> list[list]:
     # A tag entered twice (the second is a later revision of the same line): kept, with a warning.
     rows[120][0] = rows[119][0]
     _add_elevations(rows, LINE_HEADERS.index("Access"), (*(f"{x:g}" for x in RACK_LEVELS_M), "0.5"))
+    for row in rows:
+        row.extend(cold_weather.get(row[0], [""] * len(COLD_WEATHER_HEADERS)))
     _leave_planning_gaps(rows)
     return rows
 
@@ -252,7 +261,7 @@ def _add_fixed_lines(rows: list[list]) -> None:
          "stainless-steel", "0", "0", "8760", "cold", "no", "2011", "thin foam"],
         # a hot line lagged with wool alone, above wool's limit
         ["QP-30-RE-2903", "U30", "QP-30-PID-004", "reactor effluent", "10", "60", "horizontal",
-         "1040 F", "mineral-wool 4in", "aluminium-oxidised", "outdoor-annual-mean", "no",
+         "1250 F", "mineral-wool 4in", "aluminium-oxidised", "outdoor-annual-mean", "no",
          "intact", "", "carbon-steel", "0", "2", "8400", "heat-conservation", "yes", "1995", ""],
         # a wet line in the CUI window, cycling
         ["QP-50-HE-2904", "U50", "QP-50-PID-030", "heated fuel oil", "6", "80", "horizontal",
@@ -394,10 +403,139 @@ EQUIPMENT = [
 ]
 
 
+#: Cold-weather lines of utilities unit U50: the base cells, then the COLD_WEATHER_HEADERS cells.
+COLD_WEATHER_LINES = [
+    # Heated fuel oil kept pumpable by electric tracing: intact, it holds; the same build-up
+    # with wet lagging, and a damaged line on one cable, do not (tracing-shortfall).
+    (["QP-50-FO-2950", "U50", "QP-50-PID-031", "heated fuel oil", "4", "80", "horizontal", "70",
+      "mineral-wool 50mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "0", "0", "8760", "heat-conservation", "no", "2012", "traced"],
+     ["electric 2x15 W/m", "50", "", "fuel-oil", ""]),
+    (["QP-50-FO-2951", "U50", "QP-50-PID-031", "heated fuel oil", "4", "60", "horizontal", "70",
+      "mineral-wool 50mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "wet", "",
+      "carbon-steel", "0", "0", "8760", "heat-conservation", "no", "2012", "traced, lagging wet"],
+     ["electric 2x15 W/m", "50", "", "fuel-oil", ""]),
+    (["QP-50-FO-2952", "U50", "QP-50-PID-032", "heated fuel oil", "3", "45", "horizontal", "65",
+      "mineral-wool 40mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "damaged", "20",
+      "carbon-steel", "1", "2", "8760", "heat-conservation", "no", "2009", "traced"],
+     ["electric 25 W/m", "50", "", "fuel-oil", ""]),
+    # Steam-traced bitumen branch: a 3/4 in tracer on its own steam holds it.
+    (["QP-50-BI-2953", "U50", "QP-50-PID-033", "bitumen", "2", "30", "horizontal", "170",
+      "mineral-wool 65mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "0", "0", "8760", "heat-conservation", "no", "2015", "steam traced"],
+     ["steam 3/4in 185 degC", "100", "", "", ""]),
+    # A traced water line whose tracing is off the map: 3/4 in tracers are listed, 1 in is not.
+    (["QP-50-TW-2954", "U50", "QP-50-PID-034", "tempered water", "2", "25", "horizontal", "60",
+      "mineral-wool 40mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "0", "0", "8760", "heat-conservation", "no", "2015", "steam traced"],
+     ["steam 1in 150 degC", "40", "", "water", ""]),
+    # Firewater: stagnant, untraced. The main holds through the cold day; a hydrant branch with
+    # thin lagging and the same branch in the heated pump house show the two ends.
+    (["QP-50-FW-2960", "U50", "QP-50-PID-040", "firewater", "8", "400", "horizontal", "8",
+      "mineral-wool 50mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "0", "0", "8760", "frost", "no", "2001", "stagnant firewater main"],
+     ["none", "", "", "water", ""]),
+    (["QP-50-FW-2961", "U50", "QP-50-PID-040", "firewater", "1-1/2", "35", "horizontal", "8",
+      "mineral-wool 25mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "damaged", "10",
+      "carbon-steel", "0", "0", "8760", "frost", "no", "2001", "hydrant branch"],
+     ["none", "", "", "water", "80"]),
+    (["QP-50-FW-2962", "U50", "QP-50-PID-041", "firewater", "1-1/2", "20", "horizontal", "8",
+      "mineral-wool 25mm", "aluminium-oxidised", "indoor", "no", "intact", "",
+      "carbon-steel", "0", "0", "8760", "frost", "no", "2001", "pump house"],
+     ["none", "", "", "water", ""]),
+    # The long fuel-oil transfer line to the tank farm: untraced, it arrives too cold on the
+    # cold day at its flow; the short loading line arrives warm enough (temperature-drop).
+    (["QP-50-FO-2970", "U50", "QP-50-PID-035", "heated fuel oil", "6", "650", "horizontal", "95",
+      "mineral-wool 40mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "2", "4", "8760", "heat-conservation", "no", "1998", "transfer line"],
+     ["none", "70", "0.6", "fuel-oil", ""]),
+    (["QP-50-FO-2971", "U50", "QP-50-PID-036", "heated fuel oil", "4", "90", "horizontal", "95",
+      "mineral-wool 50mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact", "",
+      "carbon-steel", "0", "2", "8760", "heat-conservation", "no", "2016", "loading line"],
+     ["none", "70", "2.5", "fuel-oil", ""]),
+]
+
+
+def _add_cold_weather_lines(rows: list[list]) -> dict[str, list[str]]:
+    """Append the cold-weather lines (traced lines, stagnant firewater, long fuel-oil lines) to
+    ``rows``; their cold-weather cells by tag, for after the elevations."""
+    for base, _ in COLD_WEATHER_LINES:
+        rows.append(list(base))
+    return {base[0]: list(cells) for base, cells in COLD_WEATHER_LINES}
+
+
 def equipment_rows() -> list[list]:
     rows = [list(row) for row in EQUIPMENT]
     _add_elevations(rows, EQUIPMENT_HEADERS.index("Access"), ("0", "0", "3.5", "8 m", "26 ft"))
     return rows
+
+
+#: The cold area, a register of its own (exported from the cold units' own document system,
+#: so its headers differ): U70, an LNG import and send-out unit with a small liquid-nitrogen
+#: supply, and U80, a refrigerated hall with an ammonia plant. It exercises who pays for heat
+#: gained (boil-off, electricity, nothing), boil-off, cold-touch, ice, layer-too-cold and the
+#: fluid and flow columns, two of its rows on purpose wrong.
+COLD_AREA_HEADERS = ["Tag", "Unit", "Stream", "Fluid", "Type", "Size", "Diameter [mm]",
+                     "Length [m]", "Op Temp [degC]", "Lagging", "Cladding", "Location", "Access",
+                     "Condition", "MOC", "Op Hours", "Purpose", "Flow [kg/s]", "Bare Valves",
+                     "Bare Flanges", "Install Year", "Elevation [m]", "Remarks"]
+COLD_AREA = [
+    # U70: LNG at -162 degC boils off what it gains; send-out gas gains heat for free.
+    ["QP-70-LNG-7001", "U70", "LNG rundown", "lng", "pipe", "8", "", "120", "-162",
+     "polyisocyanurate 2x75mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact",
+     "stainless-steel", "8760", "cryogenic", "14", "0", "0", "2019", "7.5", ""],
+    ["QP-70-LNG-7002", "U70", "LNG recirculation", "lng", "pipe", "3", "", "60", "-162",
+     "polyisocyanurate 50mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact",
+     "stainless-steel", "8760", "cryogenic", "2.5", "0", "0", "2019", "7.5", "thin: keep-cold only"],
+    ["QP-70-LNG-7004", "U70", "LNG pump suction valves", "lng", "pipe", "6", "", "4", "-162",
+     "none", "", "outdoor-annual-mean", "yes", "intact", "stainless-steel", "8760", "cryogenic",
+     "", "2", "4", "2019", "0.5", "valve station left bare"],
+    ["QP-70-NG-7003", "U70", "send-out gas", "natural-gas", "pipe", "10", "", "80", "5", "none",
+     "", "outdoor-annual-mean", "no", "intact", "carbon-steel", "8760", "", "31", "0", "0", "2019",
+     "6.0", "warmed downstream"],
+    ["QP-70-T-7010", "U70", "LNG storage tank", "lng", "vertical-vessel", "", "14000", "16",
+     "-162", "cellular-glass 150mm + polyisocyanurate 150mm", "aluminium-oxidised",
+     "outdoor-annual-mean", "no", "intact", "stainless-steel", "8760", "cryogenic", "", "", "",
+     "2019", "0", "flat heads: roof and base"],
+    # The liquid-nitrogen supply: one line lagged with a foam rated only to -183 degC.
+    ["QP-70-LN-7020", "U70", "LIN supply", "liquid-nitrogen", "pipe", "2", "", "40", "-196",
+     "polyisocyanurate 100mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact",
+     "stainless-steel", "8760", "cryogenic", "0.4", "0", "0", "2021", "4.5", ""],
+    ["QP-70-LN-7021", "U70", "LIN to cold box", "liquid-nitrogen", "pipe", "1", "", "25", "-196",
+     "cellular-glass 100mm", "aluminium-oxidised", "outdoor-annual-mean", "yes", "intact",
+     "stainless-steel", "8760", "cryogenic", "0.1", "0", "0", "2021", "1.2", ""],
+    ["QP-70-D-7022", "U70", "LIN storage vessel", "liquid-nitrogen", "vertical-vessel", "",
+     "2400", "8", "-196", "cellular-glass 200mm", "aluminium-oxidised", "outdoor-annual-mean",
+     "no", "intact", "stainless-steel", "8760", "cryogenic", "", "", "", "2021", "0", ""],
+    # Mistakes: a fluid the rules do not define; a flow with the sign of a reverse-flow export.
+    ["QP-70-LNG-7030", "U70", "LNG sample", "LNG-heavy", "pipe", "1/2", "", "15", "-158",
+     "polyisocyanurate 50mm", "aluminium-oxidised", "outdoor-annual-mean", "no", "intact",
+     "stainless-steel", "8760", "cryogenic", "0.01", "0", "0", "2019", "3.0", ""],
+    ["QP-70-NG-7031", "U70", "send-out gas bypass", "natural-gas", "pipe", "6", "", "30", "5",
+     "none", "", "outdoor-annual-mean", "no", "intact", "carbon-steel", "8760", "", "-3.2", "0",
+     "0", "2019", "6.0", "flow from DCS export"],
+    # U80: the refrigerated hall (its own design air, rules/sites.toml), ammonia plant.
+    ["QP-80-NH-8001", "U80", "ammonia liquid", "ammonia", "pipe", "2", "", "50", "-34",
+     "elastomeric-foam 32mm", "pvc", "refrigerated-hall", "yes", "intact", "stainless-steel",
+     "8760", "cold", "0.6", "0", "0", "2016", "2.0", ""],
+    ["QP-80-NH-8002", "U80", "ammonia wet suction", "ammonia", "pipe", "4", "", "40", "-40",
+     "mineral-wool 50mm", "pvc", "refrigerated-hall", "no", "intact", "stainless-steel", "8760",
+     "cold", "0.9", "0", "0", "2016", "4.5", "wool on a cold line"],
+    ["QP-80-NH-8005", "U80", "ammonia valve group", "ammonia", "pipe", "2", "", "1", "-34",
+     "none", "", "refrigerated-hall", "yes", "intact", "stainless-steel", "8760", "cold", "",
+     "2", "2", "2016", "1.0", "valves left bare"],
+    ["QP-80-GL-8003", "U80", "glycol supply", "ethylene-glycol-30", "pipe", "3", "", "60", "-10",
+     "elastomeric-foam 25mm", "pvc", "refrigerated-hall", "no", "intact", "stainless-steel",
+     "8760", "cold", "3.1", "0", "0", "2016", "3.0", ""],
+    ["QP-80-CW-8004", "U80", "chilled water", "water", "pipe", "4", "", "30", "6",
+     "calcium-silicate 40mm", "aluminium-oxidised", "refrigerated-hall", "no", "intact",
+     "carbon-steel", "8760", "cold", "5.5", "0", "0", "1998", "3.0", "old hot-service lagging"],
+]
+
+
+def cold_area_rows() -> list[list]:
+    """The cold area's register rows (see ``COLD_AREA``), written by hand: no random state."""
+    return [list(row) for row in COLD_AREA]
 
 
 def _cell(text: str):
@@ -460,6 +598,11 @@ def main(out: Path = OUT) -> list[Path]:
     write_csv(written[2], EQUIPMENT_HEADERS, equipment)
     write_xlsx(written[3], f"{PLANT}: equipment list", "Equipment", EQUIPMENT_HEADERS, equipment,
                notes)
+    cold = cold_area_rows()
+    written += [out / "demo_cold_area.csv", out / "demo_cold_area.xlsx"]
+    write_csv(written[4], COLD_AREA_HEADERS, cold)
+    write_xlsx(written[5], f"{PLANT}: cold area (LNG unit, refrigerated hall)", "Cold area",
+               COLD_AREA_HEADERS, cold, notes)
     return written
 
 

@@ -1,7 +1,8 @@
 """Write the demo plant's invented infrared survey into ``sample_data/demo_survey.csv``.
 
 Readings of Quarvel Point Works (an invented plant) taken on an invented day, for ``lagaudit demo``:
-some lines hotter than registered (wet or missing insulation the register does not know), lines
+some lines hotter than registered (wet or missing insulation the register does not know; one of
+them within reach, whose measured condition fails the burn check on the hot still day), lines
 as registered, one reading without its conditions (the audit warns and uses the line's own), one
 tag that is not in the register, and one impossible reading (hotter than the line's process).
 Every number here is made up; run after ``tools/make_demo_plant.py``::
@@ -29,6 +30,10 @@ READINGS = [
     ("QP-20-MP-4001", 22, "", "", "", 0.95, "", "conditions not recorded"),
     ("QP-20-MP-4001", 260, 12, 2, 70, 0.95, "", "probably the next line's steam trap"),
     ("QP-99-XX-0001", 50, 12, 2, 70, 0.95, "", "tag painted over; as read"),
+    # An accessible line that passes the burn check as registered: its reading, extrapolated
+    # to the hot still day, shows it does not (measured beats assumed).
+    ("QP-10-CR-4017", 33, 12, 2, 70, 0.95, "at the valve station, within reach",
+     "jacket dented"),
 ]
 
 

@@ -18,7 +18,7 @@ from audit.checks.base import (FINDING_COLUMNS, CheckContext, CheckKind, empty_f
 from audit.errors import RuleError
 from audit.rules import SEVERITIES, Rules
 
-_HELPERS = {"base", "remedy", "repairs"}
+_HELPERS = {"base", "remedy", "repairs", "layer_limits"}
 
 
 def check_kinds() -> dict[str, CheckKind]:
@@ -46,19 +46,25 @@ def validate_checks(rules: Rules) -> dict[str, dict]:
     return params
 
 
-def run_checks(context: CheckContext, params: dict | None = None) -> pd.DataFrame:
+def run_checks(context: CheckContext, params: dict | None = None, *,
+               done: dict | None = None) -> pd.DataFrame:
     """Findings of every enabled check, sorted by row, then most severe first.
 
     ``params`` are the checks' validated parameters (:func:`validate_checks`), computed here
-    when not given.
+    when not given; ``done`` (check name -> findings table), the findings of checks already
+    evaluated, taken as they are.  A check of a kind that judges the whole item reads
+    :meth:`CheckContext.for_whole_item`.
     """
     kinds = check_kinds()
     params = validate_checks(context.rules) if params is None else params
+    done = done or {}
     frames = []
     for check in context.rules.checks.values():
         if not check.enabled:
             continue
-        found = kinds[check.kind].findings(context, check, params[check.name])
+        kind = kinds[check.kind]
+        found = done[check.name] if check.name in done else kind.findings(
+            context.for_whole_item() if kind.whole_item else context, check, params[check.name])
         if len(found):
             frames.append(found)
     if not frames:

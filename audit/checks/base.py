@@ -48,6 +48,10 @@ class Verdict:
     #: per row where another rule table than the check's governed the limit (a plant
     #: specification, a material's maximum temperature), else None: see :func:`rule_source`
     limit_source: object = None
+    #: the conditions judged under, aligned with rows, where they are not the check's site's
+    #: (a field reading's own): ``conditions_from``, ``air_temp_K``, ``wind_m_s``,
+    #: ``rh_pct``, ``surroundings_temp_K``; else None
+    conditions: dict | None = None
 
 
 @dataclass
@@ -69,6 +73,14 @@ class CheckKind:
     #: its findings are remedied by the repair plan's actions (reinstate, replace, covers)
     #: that its ``flags`` parameter names, not by a thickness (the ``condition`` kind)
     remedied_by_repair: bool = False
+    #: it judges the whole item (its heat loss), not one spot of it: where a field survey
+    #: measured the item, it reads the survey's whole-item condition
+    #: (:meth:`CheckContext.for_whole_item`)
+    whole_item: bool = False
+    #: its verdict reads the item's thermal state (surface, layer or heat): a condition a
+    #: field survey measured changes it (finding ``basis`` = ``measured``); False for checks
+    #: of the register's facts alone (thickness, condition words, process temperature)
+    thermal: bool = True
 
     def findings(self, context: CheckContext, check: Check, params: dict) -> pd.DataFrame:
         """The findings table of ``check`` on ``context``: its verdict, worded."""
@@ -77,7 +89,7 @@ class CheckKind:
         return findings(context, check, verdict.rows, value=verdict.value, limit=verdict.limit,
                         unit=verdict.unit, message=message, remedy=remedy,
                         fixable=self.fixable_by_insulation, severity=verdict.severity,
-                        limit_source=verdict.limit_source)
+                        limit_source=verdict.limit_source, conditions=verdict.conditions)
 
 
 @dataclass
@@ -88,6 +100,16 @@ class CheckContext:
     rules: Rules
     surface_model: str = "correlations"
     survey: pd.DataFrame | None = None  #: reconciled field readings (audit.survey), if any
+    #: with a survey: the items at the survey's whole-item condition (their heat loss, energy
+    #: and money), beside this context's items at its spot condition (audit.survey.item_factors)
+    whole_item: CheckContext | None = None
+    #: with a survey: per row, whether the survey found more heat through the insulation than
+    #: the register allows (a survey-deviation finding): the repair restores it as installed
+    measured_repair: np.ndarray | None = None
+    #: with a survey: per row, the condition factor [-] this context's items carry (NaN:
+    #: none, as registered), and the items as registered
+    measured_factor: np.ndarray | None = None
+    registered: PreparedItems | None = None
     _states: dict = field(default_factory=dict)
     _tables: tuple | None = None
     _prepared: PreparedItems | None = None
@@ -101,11 +123,23 @@ class CheckContext:
             self._once[function] = function(self.table, self.rules) if rules else function(self.table)
         return self._once[function]
 
+    def memo(self, key, make: Callable):
+        """``make()``, computed once for this context per ``key`` (a hashable naming what
+        and under which case and parameters): a check and the results share its solves."""
+        if key not in self._once:
+            self._once[key] = make()
+        return self._once[key]
+
     def trial(self, items: PreparedItems) -> CheckContext:
         """A context of the trial ``items`` (derived from :meth:`prepared`): its table, the
         same rules, surface model and conductivity tables."""
         return CheckContext(items.table(), self.rules, surface_model=self.surface_model,
                             _tables=self.tables(), _prepared=items)
+
+    def for_whole_item(self) -> CheckContext:
+        """The context whose items are at the survey's whole-item condition (this one where
+        no survey measured any)."""
+        return self if self.whole_item is None else self.whole_item
 
     def tables(self) -> tuple:
         """:func:`audit.thermal.conductivity_tables` of the rules, built once."""
@@ -150,17 +184,21 @@ def check_source(check: Check) -> str:
 
 
 def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, limit, unit,
-             message, remedy, fixable=False, severity=None, limit_source=None) -> pd.DataFrame:
+             message, remedy, fixable=False, severity=None, limit_source=None,
+             conditions=None) -> pd.DataFrame:
     """A findings table for ``rows`` (positions in the item table) of one check.
 
     ``value``, ``limit``, ``unit``, ``message``, ``remedy``, ``severity`` and
     ``limit_source`` are arrays aligned with ``rows`` or scalars; ``severity`` defaults to the
     check's, ``limit_source`` to the check's own table (:func:`check_source`); the conditions
-    come from the check's scenario.
+    come from the check's scenario, unless given (``conditions``: see :class:`Verdict`).
     """
     rows = np.asarray(rows, int)
     n = rows.size
-    states = context.states(check.site)
+    if conditions is None:
+        states = context.states(check.site)
+        conditions = {name: states[name].to_numpy()[rows] for name in (
+            "conditions_from", "air_temp_K", "wind_m_s", "rh_pct", "surroundings_temp_K")}
     table = context.table
 
     def spread(x, dtype=object):
@@ -182,11 +220,11 @@ def findings(context: CheckContext, check: Check, rows: np.ndarray, *, value, li
         "limit": spread(limit, float),
         "unit": unit,
         "site": check.site or "own conditions",
-        "conditions_from": states["conditions_from"].to_numpy(object)[rows],
-        "air_temp [degC]": states["air_temp_K"].to_numpy(float)[rows] - ZERO_CELSIUS,
-        "wind [m/s]": states["wind_m_s"].to_numpy(float)[rows],
-        "rh [%]": states["rh_pct"].to_numpy(float)[rows],
-        "surroundings_temp [degC]": states["surroundings_temp_K"].to_numpy(float)[rows]
+        "conditions_from": np.asarray(conditions["conditions_from"], dtype=object),
+        "air_temp [degC]": np.asarray(conditions["air_temp_K"], float) - ZERO_CELSIUS,
+        "wind [m/s]": np.asarray(conditions["wind_m_s"], float),
+        "rh [%]": np.asarray(conditions["rh_pct"], float),
+        "surroundings_temp [degC]": np.asarray(conditions["surroundings_temp_K"], float)
         - ZERO_CELSIUS,
         "limit_source": spread(check_source(check) if limit_source is None else limit_source),
         "message": spread(message),

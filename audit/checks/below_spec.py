@@ -192,5 +192,6 @@ def word(context, check, params, verdict):
 
 
 KIND = CheckKind(evaluate=evaluate, word=word, params={}, fixable_by_insulation=True,
+                 thermal=False,
                  description="installed insulation thinner than the plant specification for the "
                              "item's service, size and temperature, beyond its tolerance")

@@ -343,6 +343,7 @@ def word(context, check, params, verdict):
 
 
 KIND = CheckKind(
+    thermal=False,
     evaluate=evaluate,
     word=word,
     params={

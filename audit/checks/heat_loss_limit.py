@@ -148,7 +148,7 @@ KIND = CheckKind(
     params={"per_m": (quantity("W/m", "W/m", low=0.0, low_open=True), False),
             "per_m2": (quantity("W/m**2", "W/m**2", low=0.0, low_open=True), False),
             "multiple_of_spec": (quantity("dimensionless", "dimensionless", low=1.0), False)},
-    fixable_by_insulation=True,
+    fixable_by_insulation=True, whole_item=True,
     description="heat loss (or gain) above a limit per metre, per m2, or as a multiple of the "
                 "same item insulated to specification",
     validate=_validate)

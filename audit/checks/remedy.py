@@ -51,6 +51,7 @@ ACTIONS = {
     "reinstate-damaged": "the damaged share reinstated to the installed build-up",
     "replace-wet": "wet insulation replaced like for like",
     "reinstate-missing": "missing insulation reinstated as listed",
+    "replace-degraded": "insulation a field survey found degraded replaced like for like",
     "insulate": "the whole item insulated to remedy_thickness of remedy_material",
     "engineer": "no standard thickness clears the check: a solution to be engineered",
     "guard": "a personnel guard, offered beside the insulation (burn risk)",
@@ -62,6 +63,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
     completed for the findings that insulation can fix, and ``remedy_action`` for those and
     the ``condition`` findings."""
     findings = _condition_actions(context.table, findings, kinds, params)
+    findings = _survey_actions(context, findings)
     if not len(findings) or not findings["fixable_by_insulation"].any() or not context.rules.thicknesses:
         return findings
     rules, table = context.rules, context.table
@@ -79,7 +81,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
 
     spec_check = rules.checks.get("below-spec")
     spec_states = context.states(spec_check.site if spec_check else "")
-    plan = plan_repairs(table, rules, spec_states)
+    plan = plan_repairs(table, rules, spec_states, context.measured_repair)
     need = requirement(table, rules, spec_states["process_temp_K"].to_numpy(float),
                        spec_states["air_temp_K"].to_numpy(float))
 
@@ -172,7 +174,7 @@ def fill_remedies(context: CheckContext, findings: pd.DataFrame, kinds: dict, pa
 def _repair_facts(table: pd.DataFrame, plan, rows: np.ndarray) -> list[np.ndarray]:
     """Per row of ``rows``: (insulate, to_spec, share, condition, covers) of its repair."""
     return [plan.insulate[rows], plan.to_spec[rows], plan.share[rows],
-            table["condition"].fillna("").to_numpy(object)[rows], plan.covers[rows] > 0]
+            plan.condition(table)[rows], plan.covers[rows] > 0]
 
 
 def _actions(insulate, to_spec, share, condition, covers, by_repair, material, thickness,
@@ -184,12 +186,28 @@ def _actions(insulate, to_spec, share, condition, covers, by_repair, material, t
             done.append("insulate")
         elif insulate:
             done.append("replace-wet" if condition == "wet" else
+                        "replace-degraded" if condition == "degraded" else
                         "reinstate-damaged" if share < 1 else "reinstate-missing")
         if covers:
             done.append("covers")
     else:
         done.append("insulate" if material and thickness else "engineer")
     return ";".join(done + ["guard"] * bool(guard))
+
+
+def _survey_actions(context: CheckContext, findings: pd.DataFrame) -> pd.DataFrame:
+    """``findings`` with ``remedy_action`` ``replace-degraded`` on the survey-deviation
+    findings of the items the repair restores as installed (``CheckContext.measured_repair``):
+    the work order then counts the whole item, the most that opening it up can find."""
+    if context.measured_repair is None or not len(findings):
+        return findings
+    at = (findings["kind"].to_numpy(object) == "survey-deviation") & \
+        context.measured_repair[findings["row"].to_numpy(int)]
+    if not at.any():
+        return findings
+    out = findings.copy()
+    out.loc[at, "remedy_action"] = "replace-degraded"
+    return out
 
 
 def _condition_actions(table: pd.DataFrame, findings: pd.DataFrame, kinds: dict,
@@ -293,7 +311,7 @@ def _repair_words(table: pd.DataFrame, plan, states: pd.DataFrame, rows: np.ndar
     """The repair of each row in words, for a crew."""
     cold = (states["process_temp_K"].to_numpy(float) < states["air_temp_K"].to_numpy(float))[rows]
     valves, flanges = fittings_of(table, "valves")[rows], fittings_of(table, "flanges")[rows]
-    condition = table["condition"].fillna("").to_numpy(object)[rows]
+    condition = plan.condition(table)[rows]
     return per_distinct(
         _one_repair, plan.insulate[rows], plan.to_spec[rows], plan.share[rows],
         np.round(plan.thickness_m[rows] * 1000.0, 6), plan.spec_material[rows],
@@ -312,6 +330,9 @@ def _one_repair(insulate, to_spec, share, thickness_mm, spec_material, materials
         if condition == "wet":
             parts.append(f"replace the wet insulation like for like ({build_up}) and stop the "
                          "water getting in")
+        elif condition == "degraded":
+            parts.append(f"open up where the survey read hot; dry out or replace the insulation "
+                         f"like for like ({build_up}) and make the jacket watertight")
         elif share < 1:
             parts.append(f"reinstate the damaged {share * 100:.3g} % of the length to the "
                          f"installed build-up ({build_up})")

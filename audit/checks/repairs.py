@@ -9,7 +9,10 @@ The repaired item is "the same item intact at its specified insulation":
 * otherwise, damaged, wet or missing insulation is restored as installed (its own layers,
   intact and dry), so a repair never thins an item that is above its specification;
 * uninsulated valves and flanges on pipes get removable covers (the engine then counts them
-  insulated: no bare equivalent length).
+  insulated: no bare equivalent length);
+* insulation a field survey measured letting more heat through than registered (a
+  ``survey-deviation`` finding; ``measured``) is restored as installed, intact and dry: the
+  register's own build-up at its specified conductivity.
 """
 
 from __future__ import annotations
@@ -36,6 +39,16 @@ class RepairPlan:
     covers: np.ndarray           #: removable fitting covers to fit (pipes)
     spec_material: np.ndarray    #: the governing specification's material ("" if none)
     installed_m: np.ndarray      #: installed thickness [m] (0 bare or missing)
+    measured: np.ndarray | None = None  #: restored because a field survey found it degraded
+
+    def condition(self, table: pd.DataFrame) -> np.ndarray:
+        """Per row, the condition the repair mends: the register's, or ``degraded`` where
+        only a field survey found the (registered intact) insulation letting heat through."""
+        condition = table["condition"].fillna("").to_numpy(object)
+        if self.measured is None:
+            return condition
+        return np.where(self.measured & self.insulate & (condition == "intact"), "degraded",
+                        condition)
 
     @property
     def needed(self) -> np.ndarray:
@@ -53,9 +66,12 @@ class RepairPlan:
                         np.where(self.insulate, words, fit)).astype(object)
 
 
-def plan_repairs(table: pd.DataFrame, rules, spec_states: pd.DataFrame) -> RepairPlan:
+def plan_repairs(table: pd.DataFrame, rules, spec_states: pd.DataFrame,
+                 measured: np.ndarray | None = None) -> RepairPlan:
     """The repair of each row; ``spec_states`` are the states the specification is judged
-    under (the ``below-spec`` check's site), which give its process and air temperatures."""
+    under (the ``below-spec`` check's site), which give its process and air temperatures;
+    ``measured`` (bool per row, optional) the rows a field survey found degraded
+    (:attr:`audit.checks.base.CheckContext.measured_repair`)."""
     need = requirement(table, rules, spec_states["process_temp_K"].to_numpy(float),
                        spec_states["air_temp_K"].to_numpy(float))
     have = installed_thickness(table)
@@ -66,6 +82,8 @@ def plan_repairs(table: pd.DataFrame, rules, spec_states: pd.DataFrame) -> Repai
     listed = per_distinct(lambda x: float(sum(x)) if isinstance(x, tuple) else 0.0,
                           table["layer_thicknesses_m"].to_numpy(object)).astype(float)
     whole = (condition == "missing") | (condition == "wet")
+    if measured is not None:
+        whole = whole | np.asarray(measured, bool)
     broken = whole | ((condition == "damaged") & (damaged > 0))
     insulate = below | (broken & has_layers(table))
     share = np.where(below | whole, 1.0, np.where(insulate, damaged, 0.0))
@@ -75,4 +93,5 @@ def plan_repairs(table: pd.DataFrame, rules, spec_states: pd.DataFrame) -> Repai
     ok = (table["status"] == "ok").to_numpy()
     return RepairPlan(insulate=insulate & ok, share=np.where(ok, share, 0.0), to_spec=below & ok,
                       thickness_m=thickness, covers=np.where(pipe & ok, fittings, 0.0),
-                      spec_material=need.material, installed_m=have)
+                      spec_material=need.material, installed_m=have,
+                      measured=None if measured is None else np.asarray(measured, bool) & ok)

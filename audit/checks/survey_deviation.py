@@ -3,7 +3,8 @@ registered by more than the rule's margin.
 
 Judged per item on its worst reading (the one furthest on the side of more heat through the
 insulation: hotter on a hot item, colder on a cold one), at the reading's own conditions
-(:mod:`audit.survey`).  A reading beyond the margin is classed by its condition factor against
+(:mod:`audit.survey`), which its findings' air, wind, humidity and surroundings columns show
+(``conditions_from`` = ``reading``).  A reading beyond the margin is classed by its condition factor against
 the rule's ``classes`` (rows of [factor at least, word]); each class has its severity and
 remedy.  A reading no factor reproduces (hotter than bare metal would be) takes the last class;
 one on the other side of the prediction takes the rule's ``cooler`` word, severity info.
@@ -28,7 +29,8 @@ def evaluate(context, check, params):
     worst, count = worst_readings(context.survey, context.table.index)
     rows = np.flatnonzero(worst >= 0)
     if not rows.size:
-        return Verdict(rows)
+        return Verdict(rows, conditions={name: np.empty(0) for name in (
+            "conditions_from", "air_temp_K", "surroundings_temp_K", "wind_m_s", "rh_pct")})
     survey = context.survey.iloc[worst[rows]]
     measured = survey["surface_temp_K"].to_numpy(float)
     predicted = survey["predicted_temp_K"].to_numpy(float)
@@ -53,7 +55,12 @@ def evaluate(context, check, params):
                        "class": words[which], "which": which, "factor": factor[flagged],
                        "predicted": predicted[flagged] - ZERO_CELSIUS,
                        "readings": count[keep], "source": survey["source"].to_numpy(object)[flagged],
-                       "date": survey["date"].to_numpy(object)[flagged]})
+                       "date": survey["date"].to_numpy(object)[flagged]},
+                   conditions={"conditions_from": np.full(keep.size, "reading", dtype=object),
+                               **{name: survey[name].to_numpy(float)[flagged] for name in (
+                                   "air_temp_K", "surroundings_temp_K")},
+                               "wind_m_s": survey["wind_used_m_s"].to_numpy(float)[flagged],
+                               "rh_pct": survey["rh_used_pct"].to_numpy(float)[flagged]})
 
 
 def word(context, check, params, verdict):
@@ -83,6 +90,7 @@ def _validate(check, params):
 _FACTOR = quantity("dimensionless", "dimensionless", low=0.0, low_open=True)
 
 KIND = CheckKind(
+    thermal=False,
     evaluate=evaluate, word=word,
     params={"margin": (temperature_difference, True),
             "classes": (rows(_FACTOR, text, "condition factor at least, class word"), True),

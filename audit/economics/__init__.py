@@ -108,6 +108,9 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
         This run's default operating hours for rows without hours [h/yr].
     """
     econ = economic_rules.with_overrides(fuel_price=fuel_price, hours=hours)
+    # Energy is the whole item's: where a survey measured it, at the survey's whole-item
+    # condition (audit.survey.item_factors).
+    context = context.for_whole_item()
     table = context.table
     site = energy_site(rules, econ)
     states = context.states(site)
@@ -118,7 +121,8 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
     now = yearly(states["heat_loss_W"].to_numpy(float), hours_h, econ, payers)
 
     spec_check = rules.checks.get("below-spec")
-    plan = plan_repairs(table, rules, context.states(spec_check.site if spec_check else ""))
+    plan = plan_repairs(table, rules, context.states(spec_check.site if spec_check else ""),
+                        context.measured_repair)
     repaired = prepared_states(
         context.prepared().repaired(plan.insulate, plan.to_spec, plan.spec_material,
                                     plan.thickness_m, plan.covers > 0),
@@ -175,6 +179,8 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
              "economic thickness is the thickest one the [economics.repair] cost table prices: "
              "the optimum may lie beyond")]),
     }, index=table.index, columns=COLUMNS)
+    if context.registered is not None:
+        per_row = per_row.join(_missed(now, site, hours_h, econ, payers, context, computed))
 
     return Economics(
         per_row=per_row, currency=econ.currency,
@@ -189,6 +195,27 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
             {"what": "annuity factor", "value": f"{float(annuity_factor(econ.interest, econ.life)):.5f} /yr",
              "source": "i(1+i)^n/((1+i)^n-1) of the interest rate and service life (VDI 2055)"}],
         site=site, warnings=econ.currency_warnings())
+
+
+#: With a survey: per row, what the register-only audit missed of the year's heat and its
+#: cost (the item at its measured whole-item condition minus the same item as registered);
+#: NaN for items without a measured condition.
+MISSED_COLUMNS = ["missed_energy [MWh]", "missed_cost"]
+
+
+def _missed(now: dict, site, hours_h, econ, payers, context, computed) -> pd.DataFrame:
+    """:data:`MISSED_COLUMNS`: ``now`` (the year at the measured condition) against the same
+    items as registered (``context.registered``, solved here under the energy ``site``)."""
+    table = context.table
+    as_registered = prepared_states(context.registered, context.rules, site=site or None,
+                                    surface_model=context.surface_model, tables=context.tables(),
+                                    index=table.index)
+    then = yearly(as_registered["heat_loss_W"].to_numpy(float), hours_h, econ, payers)
+    measured = np.isfinite(context.measured_factor) & computed
+    return pd.DataFrame({
+        "missed_energy [MWh]": np.where(measured, now["heat [MWh]"] - then["heat [MWh]"], np.nan),
+        "missed_cost": np.where(measured, now["cost"] - then["cost"], np.nan)},
+        index=table.index)
 
 
 def heat_gain_payers(table: pd.DataFrame, rules) -> HeatGainPayers:

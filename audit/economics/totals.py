@@ -61,6 +61,9 @@ def plant(per_row: pd.DataFrame) -> dict:
     """The plant's sums, and how many items have a result and how many need a repair."""
     sided = split_sides(per_row)
     out = {c: float(np.nansum(sided[c].to_numpy(float))) for c in SUMMED}
+    # With a survey: what the register-only audit missed (audit.economics.MISSED_COLUMNS).
+    out.update({c: float(np.nansum(per_row[c].to_numpy(float)))
+                for c in ("missed_energy [MWh]", "missed_cost") if c in per_row})
     out["items"] = int(np.isfinite(per_row["annual_energy [MWh]"].to_numpy(float)).sum())
     out["items_to_repair"] = int((per_row["repair"].fillna("") != "").sum())
     return out

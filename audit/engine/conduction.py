@@ -181,11 +181,18 @@ class ConductivityTables:
         return np.where(same, self.conductivity(table, t1), mean)
 
     def outside(self, table, t1, t2):
-        """True where the span between ``t1`` and ``t2`` [K] leaves the table's data range."""
+        """True where the span between ``t1`` and ``t2`` [K] leaves the table's data range by
+        more than ``_EDGE_K`` (a face at a table's end row, solved to rounding, is inside)."""
         table = np.asarray(table, int)
         low = np.minimum(t1, t2)
         high = np.maximum(t1, t2)
-        return (low < self.t_min[table]) | (high > self.t_max[table])
+        return (low < self.t_min[table] - _EDGE_K) | (high > self.t_max[table] + _EDGE_K)
+
+
+#: How far [K] a layer's face may pass a table's end row before it counts as extrapolated: the
+#: solver's rounding (a liquid-nitrogen line at -196 degC against a row at -196 degC), far
+#: below any temperature a table is given to.
+_EDGE_K = 1e-6
 
 
 def _physical(temperature):

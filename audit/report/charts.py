@@ -100,6 +100,68 @@ def surface_against_limit(points, unit: str = "°C", top: int = MAX_BARS) -> Mar
                 f"Surface temperature against the touch limit, {len(points)} items")
 
 
+def measured_against_predicted(points, unit: str = "°C", margin: float = np.nan,
+                               top: int = 500) -> Markup | None:
+    """Field readings (y) against the temperature predicted for the item as registered at the
+    reading's conditions (x), one dot per reading (its tag as the dot's title), with the 1:1
+    line and, where ``margin`` is finite, the band of that many degrees either side of it.
+    ``points``: (tag, predicted, measured, beyond) in ``unit``; ``beyond`` (bool): drawn in
+    the warning colour (more heat through the insulation than the margin allows)."""
+    points = [p for p in points if np.isfinite(p[1]) and np.isfinite(p[2])][:top]
+    if not points:
+        return None
+    values = np.array([[p[1], p[2]] for p in points])
+    band = margin if np.isfinite(margin) else 0.0
+    low, high = float(values.min()) - band, float(values.max()) + band
+    pad = max(0.05 * (high - low), 1.0)
+    low, high = low - pad, high + pad
+    size = WIDTH - LABEL - 40
+    left, top_y = LABEL, TOP
+
+    def x(v):
+        return left + (v - low) / (high - low) * size
+
+    def y(v):
+        return top_y + size - (v - low) / (high - low) * size
+
+    ticks = _ticks(low, high)
+    axis = "".join(
+        f'<line x1="{x(t):.1f}" y1="{top_y}" x2="{x(t):.1f}" y2="{top_y + size}" stroke="{GRID}"/>'
+        f'<text x="{x(t):.1f}" y="{top_y + size + 12}" font-size="9" text-anchor="middle" '
+        f'fill="{INK}">{t + 0.0:g}</text>'
+        f'<line x1="{left}" y1="{y(t):.1f}" x2="{left + size}" y2="{y(t):.1f}" stroke="{GRID}"/>'
+        f'<text x="{left - 4}" y="{y(t) + 3:.1f}" font-size="9" text-anchor="end" '
+        f'fill="{INK}">{t + 0.0:g}</text>' for t in ticks)  # + 0.0: no "-0"
+    axis += (f'<text x="{left + size / 2:.1f}" y="{top_y + size + 26}" font-size="10" '
+             f'text-anchor="middle" fill="{INK}">predicted as registered [{escape(unit)}]</text>'
+             f'<text x="{left - 34}" y="{top_y + size / 2:.1f}" font-size="10" '
+             f'text-anchor="middle" fill="{INK}" transform="rotate(-90 {left - 34} '
+             f'{top_y + size / 2:.1f})">measured [{escape(unit)}]</text>')
+    lines = (f'<line x1="{x(low):.1f}" y1="{y(low):.1f}" x2="{x(high):.1f}" y2="{y(high):.1f}" '
+             f'stroke="{INK}" stroke-width="1.2"/>')
+    if band:
+        # measured = predicted ± band, cut to the plot's square
+        ends = [(max(low, low - d), min(high, high - d), d) for d in (band, -band)]
+        lines += "".join(
+            f'<line x1="{x(a):.1f}" y1="{y(a + d):.1f}" x2="{x(b):.1f}" y2="{y(b + d):.1f}" '
+            f'stroke="{INK}" stroke-width="0.8" stroke-dasharray="4 3"/>' for a, b, d in ends)
+    dots = "".join(
+        f'<circle cx="{x(pred):.1f}" cy="{y(meas):.1f}" r="3.5" fill="{OVER if beyond else BAR}" '
+        f'fill-opacity="0.85"><title>{escape(str(tag))}: read {meas:.1f}, predicted {pred:.1f} '
+        f'{escape(unit)}</title></circle>' for tag, pred, meas, beyond in points)
+    legend = (f'<circle cx="{left + 8}" cy="{top_y - 10}" r="3.5" fill="{OVER}"/>'
+              f'<text x="{left + 16}" y="{top_y - 6}" font-size="10" fill="{INK}">more heat '
+              f'through the insulation than the margin allows</text>'
+              f'<circle cx="{left + 318}" cy="{top_y - 10}" r="3.5" fill="{BAR}"/>'
+              f'<text x="{left + 326}" y="{top_y - 6}" font-size="10" fill="{INK}">other '
+              f'readings</text>')
+    head = (f'<text x="0" y="12" font-size="11" font-weight="bold" fill="{INK}">Field readings '
+            f'against the prediction for the item as registered; solid line 1:1'
+            + (f', dashed ±{band:g} (the margin)' if band else "") + '</text>')
+    return _svg(top_y + size + 34, head + axis + lines + dots + legend,
+                f"Readings against predictions, {len(points)} readings")
+
+
 def findings_by_area(counts: pd.DataFrame, severities, top: int = MAX_BARS) -> Markup | None:
     """Findings per area, one stacked bar per area split by severity (worst on the left).
     ``counts``: areas as rows, severities as columns."""

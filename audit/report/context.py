@@ -130,6 +130,7 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
                     for m in methods.METHODS],
         "method_notes": [Markup(methods.to_html(note)) for note in methods.NOTES],
         "since_last": _since_last(audit, max_rows, units),
+        "survey": survey_section(audit, economics, max_rows=max_rows, units=units, fmt=fmt),
         "packs": packs,
     }
     context["charts"] = {
@@ -140,6 +141,15 @@ def build_context(audit, *, meta: dict, caution: str, economics=None,
         "areas": charts.findings_by_area(_area_severity_counts(findings), severities),
     }
     return context
+
+
+def survey_section(audit, economics, **options) -> dict | None:
+    """The "Field survey" section, when the audit reconciled field readings."""
+    if getattr(audit, "survey", None) is None:
+        return None
+    from audit.report.survey_section import survey_section as section
+
+    return section(audit, economics, **options)
 
 
 def _summed(heat_loss: pd.Series, audited: np.ndarray, sign: int) -> float:

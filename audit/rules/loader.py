@@ -74,6 +74,8 @@ SCHEMA = {
     "metal": (Metal, {
         "emissivity": (_EMISSIVITY, True),
         "conductivity": (_CONDUCTIVITY, False),
+        "density": (quantity("kg/m**3", "kg/m**3", low=0.0, low_open=True), False),
+        "cp": (quantity("kJ/(kg*K)", "J/(kg*K)", low=0.0, low_open=True), False),
         "iso12241_ca": (_COEFFICIENT, False),
         "iso12241_cb": (_COEFFICIENT, False),
         "source": (text, True),
@@ -107,6 +109,8 @@ SCHEMA = {
         "cp": (quantity("kJ/(kg*K)", "J/(kg*K)", low=0.0, low_open=True), False),
         "freezing_point": (temperature, False),
         "boiling_point": (temperature, False),
+        "density": (quantity("kg/m**3", "kg/m**3", low=0.0, low_open=True), False),
+        "fusion_heat": (quantity("kJ/kg", "J/kg", low=0.0, low_open=True), False),
         "price": (quantity("dimensionless", "dimensionless", low=0.0), False),
         "price_source": (text, False),
         "co2": (quantity("dimensionless", "dimensionless", low=0.0), False),

@@ -41,6 +41,8 @@ class Metal:
     emissivity: float
     source: str
     conductivity: float = float("nan")  #: [W/(m K)]
+    density: float = float("nan")       #: [kg/m3] (a water line's wall, freezing)
+    cp: float = float("nan")            #: specific heat capacity [J/(kg K)]
     iso12241_ca: float = float("nan")
     iso12241_cb: float = float("nan")
     origin: str = ""
@@ -91,6 +93,8 @@ class Fluid:
     cp: float = float("nan")                #: specific heat capacity [J/(kg K)]
     freezing_point: float = float("nan")    #: [K]
     boiling_point: float = float("nan")     #: at 1 atm (101.325 kPa) [K]
+    density: float = float("nan")           #: of the liquid in service [kg/m3]
+    fusion_heat: float = float("nan")       #: latent heat of freezing [J/kg]
     price: float = float("nan")             #: boil-off valued at, currency per kg
     price_source: str = ""
     co2: float = float("nan")               #: CO2 per mass boiled off [kg/kg]

@@ -135,3 +135,20 @@ def test_selectors_chained_long(terms):
             parse_selector(text)
     else:
         assert (parse_selector(text).mask(TABLE) == expected).all()
+
+
+@SETTINGS
+@given(lead=EDGE, gap=GAP, tail=EDGE, cell=st.sampled_from(
+    ["electric|2x15|W/m", "steam|1/2in|150|degC", "electric|30", "steam|3/8", "none"]))
+def test_tracing_cells_with_long_space_runs(lead, gap, tail, cell):
+    from audit.io.readers.tracing import tracing
+    text = lead + gap.join(cell.split("|")) + tail
+    assert tracing(text) == tracing(cell.replace("|", " "))
+
+
+@SETTINGS
+@given(digits=st.integers(1, 20_000), kind=st.sampled_from(["electric ", "steam ", "electric 2x"]))
+def test_tracing_cells_with_long_digit_runs_are_refused_or_read(digits, kind):
+    from audit.io.readers.tracing import tracing
+    kind_read, *_, problem = tracing(kind + "1" * digits + "x")
+    assert problem is not None and kind_read == ""

@@ -7,6 +7,7 @@ from audit.checks.base import CheckContext
 from audit.io.readers import read_register
 from audit.rules import load_rules
 from audit.thermal import resolve_names
+from support import rules_with_material
 
 C = 273.15
 
@@ -43,14 +44,8 @@ def test_outer_layer_hot_face_from_the_engine(tmp_path):
     site = rules.checks["layer-overheat"].site
     hot_face = context.states(site)["interface_1_K"].iloc[0] - C
     for offset, flagged in ((+1.0, False), (-1.0, True)):
-        user = tmp_path / f"rules{offset}"
-        user.mkdir()
-        wool = rules.materials["mineral-wool"]
-        k_rows = ", ".join(f"[{t - C:.6f}, {k}]" for t, k in wool.k)
-        (user / "wool.toml").write_text(
-            f'[material.mineral-wool]\nk = [{k_rows}]\nmax_temp = {hot_face + offset}\n'
-            f'source = "test"\n', encoding="utf-8")
-        layered = load_rules([user])
+        layered = rules_with_material(tmp_path / f"rules{offset}", rules, "mineral-wool",
+                                      max_temp=hot_face + offset)
         found = overheat(context_for(tmp_path, rows, layered))
         assert (len(found) == 1) == flagged, offset
 

@@ -4,7 +4,9 @@ checks, run through the whole audit: each item is flagged exactly as the limits 
 The limits are read from the shipped rules (so the test follows a plant's edits of them); the
 boundary each pair straddles is stated beside it.  In each pair, ``-IN`` sits on the accepted
 side of the limit and ``-OUT`` on the flagged side.  heat-loss-limit's boundary is a computed heat
-loss; its either-side test is in test_heat_loss_limit.py.
+loss; its either-side test is in test_heat_loss_limit.py, and so are those of tracing-shortfall,
+freeze-risk and temperature-drop (a computed heat loss, time and outlet temperature) in
+test_cold_weather_checks.py.
 """
 
 import numpy as np

@@ -38,7 +38,11 @@ def test_readings_are_classed_by_the_rules_words_and_drive_measured_findings(rul
     assert found.loc["P-4", "message"].startswith(params["cooler"]) and \
         found.loc["P-4", "severity"] == "info"
     assert (found["basis"] == "measured").all()
-    assert (audit.findings.loc[audit.findings["check"] != CHECK, "basis"] == "register").all()
+    # The other checks judge P-2 and P-3 at their measured condition (P-3 at the factor of
+    # its milder reading: the other has none); P-1 read as expected stays as registered.
+    others = audit.findings[audit.findings["check"] != CHECK]
+    assert set(others["tag"]) == {"P-2", "P-3"} and (others["basis"] == "measured").all()
+    assert list(audit.results["basis"]) == ["register", "measured", "measured", "measured"]
     # The limit: the prediction plus the margin, on the side of the reading.
     p2 = audit.survey.loc[1]
     assert found.loc["P-2", "limit"] == pytest.approx(p2["predicted_temp_K"] - 273.15 + 5.0)

@@ -96,3 +96,11 @@ def test_bad_tables_raise_with_the_table_named(table, words):
         ConductivityTables([table], names=["wool-x"])
     assert "wool-x" in str(info.value)
     assert isinstance(info.value, LagauditError) and isinstance(info.value, ValueError)
+
+
+def test_a_face_at_the_end_row_within_rounding_is_not_extrapolated():
+    # A liquid-nitrogen line at -196 degC against a table whose first row is -196 degC: the
+    # solved face may sit a rounding error below the row (1e-9 K here); 1e-3 K is outside.
+    tables = ConductivityTables([[(77.15, 0.0135), (200.0, 0.0201)]])
+    assert not tables.outside(np.array([0]), np.array([77.15 - 1e-9]), np.array([150.0]))[0]
+    assert tables.outside(np.array([0]), np.array([77.15 - 1e-3]), np.array([150.0]))[0]

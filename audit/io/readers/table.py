@@ -23,6 +23,7 @@ from audit.io.readers.sheet import MAX_CELL_CHARS, RawSheet
 from audit.io.readers.headers import DN_UNIT, HeaderMap, Lookup, match_headers
 from audit.io.readers.insulation import insulation_layers
 from audit.io.readers.plant import PlantRules
+from audit.io.readers.tracing import tracing as tracing_cell
 from audit.io.readers.words import NAME_COLUMNS, translate_layers, translate_names
 from audit.pipe_sizes import OD_MM_BY_NPS
 from audit.problems import Problem
@@ -38,6 +39,9 @@ _HEADS_SYNONYMS = (("hemispheric", "hemispherical"), ("hemi", "hemispherical"),
 _ORIENTATION_SYNONYMS = (("horiz", "horizontal"), ("h", "horizontal"), ("vert", "vertical"),
                          ("v", "vertical"), ("facing-up", "up"), ("facing-down", "down"))
 _CONDITION_SYNONYMS = (("good", "intact"),)
+SCHEDULES = BY_NAME["schedule"].words
+_SCHEDULE_SYNONYMS = tuple((f"{prefix}{s}", s) for s in SCHEDULES
+                           for prefix in ("sch", "sch-", "sch.-", "schedule-", "s"))
 #: Spellings the reader accepts itself, beside the rules' names (not a plant's words).
 _OWN_SPELLINGS = {c: tuple(k for k, _ in pairs) for c, pairs in (
     ("shape", _SHAPE_SYNONYMS), ("heads", _HEADS_SYNONYMS), ("condition", _CONDITION_SYNONYMS))}
@@ -166,6 +170,8 @@ def build_sheet(raw: RawSheet, lookup: Lookup, tag_aliases: list[str],
     _surface(col, notes, out, info)
     for c in PLAIN:
         out[BY_NAME[c].item[0].name] = _plain(col[c], BY_NAME[c].parse, notes, info)
+    _tracing(col["tracing"], notes, out)
+    out["schedule"] = _choice(col["schedule"], SCHEDULES, _SCHEDULE_SYNONYMS, "", notes, everyone)
     notes.warn((condition == "damaged") & ~col["damaged"].given, "damaged",
                Problem("share-unknown",
                        "empty for a damaged item; share of the length bare not known"))
@@ -278,6 +284,16 @@ def _geometry(col, shape, sized, lengthy, flat, notes: RowNotes, out, info: Shee
     out["area_m2"] = _quantity(col["area"], notes, flat, info, ignored_for=~flat)
     notes.reject(flat & ~col["area"].given, "area",
                  Problem("empty", "empty", "the surface area (m2)"))
+
+
+def _tracing(column: Column, notes: RowNotes, out) -> None:
+    """The ``tracing`` cell (:mod:`audit.io.readers.tracing`): its kind, electric output, steam
+    tracer size and steam temperature; a cell that cannot be read rejects its row."""
+    answers = column.parse(tracing_cell, empty=("", math.nan, math.nan, math.nan, None))
+    notes.cells("reject", np.ones(len(column.codes), dtype=bool), column, [a[4] for a in answers])
+    out["tracing"] = column.spread(answers, 0)
+    for k, name in enumerate(("tracing_W_per_m", "tracer_nps", "tracing_steam_K"), start=1):
+        out[name] = column.spread(answers, k, dtype=float)
 
 
 def _orientation(col, shape, vessel, flat, notes: RowNotes, out) -> None:

@@ -126,3 +126,32 @@ def plant_words(sheets: list[dict]) -> list[str]:
 
 def _rows(count: int) -> str:
     return f"{count} row{'s' if count != 1 else ''}"
+
+
+#: Readings listed per status by :func:`summarise_survey` (survey.csv of a run lists every one).
+SURVEY_LISTED = 50
+
+
+def summarise_survey(survey: pd.DataFrame, listed: int = SURVEY_LISTED) -> str:
+    """What ``lagaudit validate --survey`` prints of the readings reconciled with the register
+    (:func:`audit.survey.reconcile`): the readings by status, then each reading not used and
+    each warned, by its file and row (``source``), with the column and the problem (its
+    ``reason`` and ``warnings`` name the column first)."""
+    counts = survey["status"].value_counts()
+    warned = survey["warnings"].fillna("") != ""
+    lines = [f"survey: {len(survey)} reading(s): {int(counts.get('matched', 0))} matched, "
+             f"{int(counts.get('rejected', 0))} rejected, "
+             f"{int(counts.get('unknown tag', 0))} with an unknown tag; {int(warned.sum())} "
+             "with warnings"]
+    for title, rows, column in (("not used", survey["status"] != "matched", "reason"),
+                                ("warnings", warned, "warnings")):
+        picked = survey[rows]
+        if not len(picked):
+            continue
+        lines.append(f"  {title}:")
+        for r in picked.head(listed).to_dict(orient="records"):
+            lines.append(f"    {r['source']} (tag {r['tag'] or '(empty)'}): {r[column]}")
+        if len(picked) > listed:
+            lines.append(f"    ... and {len(picked) - listed} more (a run's survey.csv lists "
+                         "every reading)")
+    return "\n".join(lines)

@@ -25,12 +25,18 @@ _FIELD = "   "  # a record's fields sit at depth 3 of indent=1: top object, resu
 _ROW_END = 0x02  # never raw in JSON text (control characters are escaped)
 
 
-def write_records_json(frame: pd.DataFrame, path: Path, meta: dict, plain) -> Path:
-    """``frame``'s records under ``"results"``, ``meta`` under ``"meta"`` (see the module)."""
+def write_records_json(frame: pd.DataFrame, path: Path, meta: dict, plain,
+                       after: dict | None = None) -> Path:
+    """``frame``'s records under ``"results"``, ``meta`` under ``"meta"`` (see the module);
+    ``after``: further keys (a short table's plain records), written after the results."""
+    after = after or {}
     head = json.dumps({"meta": meta, "results": []}, ensure_ascii=False, indent=1)
+    # '"name": [...]' of each further key, indented as a key of the outer object
+    tail = "".join(",\n" + json.dumps({k: v}, ensure_ascii=False, indent=1)[2:-2]
+                   for k, v in after.items())
     with open(path, "w", encoding="utf-8") as handle:
         if not len(frame):
-            handle.write(head)
+            handle.write(head[:-2] + tail + "\n}")
             return path
         handle.write(head[:-len("[]\n}")] + "[\n")  # up to '"results": '
         if not frame.shape[1]:
@@ -43,7 +49,7 @@ def write_records_json(frame: pd.DataFrame, path: Path, meta: dict, plain) -> Pa
             fields = parts[0] if len(parts) == 1 else map(",\n".join, zip(*parts))
             handle.write(",\n".join([f"  {{\n{f}\n  }}" for f in fields]))
             handle.write(",\n" if stop < len(frame) else "")
-        handle.write("\n ]\n}")
+        handle.write("\n ]" + tail + "\n}")
     return path
 
 

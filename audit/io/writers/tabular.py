@@ -29,15 +29,21 @@ def write_csv(results: pd.DataFrame, path: Path) -> Path:
     return write_frame_csv(results, path, text=neutralise_text)
 
 
-def write_json(results: pd.DataFrame, path: Path, *, meta: dict | None = None) -> Path:
-    """``{"meta": {...}, "results": [{column: value}, ...]}``; missing numbers are null.
+def write_json(results: pd.DataFrame, path: Path, *, meta: dict | None = None,
+               tables: dict | None = None) -> Path:
+    """``{"meta": {...}, "results": [{column: value}, ...]}``; missing numbers are null;
+    ``tables`` (name -> a short table, e.g. the survey's readings) follow as further keys,
+    ``"survey": [{column: value}, ...]``.
 
     The text is what ``json.dump(..., ensure_ascii=False, indent=1)`` writes for the records of
     ``results.to_dict(orient="records")``, each value made plain (numpy scalars as Python
     values, NaN and infinities as null); :func:`~audit.io.writers.json_fast.write_records_json`
     builds it from the columns, which a 100,000-item register needs.
     """
-    return write_records_json(results, path, meta or {}, _plain)
+    after = {name: [{str(k): _plain(v) for k, v in record.items()}
+                    for record in table.to_dict(orient="records")]
+             for name, table in (tables or {}).items()}
+    return write_records_json(results, path, meta or {}, _plain, after)
 
 
 def _plain(value):
