@@ -237,3 +237,14 @@ def test_packs_render_while_the_block_runs_and_an_error_in_it_leaves_no_pack(dem
     else:
         raise AssertionError("the block's error was swallowed")
     assert not [p for p in failed.rglob("*") if p.is_file()]  # no pack, no temporary, no CSV
+
+
+def test_a_fitting_count_prints_as_a_whole_number():
+    # quantities travel in one float column (audit.planning.quantity_frame): a count of 2
+    # fittings comes back as 2.0 and is printed "2"; a length keeps its decimals
+    from audit.report.workorders import _labelled
+    cover = {"work": "removable insulation cover, valve", "quantity": 2.0, "unit": "pcs",
+             "thickness_mm": float("nan")}
+    assert (_labelled(cover)["text"], _labelled(cover)["thickness"]) == ("2", "")
+    run = {**cover, "quantity": 12.5, "unit": "m", "thickness_mm": 50.0}
+    assert (_labelled(run)["text"], _labelled(run)["thickness"]) == ("12.5", "50")
