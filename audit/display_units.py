@@ -22,6 +22,7 @@ import numpy as np
 import pandas as pd
 
 from audit.errors import LagauditError
+from audit.results import significant
 from audit.units import ureg
 
 SYSTEMS = ("si", "us")
@@ -101,7 +102,9 @@ def header(text: str) -> tuple[str, str | None]:
 def frame(table: pd.DataFrame, units: str, keep=()) -> pd.DataFrame:
     """``table`` in the unit system ``units``: every column (but ``keep``) whose header unit is
     in :data:`US_UNITS` converted and renamed; findings' ``value``/``limit`` by their ``unit``;
-    ``message`` and ``remedy`` texts reworded.  The table itself is not changed."""
+    the converted figures at :data:`audit.results.SIGNIFICANT` significant figures, as the
+    findings' SI figures are written; ``message`` and ``remedy`` texts reworded.  The table
+    itself is not changed."""
     if check_system(units) == "si" or table is None:
         return table
     out = table.copy()
@@ -113,7 +116,7 @@ def frame(table: pd.DataFrame, units: str, keep=()) -> pd.DataFrame:
         values = pd.to_numeric(table[column], errors="coerce")
         if values.notna().sum() < table[column].replace("", np.nan).notna().sum():
             continue  # not a numeric column after all: left as written
-        out[column] = to_us(values, unit)
+        out[column] = significant(to_us(values, unit))  # no float noise (2.00000000000216)
         renames[column] = f"{name} [{US_UNITS[unit].label}]"
     if {"value", "limit", "unit"} <= set(table.columns):
         _finding_values(out, table)
@@ -130,7 +133,7 @@ def _finding_values(out: pd.DataFrame, table: pd.DataFrame) -> None:
         for column in ("value", "limit"):
             values = pd.to_numeric(table[column], errors="coerce").to_numpy(float)
             converted = out[column].to_numpy(float, copy=True)
-            converted[rows] = to_us(values[rows], si_label)
+            converted[rows] = significant(to_us(values[rows], si_label))
             out[column] = converted
         out.loc[rows, "unit"] = US_UNITS[si_label].label
 

@@ -34,13 +34,9 @@ def shown(audit, table: pd.DataFrame, units: str = "si") -> pd.DataFrame:
 
 
 def _findings(audit, units: str) -> pd.DataFrame:
-    """The findings as written (:func:`~audit.results.findings_out`), in ``units``; the
-    converted figures rounded again, as the SI ones are."""
-    out = shown(audit, findings_out(audit.findings), units)
-    if units != "si":
-        for column in ("value", "limit", display_units.named("remedy_thickness", "mm", units)):
-            out[column] = significant(out[column].to_numpy(float))
-    return out
+    """The findings as written (:func:`~audit.results.findings_out`), in ``units`` (the
+    converted figures rounded again, as the SI ones are: :func:`audit.display_units.frame`)."""
+    return shown(audit, findings_out(audit.findings), units)
 
 
 def _csv(audit, folder: OutputFolder, meta: dict, asked, *, units: str = "si",

@@ -20,6 +20,7 @@ from audit.economics import economic_rules as economic_rules_of
 from audit.heap import give_back
 from audit.io.readers import read_register, reader_options
 from audit.io.readers.survey import read_survey
+from audit.planning import ROW_COLUMNS, PlanningRules, RowPlans, plan_rows, planning_rules
 from audit.results import build_results
 from audit.rules import Rules, load_rules
 from audit.survey import item_factors, more_heat_than_predicted, reconcile, result_columns
@@ -38,6 +39,7 @@ class Audit:
     states: pd.DataFrame     #: thermal states at each item's own conditions (index of table)
     history: object = None   #: with --history: this audit beside the last (audit.history.SinceLast)
     survey: pd.DataFrame | None = None  #: with --survey: every reading, reconciled (audit.survey)
+    planning: RowPlans | None = None  #: each row's planned work, hours and cost (audit.planning)
 
 
 def measured_context(context: CheckContext, deviations: dict) -> CheckContext:
@@ -101,22 +103,25 @@ def audit_register(registers, *, rules_dirs=(), sheets=None, surface_model="corr
     rules = load_rules(rules_dirs) if rules is None else rules
     params = validate_checks(rules)
     economics = economic_rules_of(rules)
+    planning = planning_rules(rules)
     table = resolve_names(read_register(registers, sheets=sheets, **reader_options(rules)), rules)
     readings = read_survey(survey) if survey else None
     return audit_table(table, rules, surface_model=surface_model, params=params,
-                       economic_rules=economics, fuel_price=fuel_price, hours=hours,
-                       readings=readings)
+                       economic_rules=economics, planning=planning, fuel_price=fuel_price,
+                       hours=hours, readings=readings)
 
 
 def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlations",
-                params=None, economic_rules: EconomicRules | None = None, fuel_price=None,
+                params=None, economic_rules: EconomicRules | None = None,
+                planning: PlanningRules | None = None, fuel_price=None,
                 hours=None, readings: pd.DataFrame | None = None) -> Audit:
-    """Run the audit on an item table whose names are already resolved; the economic rules
-    are those the rules carry unless given; ``readings`` (field readings, as
+    """Run the audit on an item table whose names are already resolved; the economic and
+    planning rules are those the rules carry unless given; ``readings`` (field readings, as
     :func:`audit.io.readers.survey.read_survey` returns them) are reconciled with the items,
     and findings then say their ``basis`` (``measured`` where a reading drove them)."""
     params = validate_checks(rules) if params is None else params
     economic_rules = economic_rules_of(rules) if economic_rules is None else economic_rules
+    planning = planning_rules(rules) if planning is None else planning
     # pandas deep-copies ``attrs`` (the reader's summary) into every table an operation makes;
     # the audit does not read it, and thousands of copies add up.
     table = table.copy(deep=False)
@@ -133,10 +138,13 @@ def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlation
         context = measured_context(context, done)
     findings = run_checks(context, params, done=done)
     findings = fill_remedies(context, findings, check_kinds(), params)
+    states = context.states("")
+    repairs = plan_rows(table, states, findings, planning, economic_rules.repair)
     economics = compute_economics(context, findings, rules, economic_rules=economic_rules,
-                                  fuel_price=fuel_price, hours=hours)
+                                  repairs=repairs, fuel_price=fuel_price, hours=hours)
     names, worst = summarise_per_row(findings, len(table))
     extra = pd.concat([economics.per_row.reset_index(drop=True),
+                       repairs.frame[ROW_COLUMNS].reset_index(drop=True),
                        cold_weather_columns(context, params)], axis=1)
     if readings is not None:
         findings["basis"], factor = finding_basis(findings, context)
@@ -153,12 +161,12 @@ def audit_table(table: pd.DataFrame, rules: Rules, *, surface_model="correlation
                                basis, "measured", np.where(table["status"] == "ok", "register",
                                                            ""))})],
                           axis=1)
-    states = context.states("")
     cases = dict.fromkeys(c.site for c in rules.checks.values() if c.enabled and c.site)
     results = build_results(table, states, findings=names, severity=worst,
                             extra=extra,
                             judged={case: context.states(case) for case in cases})
-    audit = Audit(rules, table, results, findings, economics, states, survey=context.survey)
+    audit = Audit(rules, table, results, findings, economics, states, survey=context.survey,
+                  planning=repairs)
     del context  # the trial states and tables of the checks and remedies
     give_back()
     return audit

@@ -23,10 +23,12 @@ def main() -> None:
     parser.add_argument("--items", type=int, default=100_000)
     args = parser.parse_args()
 
-    from audit.checks import run_checks, validate_checks
+    from audit.checks import check_kinds, run_checks, validate_checks
+    from audit.checks.remedy import fill_remedies
     from audit.checks.base import CheckContext
     from audit.economics import compute_economics, load_economic_rules
-    from audit.io.readers import read_register
+    from audit.io.readers import read_register, reader_options
+    from audit.planning import plan_rows, planning_rules
     from audit.rules import load_rules
     from audit.thermal import resolve_names
 
@@ -38,11 +40,16 @@ def main() -> None:
         econ = timed("load economic rules", load_economic_rules)
         table = resolve_names(read_register(register, **reader_options(rules)), rules)
         context = CheckContext(table, rules)
-        findings = timed("checks (all scenarios)", run_checks, context, validate_checks(rules))
-        got = timed("compute_economics", compute_economics, context, findings, rules, economic_rules=econ)
+        params = validate_checks(rules)
+        findings = timed("checks (all scenarios)", run_checks, context, params)
+        findings = timed("remedies", fill_remedies, context, findings, check_kinds(), params)
+        repairs = timed("plan_rows", plan_rows, table, context.states(""), findings,
+                        planning_rules(rules), econ.repair)
+        got = timed("compute_economics", compute_economics, context, findings, rules,
+                    economic_rules=econ, repairs=repairs)
         fresh = CheckContext(table, rules)
         start = time.perf_counter()
-        compute_economics(fresh, findings, rules, economic_rules=econ)
+        compute_economics(fresh, findings, rules, economic_rules=econ, repairs=repairs)
         print(f"  {'compute_economics (no cache)':<28} {time.perf_counter() - start:7.2f} s")
         row = got.per_row
         print(f"  items with energy {int(row['annual_energy [MWh]'].notna().sum())}, "

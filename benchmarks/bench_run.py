@@ -74,6 +74,7 @@ def run_size(items: int, folder: Path, *, end_to_end: bool, reports: bool) -> No
     from audit.io.readers import read_register
     from audit.io.writers import write_csv, write_json, write_xlsx
     from audit.pipeline import Audit
+    from audit.planning import ROW_COLUMNS, plan_rows, planning_rules
     from audit.report import write_reports
     from audit.results import build_results
     from audit.rules import load_rules
@@ -90,11 +91,15 @@ def run_size(items: int, folder: Path, *, end_to_end: bool, reports: bool) -> No
     states = timed("thermal states (own)", context.states, "")
     findings = timed("checks (all scenarios)", run_checks, context, params)
     findings = timed("remedies", fill_remedies, context, findings, check_kinds(), params)
+    econ = economic_rules(rules)
+    repairs = timed("planning (work per row)", plan_rows, table, states, findings,
+                    planning_rules(rules), econ.repair)
     economics = timed("economics", compute_economics, context, findings, rules,
-                      economic_rules=economic_rules(rules))
+                      economic_rules=econ, repairs=repairs)
     names, worst = summarise_per_row(findings, len(table))
+    extra = pd.concat([economics.per_row, repairs.frame[ROW_COLUMNS]], axis=1)
     results = timed("results table", build_results, table, states, findings=names,
-                    severity=worst, extra=economics.per_row)
+                    severity=worst, extra=extra)
     out = folder / f"out-{items}"
     out.mkdir()
     timed("write results.csv", write_csv, results, out / "results.csv")
@@ -103,7 +108,7 @@ def run_size(items: int, folder: Path, *, end_to_end: bool, reports: bool) -> No
                                              "findings": findings.drop(columns=["row"])},
           out / "results.xlsx")
     if reports:
-        audit = Audit(rules, table, results, findings, economics, states)
+        audit = Audit(rules, table, results, findings, economics, states, planning=repairs)
         meta = {"tool": "lagaudit benchmark", "run_at": "", "registers": [], "surface_model": ""}
         timed("render report.html", write_reports, audit, out, meta=meta, formats=["html"],
               economics=economics)

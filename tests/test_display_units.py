@@ -88,3 +88,19 @@ def test_quantities_in_messages(si, us):
 def test_unknown_unit_system_refused():
     with pytest.raises(LagauditError, match="unit system"):
         display_units.check_system("imperial")
+
+
+def test_converted_columns_carry_no_float_noise():
+    # 50.8 mm is 2 in exactly (NIST SP 811: inch = 25.4 mm); the 12-figure factor alone gives
+    # 2.00000000000216. Each converted figure is written to 6 significant figures, the oracle
+    # being Python's own decimal rounding of the unrounded conversion.
+    si = np.array([50.8, 76.2, 37.7, 100.0, 3.3, np.nan])
+    table = pd.DataFrame({"od [mm]": si, "surface_temp [degC]": si, "heat_loss [W]": si,
+                          "length [m]": si})
+    out = frame(table, "us")
+    for column, unit in zip(out.columns, ("mm", "degC", "W", "m")):
+        expected = [float(f"{x:.6g}") for x in to_us(si, unit)]
+        np.testing.assert_array_equal(out[column].to_numpy(float), expected)  # exact: same decimal
+    assert out["od [in]"].tolist()[:2] == [2.0, 3.0]
+    findings = pd.DataFrame({"value": [50.8], "limit": [76.2], "unit": ["mm"]})
+    assert frame(findings, "us")[["value", "limit"]].iloc[0].tolist() == [2.0, 3.0]

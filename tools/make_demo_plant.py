@@ -211,7 +211,22 @@ def line_rows(rng) -> list[list]:
     _add_elevations(rows, LINE_HEADERS.index("Access"), (*(f"{x:g}" for x in RACK_LEVELS_M), "0.5"))
     for row in rows:
         row.extend(cold_weather.get(row[0], [""] * len(COLD_WEATHER_HEADERS)))
+    _leave_planning_gaps(rows)
     return rows
+
+
+#: Planning demo: lines whose register leaves the elevation and the install year empty, so
+#: that their work orders show access "unknown" and an asbestos survey presumed, with why.
+UNRECORDED_PLANNING = ("QP-20-ST-2901",)
+
+
+def _leave_planning_gaps(rows: list[list]) -> None:
+    """Empty the ``Elevation [m]`` and ``Install Year`` cells of :data:`UNRECORDED_PLANNING`
+    (after every random draw, so the rest of the plant is as it was)."""
+    tag, elevation, year = (LINE_HEADERS.index(h) for h in ("Line No", "Elevation [m]", "Install Year"))
+    for row in rows:
+        if row[tag] in UNRECORDED_PLANNING:
+            row[elevation] = row[year] = ""
 
 
 def _add_elevations(rows: list[list], access: int, high: tuple[str, ...]) -> None:

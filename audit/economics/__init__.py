@@ -23,7 +23,7 @@ from audit.economics import totals
 from audit.economics.energy import (BOIL_OFF, REFRIGERATION, UNPAID, HeatGainPayers,
                                     boil_off_kg_h, yearly)
 from audit.checks.repairs import plan_repairs
-from audit.economics.repair import payback_years, repair_cost
+from audit.economics.repair import payback_years
 from audit.economics.rules import EconomicRules, economic_rules, load_economic_rules
 from audit.economics.thickness import annuity_factor, economic_thickness
 from audit.errors import RuleError
@@ -41,7 +41,8 @@ __all__ = ["Economics", "EconomicRules", "compute_economics", "economic_rules", 
 #: boiled off (``energy_bought``: fuel, electricity, boil-off or none); ``saving_if_repaired [MWh]`` energy bought as is minus repaired (0 when
 #: nothing is to be repaired); ``payback [yr]`` = ``repair_cost`` / ``annual_saving`` (money
 #: per year), empty when nothing is to be repaired or the repair saves nothing; ``repair`` what
-#: the repair is; ``installed_thickness [mm]``; ``economic_thickness [mm]`` of
+#: the repair is; ``repair_cost`` the row's work as its work order prices it
+#: (:mod:`audit.planning`); ``installed_thickness [mm]``; ``economic_thickness [mm]`` of
 #: ``economic_material``; ``economics_note`` why a value is empty; ``annual_boil_off [t]`` the
 #: liquid a boiling liquid's heat gain boils off in the year; ``boil_off [kg/h]`` the same at
 #: the item's own conditions (those of ``heat_loss [W]``), as the contract's columns are.  NaN for rows without a result.
@@ -84,7 +85,7 @@ def energy_site(rules, economic_rules: EconomicRules) -> str:
 
 
 def compute_economics(context, findings, rules, *, economic_rules: EconomicRules,
-                      fuel_price=None, hours=None) -> Economics:
+                      repairs, fuel_price=None, hours=None) -> Economics:
     """Energy, cost, CO2, repair savings and payback, and economic thickness of every row.
 
     Parameters
@@ -97,6 +98,10 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
         The audit's rules (sites, checks, specifications, standard thicknesses).
     economic_rules : EconomicRules
         From :func:`load_economic_rules`.
+    repairs : audit.planning.RowPlans
+        The planned work of each row (:func:`audit.planning.plan_rows`): its ``repair_cost``
+        (installed cost, guards, scaffold [currency], NaN where nothing is planned) is the one
+        number of the results, the payback and the work orders; ``planned`` says which rows.
     fuel_price : float, optional
         This run's fuel price, currency per the ``price_per`` unit of ``[economics.heat]``.
     hours : float, optional
@@ -128,7 +133,7 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
     saving_mwh = np.where(plan.needed, np.where(fixed, now["bought [MWh]"] - after["bought [MWh]"], np.nan),
                           0.0)
     saving_money = np.where(plan.needed, np.where(fixed, now["cost"] - after["cost"], np.nan), 0.0)
-    cost = repair_cost(econ.repair, table, plan, repaired)
+    cost, planned = repairs.repair_cost, repairs.planned
     computed = states["computed"].to_numpy(bool)
 
     material = np.where(plan.spec_material != "", plan.spec_material, _outermost(table)).astype(object)
@@ -144,11 +149,11 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
         "annual_cost": known(now["cost"]),
         "annual_co2 [t]": known(now["co2 [t]"]),
         "saving_if_repaired [MWh]": known(saving_mwh),
-        "payback [yr]": known(payback_years(cost, saving_money, plan.needed)),
+        "payback [yr]": known(payback_years(cost, saving_money, plan.needed & (cost > 0))),
         "energy_bought": np.where(computed, _carrier(now["mode"]), "").astype(object),
         "hours [h]": np.where(computed, hours_h, np.nan),
         "repair": np.where(computed, plan.scope(), "").astype(object),
-        "repair_cost": known(np.where(plan.needed, cost, np.nan)),
+        "repair_cost": known(cost),
         "annual_saving": known(saving_money),
         "installed_thickness [mm]": np.where(table["status"] == "ok", plan.installed_m * 1000.0, np.nan),
         "economic_thickness [mm]": economic * 1000.0,
@@ -157,8 +162,13 @@ def compute_economics(context, findings, rules, *, economic_rules: EconomicRules
         "annual_boil_off [t]": known(now["boil_off [t]"]),
         "economics_note": _notes(computed, [
             (plan.needed & ~fixed, "the repaired item could not be computed by the engine"),
-            (plan.needed & fixed & ~np.isfinite(cost),
-             "no repair cost: thickness or fitting size outside the [economics.repair] tables"),
+            (plan.needed & ~planned, "no repair cost: no work order for a finding of this row"),
+            (planned & ~plan.needed & (cost > 0),
+             "no payback: the planned work (repair_cost: an inspection, a guard, insulation "
+             "beyond the specification) saves nothing against the item as specified"),
+            (plan.needed & fixed & planned & ~np.isfinite(cost),
+             "no repair cost: thickness or fitting size outside the [economics.repair] or "
+             "[planning.labour] tables"),
             (plan.needed & fixed & (saving_money <= 0), "the repair saves no money: no payback"),
             (material == "", "no economic thickness: no specification or installed material"),
             ((material != "") & ~np.isfinite(economic),

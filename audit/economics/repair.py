@@ -1,10 +1,11 @@
 """What a repair costs and what it saves.
 
 What a repair is (:func:`audit.checks.repairs.plan_repairs`) is shared with the remedies of
-the findings, so that the money and the work orders speak of the same work.  An item with
-nothing to repair saves 0 and has no payback.  The saving
+the findings.  An item with nothing to repair saves 0 and has no payback.  The saving
 is reckoned with the engine on a modified copy of the item table, for the whole register in
-one solve.  Costs come from the rule tables of ``[economics.repair]``: per metre of pipe run
+one solve.  The cost of a row's work is priced once, by :func:`audit.planning.plan_rows`, with
+the functions here: the rule tables of ``[economics.repair]`` are INSTALLED rates (material,
+jacket and the insulators' labour): per metre of pipe run
 by size and thickness, per m2 of insulated surface for vessels, spheres, flat items and pipes
 larger than the table, per removable cover for fittings.  Between listed thicknesses the cost
 is interpolated linearly; a thickness or fitting size outside the tables has no cost (NaN,
@@ -14,10 +15,8 @@ with a note), never the nearest entry.
 from __future__ import annotations
 
 import numpy as np
-import pandas as pd
 
 from audit.checks.below_spec import _EDGE_M
-from audit.checks.repairs import RepairPlan
 from audit.pipe_sizes import NOMINAL_PIPE_SIZES
 
 _OD_OF_NPS = {value: mm / 1000.0 for _, value, _, mm in NOMINAL_PIPE_SIZES}
@@ -88,15 +87,6 @@ def cover_cost(repair, od_m, count) -> np.ndarray:
     covers = np.asarray(repair.cover_per_fitting, float)
     each = np.where(row < covers.size, covers[np.minimum(row, covers.size - 1)], np.nan)
     return np.where(count > 0, count * each, 0.0)
-
-
-def repair_cost(repair, table: pd.DataFrame, plan: RepairPlan, repaired_states: pd.DataFrame) -> np.ndarray:
-    """Cost of each row's repair [currency]; 0 where nothing is to be repaired."""
-    insulation = insulation_cost(repair, table["shape"].to_numpy(object), table["od_m"].to_numpy(float),
-                                 table["length_m"].to_numpy(float),
-                                 repaired_states["outer_area_m2"].to_numpy(float), plan.thickness_m)
-    covers = cover_cost(repair, table["od_m"].to_numpy(float), plan.covers)
-    return np.where(plan.insulate, plan.share * insulation, 0.0) + covers
 
 
 def payback_years(cost, yearly_saving, needed) -> np.ndarray:

@@ -27,12 +27,11 @@ import pandas as pd
 
 from audit import display_units
 from audit.heap import give_back
-from audit.checks.condensation import ICE
 from audit.io.writers import write_csv
 from audit.io.writers.place import OutputFolder, temporary_for
-from audit.economics import economic_rules
 from audit.outputs import MAX_WORKORDER_PAGES
-from audit.planning import plan_order, planning_rules
+from audit.planning import (GUARD, INSULATE, MONEY, PLANNED_FROM, layers_words, plan_order, planning_rules,
+                            size_words, text_of)
 from audit.report.context import SEVERITY_RANK, conditions_text, fmt, location_columns, worst_first
 from audit.report.html import render
 from audit.report.pdf import EmbeddedOnlyFetcher, write_pdf
@@ -79,7 +78,7 @@ def safe_filename(name: str, taken: set[str], suffix: str = "") -> str:
     return candidate + suffix
 
 
-def repair_items(audit, min_severity: str = "low") -> pd.DataFrame:
+def repair_items(audit, min_severity: str = PLANNED_FROM) -> pd.DataFrame:
     """Findings of the items to repair (rows at or above ``min_severity``), worst first."""
     findings = audit.findings
     if not len(findings):
@@ -90,23 +89,22 @@ def repair_items(audit, min_severity: str = "low") -> pd.DataFrame:
     return worst_first(findings.loc[findings["row"].isin(rows)])
 
 
-def build_orders(audit, min_severity: str = "low") -> list[dict]:
+def build_orders(audit, min_severity: str = PLANNED_FROM) -> list[dict]:
     """One record per tag to repair, grouped by area, worst priority first in each area.
 
     A tag on several (differing) register rows is audited on each row and gets one work order
     that lists each row (``parts``, worst first): its findings and quantities, summed over the
     rows in ``quantities``.  The order's area, location and description are its worst row's.
     """
+    if SEVERITY_RANK[min_severity] < SEVERITY_RANK[PLANNED_FROM]:
+        raise ValueError(f"work orders start at {PLANNED_FROM!r} findings (audit.planning."
+                         f"PLANNED_FROM): the rows below are not planned, not {min_severity!r}")
     findings = repair_items(audit, min_severity)
     if not len(findings):
         return []
-    table, results = audit.table, audit.results
+    table, results, rows_planned = audit.table, audit.results, audit.planning
     places = location_columns(table)
-    outer_area = results["outer_area [m2]"].to_numpy(float)
     payback = results["payback [yr]"].to_numpy(float)
-    with np.errstate(invalid="ignore"):
-        cold = ((results["process_temp [degC]"].to_numpy(float) < results["air_temp [degC]"].to_numpy(float))
-                | (table["service"].fillna("").to_numpy(object) == "cold"))
     columns = [c for c in table.columns if not str(c).startswith("raw:")] + ["raw:temp"] * ("raw:temp" in table)
     by_tag: dict = {}
     words = _Words(findings.columns)
@@ -120,24 +118,23 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
                           "remedy": f["remedy"], "source": item["source"],
                           # with --history: since when the finding has stood
                           "first_reported": f.get("first_reported", "")} for f in records],
-            "quantities": _quantities(item, records, outer_area[row], bool(cold[row])),
-            # for the planning (audit/planning.py)
-            "installed_m": float(sum(item["layer_thicknesses_m"] or ())), "iced": any(ICE in str(f["message"]) for f in records),
-            "elevation_m": float(item["elevation_m"]), "install_year": float(item["install_year"]),
             "payback": float(payback[row]),
+            # the row's planned work, hours and cost (audit/planning.py), labelled for print
+            **rows_planned.part(int(row)),
         }
+        part["quantities"] = [_labelled(q) for q in part["quantities"]]
         words.share_part(part)
         order = by_tag.get(item["tag"])
         if order is None:
             by_tag[item["tag"]] = order = {
                 "row": int(row), "tag": item["tag"], "source": item["source"],
                 "area": str(item["area_code"] or ""), "rank": rank,
-                "location": [(c, _text(item[c])) for c in places if _text(item[c])],
+                "location": [(c, text_of(item[c])) for c in places if text_of(item[c])],
                 "description": part["description"], "parts": []}
         order["parts"].append(part)
         order["rank"] = max(order["rank"], rank)
     orders = []
-    planning, repair = planning_rules(audit.rules), economic_rules(audit.rules).repair
+    planning = planning_rules(audit.rules)
     for order in by_tag.values():
         parts = sorted(order["parts"], key=lambda p: -p["rank"])  # stable: register order within
         order.update(
@@ -148,9 +145,9 @@ def build_orders(audit, min_severity: str = "low") -> list[dict]:
                 f["remedy"] for p in parts for f in p["findings"] if f["remedy"])),
             quantities=_summed([q for p in parts for q in p["quantities"]]),
             payback=min((p["payback"] for p in parts if np.isfinite(p["payback"])), default=np.inf))
-        order["planning"] = plan = plan_order(order, parts, repair, planning)
-        plan["shown"] = {k: fmt(plan[k]) for k in ("labour_h", "materials_cost", "labour_cost",
-                                                   "scaffold_cost", "repair_cost")}
+        order["planning"] = plan = plan_order(order, parts, planning)
+        plan["materials"] = "; ".join(_material_line(q) for q in order["quantities"])
+        plan["shown"] = {k: fmt(plan[k]) for k in ("labour_h", "guard_alternative_cost", *MONEY)}
         plan["currency"] = audit.economics.currency
         words.share_order(order)
         orders.append(order)
@@ -242,8 +239,7 @@ DE_ICE = "ice: de-ice before work"
 
 def _iced(parts: list[dict]) -> list[str]:
     """``[DE_ICE]`` when a condensation finding of the order says its surface grows ice."""
-    iced = any(ICE in str(f["message"]) for p in parts for f in p["findings"])
-    return [DE_ICE] if iced else []
+    return [DE_ICE] if any(p["iced"] for p in parts) else []
 
 
 @dataclass
@@ -295,7 +291,7 @@ def plan_packs(orders: list[dict], max_pages: int | None = None) -> PackPlan:
 
 
 def write_workorders(audit, out_dir, *, caution: str, meta: dict,
-                     min_severity: str = "low", pdf: bool = True, jobs: int | None = None,
+                     min_severity: str = PLANNED_FROM, pdf: bool = True, jobs: int | None = None,
                      max_pages: int | None = None, plan: PackPlan | None = None,
                      units: str = "si") -> list[Path]:
     """``workorders.csv`` and, with ``pdf``, ``workorders/<area>.pdf``; the paths written.
@@ -320,7 +316,7 @@ def write_workorders(audit, out_dir, *, caution: str, meta: dict,
 
 
 @contextmanager
-def writing_workorders(audit, out_dir, *, caution: str, meta: dict, min_severity: str = "low",
+def writing_workorders(audit, out_dir, *, caution: str, meta: dict, min_severity: str = PLANNED_FROM,
                        pdf: bool = True, jobs: int | None = None, max_pages: int | None = None,
                        plan: PackPlan | None = None, units: str = "si"):
     """:func:`write_workorders` (same arguments) with the packs rendered by the worker processes
@@ -432,120 +428,49 @@ def _die_with_parent() -> None:
         os._exit(1)
 
 
-def _text(value) -> str:
-    if value is None or (isinstance(value, float) and not np.isfinite(value)):
-        return ""
-    return str(value).strip()
-
-
-def _size(item) -> str:
-    nps, od = _text(item["nps"]), float(item["od_m"])
-    if nps:
-        return f"NPS {nps}"
-    return f"OD {od * 1000:.0f} mm" if np.isfinite(od) else "size not given"
-
-
-def _layers(item) -> str:
-    materials, thicknesses = item["layer_materials"], item["layer_thicknesses_m"]
-    if not isinstance(materials, tuple) or not materials:
-        return "none (bare)"
-    return " + ".join(f"{m} {t * 1000:.0f} mm" for m, t in zip(materials, thicknesses))
-
-
 def _description(item) -> list[tuple[str, str]]:
-    shape = _text(item["shape"])
-    rows = [("shape", shape), ("size", _size(item) if shape != "flat" else "flat")]
+    shape = text_of(item["shape"])
+    rows = [("shape", shape), ("size", size_words(item) if shape != "flat" else "flat")]
     if shape == "flat":
         rows.append(("area", f"{fmt(item['area_m2'])} m²"))
     else:
         rows.append(("length", f"{fmt(item['length_m'])} m"))
     temp = float(item["temp_K"])
-    raw = _text(item.get("raw:temp", ""))
+    raw = text_of(item.get("raw:temp", ""))
     shown = f"{fmt(temp - 273.15)} °C" if np.isfinite(temp) else (raw or "–")
     rows += [("operating temperature", shown + (f" (register: {raw})" if raw and np.isfinite(temp) else "")),
-             ("installed insulation", _layers(item)), ("jacket", _text(item["jacket"]) or "–"),
-             ("condition", _text(item["condition"]) + (f", {fmt(item['damaged_pct'])} % bare"
+             ("installed insulation", layers_words(item)), ("jacket", text_of(item["jacket"]) or "–"),
+             ("condition", text_of(item["condition"]) + (f", {fmt(item['damaged_pct'])} % bare"
                                                       if item["condition"] == "damaged" else "")),
              ("accessible", "yes" if bool(item["accessible"]) else "no"),
-             ("register row", _text(item["source"]))]
+             ("register row", text_of(item["source"]))]
     return rows
 
 
-#: Work words of the quantities, by remedy action (audit/checks/remedy.py ``ACTIONS``).
-INSULATE = "insulate to the remedy thickness (whole item)"
-REINSTATE = {"reinstate-damaged": "reinstate damaged share as installed",
-             "replace-wet": "replace wet insulation as installed",
-             "reinstate-missing": "reinstate missing insulation as installed",
-             "replace-degraded": "replace insulation the survey found degraded, as installed"}
-GUARD = "personnel guard (alternative to insulation)"
 #: workorders.csv quantity columns
 QUANTITY_COLUMNS = ["insulate [m]", "insulate [m2]", "reinstate [m]", "reinstate [m2]",
                     "guard [m]", "guard [m2]", "guard [pcs]"]
 #: workorders.csv planning columns -> key of the order's planning (audit/planning.py)
 PLANNING_COLUMNS = {"scaffold": "scaffold", "asbestos_survey": "asbestos_survey",
-                    "labour [h]": "labour_h", "materials_cost": "materials_cost",
-                    "labour_cost": "labour_cost", "scaffold_cost": "scaffold_cost",
-                    "repair_cost": "repair_cost", "materials": "materials"}
+                    "labour [h]": "labour_h", "installed_cost": "installed_cost",
+                    "guard_cost": "guard_cost", "scaffold_cost": "scaffold_cost",
+                    "repair_cost": "repair_cost", "guard_alternative_cost": "guard_alternative_cost",
+                    "planning_note": "planning_note",
+                    "materials": "materials"}
 
 
-def _actions(findings: list[dict]) -> set[str]:
-    return {a for f in findings for a in str(f.get("remedy_action") or "").split(";") if a}
+def _labelled(q: dict) -> dict:
+    """A row's quantity with its printed thickness and quantity text."""
+    mm = q["thickness_mm"]
+    return {**q, "thickness": fmt(mm) if np.isfinite(mm) else "",
+            "text": fmt(q["quantity"]) if q["unit"] != "pcs" else str(int(q["quantity"]))}
 
 
-def _quantities(item, findings: list[dict], outer_area: float, cold: bool) -> list[dict]:
-    """What to buy and fit for one register row, from its findings' remedies: rows of (work,
-    size, material, thickness [mm], quantity, unit).
-
-    Insulation to a remedy thickness covers the whole item (the thickest any of its findings
-    asks; each is at least the installed thickness and the specification's), its fittings
-    included; otherwise the bare parts are made good as installed (the damaged share, wet or
-    missing insulation) and the fittings covered, where a remedy or a condition finding says
-    so.  A personnel guard offered beside the insulation is counted on its own line.
-    """
-    shape, pipe = _text(item["shape"]), item["shape"] == "pipe"
-    size = _size(item) if shape != "flat" else "flat"
-    whole = (float(item["length_m"]), "m") if pipe else (outer_area, "m²")
-    actions = _actions(findings)
-    thickness = [(float(f["remedy_thickness [mm]"]), f["remedy_material"]) for f in findings
-                 if np.isfinite(float(f["remedy_thickness [mm]"]))]
-    valves, flanges = int(item["valves"] or 0), int(item["flanges"] or 0)
-    share = float(item["damaged_pct"]) / 100.0 if item["condition"] == "damaged" else 0.0
-    out = []
-    if thickness:
-        mm, material = max(thickness)
-        out.append({"work": INSULATE, "size": size, "material": material, "thickness": fmt(mm),
-                    "thickness_mm": mm, "quantity": whole[0], "unit": whole[1]})
-        covers = pipe
-    else:
-        layers = _layers(item)
-        for action, work in REINSTATE.items():
-            if action in actions:
-                part = share if action == "reinstate-damaged" else 1.0
-                out.append({"work": work, "size": size, "material": layers, "thickness": "",
-                            "quantity": whole[0] * part, "unit": whole[1]})
-        covers = pipe and "covers" in actions
-    if covers:
-        kind = "vapour-sealed removable cover" if cold else "removable insulation cover"
-        for count, what in ((valves, "valve"), (flanges, "flange")):
-            if count:
-                out.append({"work": f"{kind}, {what}", "size": size, "material": "",
-                            "thickness": "", "quantity": count, "unit": "pcs"})
-    guarded = [f for f in findings if "guard" in str(f.get("remedy_action") or "")]
-    if guarded:
-        over_bare = all("insulate" not in f["remedy_action"] and "engineer" not in f["remedy_action"]
-                        for f in guarded)
-        if over_bare and pipe and share == 0 and valves + flanges:
-            out.append({"work": GUARD + ", fittings", "size": size, "material": "", "thickness": "",
-                        "quantity": valves + flanges, "unit": "pcs"})
-        else:
-            out.append({"work": GUARD, "size": size, "material": "", "thickness": "",
-                        "quantity": whole[0] * (share if over_bare and share > 0 else 1.0),
-                        "unit": whole[1]})
-    od = float(item["od_m"])
-    for row in out:
-        row["od_m"] = od if np.isfinite(od) else np.inf  # sorts sizes by diameter, not as text
-        row["text"] = fmt(row["quantity"]) if row["unit"] != "pcs" else str(row["quantity"])
-    return out
+def _material_line(q: dict) -> str:
+    """One line of an order's materials list: work, size, material and thickness, quantity."""
+    what = " ".join(x for x in (q["material"], f"{q['thickness']} mm" if q["thickness"] else "")
+                    if x)
+    return f"{q['work']} {q['size']}" + (f" {what}" if what else "") + f": {q['text']} {q['unit']}"
 
 
 def _summed(quantities: list[dict]) -> list[dict]:
@@ -554,7 +479,7 @@ def _summed(quantities: list[dict]) -> list[dict]:
     the total's would: most orders' rows are their one register row's."""
     totals: dict = {}
     for q in quantities:
-        key = (q["work"], q["od_m"], q["size"], q["material"], q.get("thickness_mm", 0.0),
+        key = (q["work"], q["od_m"], q["size"], q["material"], np.nan_to_num(q["thickness_mm"]),
                q["thickness"], q["unit"])
         if key in totals:
             totals[key] = dict(totals[key], quantity=totals[key]["quantity"] + q["quantity"])
@@ -593,7 +518,7 @@ def _csv(orders: list[dict], files: dict, places: list[str], printed: set) -> pd
         insulation = [x for x in o["quantities"] if x["work"] == INSULATE]
         thickest = max(insulation, key=lambda x: x["thickness_mm"], default=None)
         location = dict(o["location"])
-        plan = o["planning"]
+        plan = {**o["planning"], "planning_note": "; ".join(o["planning"]["notes"])}
         rows.append({
             "work_order_key": plan["key"],
             "tag": o["tag"], "area_code": o["area"], "priority": o["priority"],

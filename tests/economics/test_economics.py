@@ -10,6 +10,7 @@ from audit.checks.base import CheckContext
 from audit.economics import COLUMNS, compute_economics, energy_site, load_economic_rules
 from audit.io.readers import read_register
 from audit.pipeline import audit_table
+from audit.planning import plan_rows, planning_rules
 from audit.rules import load_rules
 from audit.thermal import resolve_names
 
@@ -41,7 +42,8 @@ def result(tmp_path_factory, shipped):
     table = table_of(tmp_path_factory.mktemp("reg"), rules, REGISTER)
     audit = audit_table(table, rules)
     context = CheckContext(table, rules)
-    return context, audit, compute_economics(context, audit.findings, rules, economic_rules=econ)
+    return context, audit, compute_economics(context, audit.findings, rules, economic_rules=econ,
+                                             repairs=audit.planning)
 
 
 def test_columns_and_alignment(result):
@@ -94,7 +96,7 @@ def test_overrides_for_one_run(result, shipped):
     context, audit, base = result
     rules, econ = shipped
     got = compute_economics(context, audit.findings, rules, economic_rules=econ,
-                            fuel_price=2 * econ.heat.price, hours=4000)
+                            repairs=audit.planning, fuel_price=2 * econ.heat.price, hours=4000)
     # H2 has no hours of its own: the run's default replaces the rules' (8000 -> 4000).
     scale = np.array([2, 2 * 4000 / econ.hours, 2, 1, 1])
     np.testing.assert_allclose(got.per_row["annual_cost"], base.per_row["annual_cost"] * scale, rtol=1e-12)
@@ -132,8 +134,10 @@ def test_repairing_never_costs_energy(tmp_path_factory, shipped, rows):
              f"heat-conservation,{v},{f},8000,A" for i, (nps, t, mm, cond, pct, v, f) in enumerate(rows)]
     table = table_of(tmp_path_factory.mktemp("hyp"), rules, HEADER + "\n".join(lines) + "\n")
     context = CheckContext(table, rules)
-    got = compute_economics(context, table.iloc[:0].assign(row=[], check=[]), rules,
-                            economic_rules=econ).per_row
+    no_findings = table.iloc[:0].assign(row=[], check=[])
+    repairs = plan_rows(table, context.states(""), no_findings, planning_rules(rules), econ.repair)
+    got = compute_economics(context, no_findings, rules, economic_rules=econ,
+                            repairs=repairs).per_row
     computed = np.isfinite(got["annual_energy [MWh]"].to_numpy())
     saving = got["saving_if_repaired [MWh]"].to_numpy()
     assert (saving[computed] >= -1e-9 * got["annual_fuel [MWh]"].to_numpy()[computed]).all()

@@ -285,6 +285,7 @@ def test_orders_share_their_repeated_words_and_keep_their_parts_rows(tmp_path):
     assert sorted(q["quantity"] for q in part_rows) == [10, 30]  # the parts' rows as they were
     # A row whose text does not read as its total is copied with the total's text.
     row = {"work": "w", "od_m": 0.1, "size": "s", "material": "", "thickness": "", "unit": "m",
+           "thickness_mm": float("nan"),
            "quantity": 2.5, "text": "stale"}
     from audit.report.context import fmt
     assert _summed([row])[0] == dict(row, text=fmt(2.5)) and row["text"] == "stale"
@@ -320,3 +321,14 @@ def test_any_chunk_of_rows_gives_the_same_orders(size):
         assert repr(build_orders(audit)) == whole
     finally:
         workorders.RECORDS_CHUNK = default
+
+
+def test_a_fitting_count_prints_as_a_whole_number():
+    # quantities travel in one float column (audit.planning.quantity_frame): a count of 2
+    # fittings comes back as 2.0 and is printed "2"; a length keeps its decimals
+    from audit.report.workorders import _labelled
+    cover = {"work": "removable insulation cover, valve", "quantity": 2.0, "unit": "pcs",
+             "thickness_mm": float("nan")}
+    assert (_labelled(cover)["text"], _labelled(cover)["thickness"]) == ("2", "")
+    run = {**cover, "quantity": 12.5, "unit": "m", "thickness_mm": 50.0}
+    assert (_labelled(run)["text"], _labelled(run)["thickness"]) == ("12.5", "50")
