@@ -12,13 +12,16 @@ from __future__ import annotations
 
 import argparse
 import sys
-import tempfile
 from pathlib import Path
 
 import numpy as np
+import pandas as pd
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-from bench_run import make_register, timed  # noqa: E402
+from bench_run import item_table, make_register, timed  # noqa: E402
+
+
+CHECKS = ("tracing-shortfall", "freeze-risk", "temperature-drop")
 
 
 def cold_weather_register(rows: int):
@@ -51,35 +54,27 @@ def main() -> None:
     from audit.checks.base import CheckContext
     from audit.checks.remedy import fill_remedies
     from audit.coldweather import freeze_times, outlet_temperatures, tracing_needed
-    from audit.io.readers import read_register, reader_options
     from audit.rules import load_rules
-    from audit.thermal import resolve_names
 
-    with tempfile.TemporaryDirectory() as folder:
-        register = Path(folder) / "register.csv"
-        cold_weather_register(args.items).to_csv(register, index=False)
-        rules = load_rules()
-        params = validate_checks(rules)
-        table = resolve_names(read_register(register, **reader_options(rules)), rules)
-        print(f"register: {args.items} rows, {int((table['status'] == 'ok').sum())} accepted")
-        context = CheckContext(table, rules)
-        timed("cold-design-day states", context.states, "cold-design-day")
-        need = timed("tracing_needed", tracing_needed, context, "cold-design-day", 1.2)
-        outlet = timed("outlet_temp", outlet_temperatures, context, "cold-design-day")
-        freeze = timed("time_to_freeze", freeze_times, context, "cold-design-day", 0.25)
-        print(f"  lines: traced {int(np.isfinite(need).sum())}, flowing "
-              f"{int(np.isfinite(outlet).sum())}, stagnant water {int(np.isfinite(freeze).sum() + np.isinf(freeze).sum())}")
-        kinds = check_kinds()
-        fresh = CheckContext(table, rules)
-        frames = [timed(f"check {name}", kinds[name].findings, fresh, rules.checks[name],
-                        params[name])
-                  for name in ("tracing-shortfall", "freeze-risk", "temperature-drop")]
-        import pandas as pd
-        found = pd.concat(frames, ignore_index=True)
-        print(f"  findings {len(found)}")
-        only = {name: params[name] for name in ("tracing-shortfall", "freeze-risk",
-                                                "temperature-drop")}
-        timed("their remedies", fill_remedies, fresh, found, kinds, {**params, **only})
+    rules = load_rules()
+    params = validate_checks(rules)
+    table = item_table(cold_weather_register(args.items), rules)
+    print(f"register: {args.items} rows, {int((table['status'] == 'ok').sum())} accepted")
+    context = CheckContext(table, rules)
+    timed("cold-design-day states", context.states, "cold-design-day")
+    need = timed("tracing_needed", tracing_needed, context, "cold-design-day", 1.2)
+    outlet = timed("outlet_temp", outlet_temperatures, context, "cold-design-day")
+    freeze = timed("time_to_freeze", freeze_times, context, "cold-design-day", 0.25)
+    print(f"  lines: traced {int(np.isfinite(need).sum())}, flowing "
+          f"{int(np.isfinite(outlet).sum())}, stagnant water {int(np.isfinite(freeze).sum() + np.isinf(freeze).sum())}")
+    kinds = check_kinds()
+    fresh = CheckContext(table, rules)
+    frames = [timed(f"check {name}", kinds[name].findings, fresh, rules.checks[name],
+                    params[name])
+              for name in CHECKS]
+    found = pd.concat(frames, ignore_index=True)
+    print(f"  findings {len(found)}")
+    timed("their remedies", fill_remedies, fresh, found, kinds, params)
 
 
 if __name__ == "__main__":

@@ -59,6 +59,18 @@ def make_register(rows: int, seed: int = 2) -> pd.DataFrame:
     })
 
 
+def item_table(frame: pd.DataFrame, rules):
+    """``frame`` read as ``lagaudit run`` reads a register file: written to CSV, read with the
+    rules' reader options, names resolved."""
+    from audit.io.readers import read_register, reader_options
+    from audit.thermal import resolve_names
+
+    with tempfile.TemporaryDirectory() as folder:
+        path = Path(folder) / "register.csv"
+        frame.to_csv(path, index=False)
+        return resolve_names(read_register(path, **reader_options(rules)), rules)
+
+
 def timed(label, function, *args, **kwargs):
     start = time.perf_counter()
     value = function(*args, **kwargs)
@@ -71,7 +83,7 @@ def run_size(items: int, folder: Path, *, end_to_end: bool, reports: bool) -> No
     from audit.checks.base import CheckContext
     from audit.checks.remedy import fill_remedies
     from audit.economics import compute_economics, economic_rules
-    from audit.io.readers import read_register
+    from audit.io.readers import read_register, reader_options
     from audit.io.writers import write_csv, write_json, write_xlsx
     from audit.pipeline import Audit
     from audit.planning import ROW_COLUMNS, plan_rows, planning_rules
@@ -85,7 +97,7 @@ def run_size(items: int, folder: Path, *, end_to_end: bool, reports: bool) -> No
     print(f"register: {items} rows", flush=True)
     rules = timed("load rules", load_rules)
     params = validate_checks(rules)
-    table = timed("read register", read_register, register, aliases=rules.aliases)
+    table = timed("read register", read_register, register, **reader_options(rules))
     table = timed("resolve names", resolve_names, table, rules)
     context = CheckContext(table, rules)
     states = timed("thermal states (own)", context.states, "")

@@ -13,21 +13,17 @@ from __future__ import annotations
 import argparse
 import os
 import sys
-import tempfile
-import time
 from pathlib import Path
 
 import numpy as np
 import pandas as pd
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-from bench_run import make_register  # noqa: E402
+from bench_run import item_table, make_register, timed  # noqa: E402
 
-from audit.io.readers import read_register, reader_options  # noqa: E402
 from audit.pipeline import audit_table  # noqa: E402
 from audit.rules import load_rules  # noqa: E402
 from audit.survey import reconcile  # noqa: E402
-from audit.thermal import resolve_names  # noqa: E402
 
 
 def readings_for(table: pd.DataFrame, rules, count: int, seed: int = 3) -> pd.DataFrame:
@@ -45,23 +41,13 @@ def readings_for(table: pd.DataFrame, rules, count: int, seed: int = 3) -> pd.Da
     return frame
 
 
-def timed(label: str, work):
-    start = time.perf_counter()
-    result = work()
-    print(f"{label:<40} {time.perf_counter() - start:8.2f} s", flush=True)
-    return result
-
-
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--items", type=int, default=20000)
     parser.add_argument("--readings", type=int, default=2000)
     args = parser.parse_args()
     rules = load_rules()
-    with tempfile.TemporaryDirectory() as folder:
-        path = Path(folder) / "register.csv"
-        make_register(args.items).to_csv(path, index=False)
-        table = resolve_names(read_register([path], **reader_options(rules)), rules)
+    table = item_table(make_register(args.items), rules)
     readings = readings_for(table, rules, args.readings)
     print(f"{args.items} items, {args.readings} readings; load average "
           f"{os.getloadavg()[0]:.1f} on {os.cpu_count()} CPUs")
