@@ -23,7 +23,7 @@ from audit.engine import solve_items
 from audit.engine.batch import take_items
 from audit.engine.cooling import freeze_time_stagnant, outlet_temperature_marched
 from audit.pipe_sizes import DEFAULT_SCHEDULE, WALL_MM_BY_SCHEDULE
-from audit.problems import Problem
+from audit.problems import Problem, problems_of
 from audit.repeats import map_values, per_distinct
 from audit.rules import Rules
 from audit.thermal import ZERO_CELSIUS, fluid_column, site_batch
@@ -221,7 +221,10 @@ def input_problems(table: pd.DataFrame, rules: Rules) -> list[tuple]:
         found.append(("reject", np.isfinite(flow) & ~np.isfinite(cp), "flow", Problem(
             "no-heat-capacity", "given, but the line's fluid is not given or has no cp in the "
             "rules", "a fluid of the rules with cp (the flow's heat capacity), or no flow")))
-        found.append(("reject", untraced(table) & (maintain > temp), "maintain", Problem(
+        # a tracing cell that could not be read is its own reason, not an untraced line
+        recorded = problems_of(table).frame
+        unread = table.index.isin(recorded.loc[recorded["column"] == "tracing", "row"])
+        found.append(("reject", untraced(table) & ~unread & (maintain > temp), "maintain", Problem(
             "maintain-above-temp", "is above the operating temperature of an untraced line",
             "at most the operating temperature, or the line's tracing")))
     found.append(("warning", traced(table) & ~np.isfinite(maintain), "maintain", Problem(

@@ -71,6 +71,16 @@ def test_bad_input_is_a_reason_naming_the_cell(tmp_path, rules):
     assert table.loc[table["tag"] == "OK", "schedule"].iloc[0] == "80"
 
 
+def test_an_unreadable_tracing_cell_is_not_taken_for_an_untraced_line(tmp_path, rules):
+    # maintain 70 degC above 60 degC: wrong only for an untraced line; this line's tracing was
+    # given but not understood, so that cell is the one reason
+    table = item_table(tmp_path, HEAD + "UNREAD,4,10,60,mineral-wool 50,aluminium-oxidised,"
+                       "electric,70,,,\n", rules)
+    assert table["status"].iloc[0] == "rejected"
+    assert table["reason"].iloc[0].startswith('tracing: "electric" is not a heat-tracing')
+    assert "maintain" not in table["reason"].iloc[0]
+
+
 def test_tracing_and_flow_on_a_vessel_are_warned_as_not_judged(tmp_path, rules):
     table = item_table(tmp_path, "tag,shape,od,length,temp,layers,jacket,tracing,maintain,flow,fluid\n"
                        "V-1,vertical-vessel,2000,5,60,mineral-wool 50,aluminium-oxidised,"
