@@ -353,6 +353,8 @@ def writing_workorders(audit, out_dir, *, caution: str, meta: dict, min_severity
     with packs_rendered(folder, tasks, workers) as packs:
         yield written
     written += packs
+    tasks.clear()  # the packs' HTML, laid out and written: not held while the CSV is made
+    give_back()
     printed = {id(o) for area_orders in plan.printed.values() for o in area_orders}
     places = location_columns(audit.table)
     csv_rows = _csv(plan.orders, files, places, printed)
@@ -502,7 +504,12 @@ def _bill(orders: list[dict]) -> list[dict]:
 def _csv(orders: list[dict], files: dict, places: list[str], printed: set) -> pd.DataFrame:
     """One row per work order (per tag; ``rows`` counts its register rows, ``source`` lists
     them); ``work_order_file`` is empty for one left off the packs."""
-    rows = []
+    columns = ["work_order_key", "tag", "area_code", "priority", "checks", "remedy", "remedy_material",
+               "remedy_thickness [mm]", *QUANTITY_COLUMNS[:4], "valve_covers", "flange_covers",
+               *QUANTITY_COLUMNS[4:], *PLANNING_COLUMNS, "sequence", "rows", "first_reported",
+               "source", "work_order_file",
+               *[c for c in places if c != "area_code"]]
+    rows = []  # a tuple per order in column order: a dict each was this writer's peak
     for o in orders:
         q = defaultdict(float)
         for item in o["quantities"]:
@@ -519,7 +526,7 @@ def _csv(orders: list[dict], files: dict, places: list[str], printed: set) -> pd
         thickest = max(insulation, key=lambda x: x["thickness_mm"], default=None)
         location = dict(o["location"])
         plan = {**o["planning"], "planning_note": "; ".join(o["planning"]["notes"])}
-        rows.append({
+        row = {
             "work_order_key": plan["key"],
             "tag": o["tag"], "area_code": o["area"], "priority": o["priority"],
             "checks": ";".join(dict.fromkeys(f["check"] for f in o["findings"])),
@@ -534,13 +541,10 @@ def _csv(orders: list[dict], files: dict, places: list[str], printed: set) -> pd
             "work_order_file": "workorders/" + files[o["area"]] if id(o) in printed else "",
             "first_reported": min((f["first_reported"] for f in o["findings"]), default=""),
             **{c: location.get(c, "") for c in places if c != "area_code"},
-        })
-    columns = ["work_order_key", "tag", "area_code", "priority", "checks", "remedy", "remedy_material",
-               "remedy_thickness [mm]", *QUANTITY_COLUMNS[:4], "valve_covers", "flange_covers",
-               *QUANTITY_COLUMNS[4:], *PLANNING_COLUMNS, "sequence", "rows", "source",
-               "work_order_file",
-               *[c for c in places if c != "area_code"]]
-    if any(r["first_reported"] for r in rows):  # with --history: the item's oldest finding
-        columns.insert(columns.index("source"), "first_reported")
-    return pd.DataFrame(rows, columns=columns)
+        }
+        rows.append(tuple(row[c] for c in columns))
+    frame = pd.DataFrame.from_records(rows, columns=columns)
+    if not frame["first_reported"].astype(bool).any():  # only with --history
+        frame = frame.drop(columns="first_reported")
+    return frame
 
