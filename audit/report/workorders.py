@@ -509,7 +509,7 @@ def _csv(orders: list[dict], files: dict, places: list[str], printed: set) -> pd
                *QUANTITY_COLUMNS[4:], *PLANNING_COLUMNS, "sequence", "rows", "first_reported",
                "source", "work_order_file",
                *[c for c in places if c != "area_code"]]
-    rows = []  # a tuple per order in column order: a dict each was this writer's peak
+    rows = []  # a tuple per order in column order (a dict each would hold every key again)
     for o in orders:
         q = defaultdict(float)
         for item in o["quantities"]:
