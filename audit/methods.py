@@ -32,7 +32,10 @@ METHODS: tuple[Method, ...] = (
     Method("conductivity k(T)",
            "piecewise-linear tables; each layer carries G·∫k dT (the Kirchhoff transform), exact "
            "for piecewise-linear k, never k at a guessed mean temperature; beyond a table k "
-           "continues with the end segment's slope and the item carries a warning",
+           "continues with the end segment's slope, except below a material marked "
+           "`below_data = \"hold\"`, which keeps its first row's k there (an upper bound, for "
+           "materials whose published data stop short of cryogenic service); either way the "
+           "item carries a warning",
            "Carslaw & Jaeger, *Conduction of Heat in Solids*, 2nd ed., §1.7"),
     Method("vessels",
            "shell + two heads; hemispherical heads are spherical walls; a 2:1 ellipsoidal head "

@@ -250,7 +250,8 @@ def _listing(named: dict) -> str:
 def conductivity_tables(rules: Rules) -> tuple[ConductivityTables, dict[str, int]]:
     """All rule materials as one :class:`ConductivityTables`, and the name -> index map."""
     names = sorted(rules.materials)
-    tables = ConductivityTables([rules.materials[n].k for n in names], names)
+    tables = ConductivityTables([rules.materials[n].k for n in names], names,
+                                [rules.materials[n].below_data == "hold" for n in names])
     return tables, {n: i for i, n in enumerate(names)}
 
 

@@ -10,8 +10,12 @@ exact closed forms: no conductivity "at a guessed mean temperature" is needed.
 
 Beyond a table's ends the conductivity continues linearly with the slope of the end
 segment.  At the hot end this follows the usual rise of apparent conductivity with
-temperature (radiation inside the insulation) and errs towards more heat loss; a caller
-flags every item whose layers leave their table (see :meth:`ConductivityTables.outside`).
+temperature (radiation inside the insulation) and errs towards more heat loss.  Below its
+first row a table may instead *hold* that row's conductivity (``hold_below``): the apparent
+conductivity of an insulation falls as it gets colder (gas conduction and radiation inside
+it both fall), so the held value is an upper bound there, for a material whose data stop
+short of the cold service it is used on.  A caller flags every item whose layers leave
+their table's data either way (see :meth:`ConductivityTables.outside`).
 Where the extrapolated conductivity would reach zero, :meth:`ConductivityTables.phi_inverse`
 returns NaN instead of a temperature, and the solver reports the item as not converged.
 
@@ -44,6 +48,9 @@ class ConductivityTables:
         temperature; any other table only over its own temperature range.
     names : sequence of str, optional
         Material names, for messages.
+    hold_below : sequence of bool, optional
+        Per table: below its first row, hold that row's conductivity instead of continuing
+        the first segment's slope.  Default: continue the slope for every table.
 
     Notes
     -----
@@ -63,11 +70,13 @@ class ConductivityTables:
     0.0475
     """
 
-    def __init__(self, tables: Sequence, names: Sequence[str] | None = None):
+    def __init__(self, tables: Sequence, names: Sequence[str] | None = None,
+                 hold_below: Sequence[bool] | None = None):
         self.names = list(names) if names is not None else [f"table {i}" for i in range(len(tables))]
-        if len(self.names) != len(tables):
-            raise EngineInputError("names and tables differ in length",
-                                   value=(len(self.names), len(tables)))
+        hold = [False] * len(tables) if hold_below is None else [bool(h) for h in hold_below]
+        if len(self.names) != len(tables) or len(hold) != len(tables):
+            raise EngineInputError("names, tables and hold_below differ in length",
+                                   value=(len(self.names), len(tables), len(hold)))
         seg_t0, seg_k0, seg_slope, seg_phi0, seg_table = [], [], [], [], []
         first, last, t_min, t_max = [], [], [], []
         for index, (name, table) in enumerate(zip(self.names, tables)):
@@ -76,8 +85,15 @@ class ConductivityTables:
             if constant:  # one segment of zero slope
                 temps = np.array([temps[0], temps[0] + 1.0])
                 ks = np.array([ks[0], ks[0]])
+            data_min = temps[0]
+            if hold[index] and not constant and temps[0] > 0.0:
+                # A flat segment from absolute zero up to the first row, its potential
+                # counted back from that row so Phi stays 0 there.
+                temps = np.concatenate(([0.0], temps))
+                ks = np.concatenate(([ks[0]], ks))
             slope = np.diff(ks) / np.diff(temps)
             phi = np.concatenate(([0.0], np.cumsum(0.5 * (ks[1:] + ks[:-1]) * np.diff(temps))))
+            phi -= np.interp(data_min, temps, phi)
             first.append(len(seg_t0))
             seg_t0.extend(temps[:-1])
             seg_k0.extend(ks[:-1])
@@ -85,7 +101,7 @@ class ConductivityTables:
             seg_phi0.extend(phi[:-1])
             seg_table.extend([index] * (temps.size - 1))
             last.append(len(seg_t0) - 1)
-            t_min.append(0.0 if constant else temps[0])
+            t_min.append(0.0 if constant else data_min)
             t_max.append(np.inf if constant else temps[-1])
         self._t0 = np.asarray(seg_t0, float)
         self._k0 = np.asarray(seg_k0, float)
@@ -94,8 +110,9 @@ class ConductivityTables:
         seg_table = np.asarray(seg_table, int)
         self._first = np.asarray(first, int)
         self._last = np.asarray(last, int)
-        self.t_min = np.asarray(t_min, float)
-        self.t_max = np.asarray(t_max, float)
+        self.t_min = np.asarray(t_min, float)   #: first row of each table's data [K]
+        self.t_max = np.asarray(t_max, float)   #: last row of each table's data [K]
+        self.hold_below = np.asarray(hold, bool)
         self._t_breaks = self._t0 + seg_table * _T_SPAN
         # Potential breakpoints: offset each table by more than the potential can span
         # between 0 K and _T_SPAN, so blocks never overlap.

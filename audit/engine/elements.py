@@ -367,6 +367,15 @@ def _failure_reasons(items, e, sol, tables) -> list[str]:
     return out
 
 
+def _beyond_data_warning(name, low, high, held) -> str:
+    """The note for an item with a layer of ``name`` outside its data (``low``..``high`` [K])."""
+    span = f"({low - 273.15:g} to {high - 273.15:g} degC)"
+    if held:
+        return (f"conductivity of {name} beyond its data {span}: held at its {low - 273.15:g} degC "
+                "value below it (an upper bound: no data there), extrapolated above it")
+    return f"conductivity of {name} extrapolated beyond its data {span}"
+
+
 def _warnings(n, e, sol, tables, present) -> np.ndarray:
     """Layers whose temperature span leaves their conductivity data, and correlations that
     ran outside their published ranges (:data:`audit.engine.surface.VALIDITY_FLAGS`)."""
@@ -382,9 +391,9 @@ def _warnings(n, e, sol, tables, present) -> np.ndarray:
     ranged = np.flatnonzero(sol.validity)
     if rows.size == 0 and ranged.size == 0:
         return out
-    text = np.array([f"conductivity of {name} extrapolated beyond its data "
-                     f"({lo - 273.15:g} to {hi - 273.15:g} degC)"
-                     for name, lo, hi in zip(tables.names, tables.t_min, tables.t_max)]
+    text = np.array([_beyond_data_warning(name, lo, hi, held)
+                     for name, lo, hi, held in zip(tables.names, tables.t_min, tables.t_max,
+                                                   tables.hold_below)]
                     + [surface.validity_warning(*flag) for flag in surface.VALIDITY_FLAGS],
                     dtype=object)
     # One note per (item, material) and per (item, range left), materials first: each item's

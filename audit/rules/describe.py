@@ -24,8 +24,10 @@ def describe_rules(rules: Rules) -> str:
         temps = [t - C for t, _ in m.k]
         ks = [k for _, k in m.k]
         wet = "" if math.isnan(m.wet_factor) else f"; wet x{m.wet_factor:g}"
-        return (f"k {min(ks):.4g}-{max(ks):.4g} W/(m K) over {min(temps):.0f} to {max(temps):.0f} degC; "
-                f"max {m.max_temp - C:.0f} degC{wet}")
+        held = f" (held below {min(temps):.0f} degC)" if m.below_data == "hold" else ""
+        low = "" if math.isnan(m.min_temp) else f"min {m.min_temp - C:.0f} degC, "
+        return (f"k {min(ks):.4g}-{max(ks):.4g} W/(m K) over {min(temps):.0f} to {max(temps):.0f} degC"
+                f"{held}; {low}max {m.max_temp - C:.0f} degC{wet}")
 
     section("Materials", rules.materials, material)
     section("Jackets", rules.jackets, lambda j: f"emissivity {j.emissivity:g}, {j.surface} surface")

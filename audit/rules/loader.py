@@ -62,6 +62,7 @@ SCHEMA = {
         "wet_factor": (quantity("dimensionless", "dimensionless", low=1.0), False),
         "wet_source": (text, False),
         "density": (quantity("kg/m**3", "kg/m**3", low=0.0, low_open=True), False),
+        "below_data": (choice("extend", "hold"), False),
         "source": (text, True),
     }),
     "jacket": (Jacket, {

@@ -17,6 +17,7 @@ class Material:
     wet_factor: float = float("nan")  #: conductivity multiplier when wet [-]
     wet_source: str = ""
     density: float = float("nan")    #: [kg/m3]
+    below_data: str = "extend"       #: below the first k row: "extend" its slope or "hold" it
     origin: str = ""                 #: file that defined it
 
 

@@ -104,3 +104,62 @@ def test_a_face_at_the_end_row_within_rounding_is_not_extrapolated():
     tables = ConductivityTables([[(77.15, 0.0135), (200.0, 0.0201)]])
     assert not tables.outside(np.array([0]), np.array([77.15 - 1e-9]), np.array([150.0]))[0]
     assert tables.outside(np.array([0]), np.array([77.15 - 1e-3]), np.array([150.0]))[0]
+
+
+# --- holding the first row's conductivity below a table (materials with below_data = "hold")
+# The tables here are invented, for the arithmetic only.
+COLD_TABLE = [(200.0, 0.030), (250.0, 0.036), (300.0, 0.040)]
+
+
+def test_held_table_keeps_its_first_row_below_and_its_data_range():
+    held, extended = ConductivityTables([COLD_TABLE, COLD_TABLE], hold_below=[True, False]).conductivity(
+        np.array([0, 1]), np.array([80.0, 80.0]))
+    assert held == pytest.approx(0.030, rel=1e-15)
+    # Extended: the first segment's slope (1.2e-4 W/(m K^2)) carried 120 K further down.
+    assert extended == pytest.approx(0.030 - 1.2e-4 * 120.0, rel=1e-12)
+    tables = ConductivityTables([COLD_TABLE], hold_below=[True])
+    assert tables.t_min[0] == 200.0 and tables.t_max[0] == 300.0
+    assert tables.outside(np.array([0]), np.array([80.0]), np.array([250.0]))[0]
+    assert not tables.outside(np.array([0]), np.array([200.0]), np.array([250.0]))[0]
+
+
+def test_held_table_is_unchanged_inside_its_data_and_above_it():
+    held = ConductivityTables([COLD_TABLE], hold_below=[True])
+    plain = ConductivityTables([COLD_TABLE])
+    t = np.linspace(200.0, 600.0, 41)
+    zero = np.zeros(t.size, int)
+    np.testing.assert_allclose(held.conductivity(zero, t), plain.conductivity(zero, t), rtol=1e-15)
+    np.testing.assert_allclose(held.phi(zero, t), plain.phi(zero, t), rtol=1e-12, atol=1e-15)
+
+
+def test_held_phi_below_the_table_is_the_constant_times_the_span():
+    # Phi counts from the first row, so below it Phi = -k_first * (T_first - T) exactly.
+    tables = ConductivityTables([COLD_TABLE], hold_below=[True])
+    t = np.array([1.0, 77.0, 150.0, 199.0])
+    np.testing.assert_allclose(tables.phi(np.zeros(4, int), t), -0.030 * (200.0 - t), rtol=1e-12)
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.floats(min_value=0.5, max_value=599.0))
+def test_held_phi_inverse_undoes_phi_below_and_above(temperature):
+    tables = ConductivityTables([COLD_TABLE], hold_below=[True])
+    table = np.array([0])
+    back = tables.phi_inverse(table, tables.phi(table, np.array([temperature])))
+    # 1e-9 K: the round trip's float error, far below any temperature that matters.
+    assert back[0] == pytest.approx(temperature, abs=1e-9)
+
+
+@settings(max_examples=200, deadline=None)
+@given(cold=st.floats(min_value=1.0, max_value=199.0), warm=st.floats(min_value=200.0, max_value=320.0))
+def test_holding_never_lowers_the_mean_conductivity_of_a_rising_table(cold, warm):
+    # The held value is an upper bound below a table whose conductivity rises with
+    # temperature, so a layer spanning the table's end conducts at least as much held.
+    tables = ConductivityTables([COLD_TABLE, COLD_TABLE], hold_below=[True, False])
+    held, extended = tables.mean_conductivity(np.array([0, 1]), np.array([cold, cold]),
+                                              np.array([warm, warm]))
+    assert held >= extended
+
+
+def test_hold_below_must_name_every_table():
+    with pytest.raises(EngineInputError, match="hold_below"):
+        ConductivityTables([COLD_TABLE, COLD_TABLE], hold_below=[True])

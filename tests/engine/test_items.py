@@ -432,3 +432,21 @@ def test_solving_at_several_thicknesses_is_solving_at_each():
     hot = got[0].converged & (one.t_process > one.t_air + 50) & (one.bare_fraction == 0) \
         & (one.fitting_length == 0)
     assert (np.abs(got[2].heat_loss[hot]) < np.abs(got[0].heat_loss[hot])).all()
+
+
+def test_a_held_conductivity_says_so_in_the_warnings():
+    # Invented table; the layer's cold face at -150 degC lies below its first row (-73.15 degC).
+    cold = [(C - 73.15, 0.030), (C + 24.0, 0.040)]
+    tables = ConductivityTables([cold], ["foam-x"], hold_below=[True])
+    batch = ItemBatch(
+        shape=np.array([PIPE]), od=np.array([0.1143]), length=np.array([1.0]), area=np.array([np.nan]),
+        heads=np.array([0]), orientation=np.array([0]), t_process=np.array([C - 150.0]),
+        t_air=np.array([C + 20.0]), t_surroundings=np.array([C + 20.0]), wind=np.array([0.0]),
+        emissivity=np.array([0.9]), bare_emissivity=np.array([0.9]),
+        layer_table=np.array([[0]]), layer_thickness=np.array([[0.05]]),
+        layer_factor=np.array([[1.0]]), bare_fraction=np.array([0.0]),
+        fitting_length=np.array([0.0]))
+    states = solve_items(batch, tables)
+    assert states.converged[0]
+    assert "conductivity of foam-x beyond its data (-73.15 to 24 degC): held at its -73.15 degC" \
+        in states.warnings[0]

@@ -85,6 +85,8 @@ def test_later_folders_win(tmp_path):
     ('[widgets.x]\nsize = 1\n', "unknown section"),
     ('[defaults]\nsite = "nowhere"\n', "not defined"),
     ('[material.x]\nk = [[50, 0.04]]\nmax_temp = 600\nwet_factor = 2\nsource = "s"\n', "wet_source"),
+    ('[material.x]\nk = [[50, 0.04]]\nmax_temp = 600\nbelow_data = "clamp"\nsource = "s"\n',
+     "below_data.*not one of extend, hold"),
 ])
 def test_invalid_rule_files_name_the_file_and_key(tmp_path, text, words):
     folder = write(tmp_path / "bad", "broken.toml", text)
