@@ -63,7 +63,7 @@ def test_unknown_key_names_the_key_and_the_allowed_ones(rules_refused):
     err = rules_refused(RULES / "unknown_key")
     assert (f"{RULES / 'unknown_key' / 'plant.toml'}, column 'material.plant-foam.colour': "
             "unknown key 'colour'; expected one of k, max_temp, min_temp, wet_factor, "
-            "wet_source, density, source") in err
+            "wet_source, density, below_data, source") in err
 
 
 def test_unknown_section(rules_refused):
