@@ -69,7 +69,9 @@ def reconcile(readings: pd.DataFrame, table: pd.DataFrame, rules: Rules, *,
     pandas.DataFrame
         ``readings`` with ``status`` (``matched``/``rejected``/``unknown tag``), ``reason``
         and ``warnings`` brought up to date, and :data:`ADDED`: the register row's index
-        label (-1: none) and source; kelvin, watts and the factor [-], NaN where not known.
+        label (-1: none) and source; kelvin, watts and the factor [-], NaN where not known;
+        and ``conditions_from``: ``reading`` where the reading recorded its own air, wind or
+        humidity, else the item's (its location's name, or ``plant``); empty if unmatched.
     """
     tables = conductivity_tables(rules) if tables is None else tables
     prepared = prepare_items(table, rules, tables[1]) if prepared is None else prepared
@@ -81,6 +83,7 @@ def reconcile(readings: pd.DataFrame, table: pd.DataFrame, rules: Rules, *,
     position = _match(out, table, status, reason, warning)
     for name in ADDED[2:]:
         out[name] = np.full(n, np.nan)
+    out["conditions_from"] = np.full(n, "", dtype=object)
     out["item_row"] = np.where(position >= 0, table.index.to_numpy()[np.maximum(position, 0)], -1)
     out["item_source"] = np.where(position >= 0, table["source"].to_numpy(object)[
         np.maximum(position, 0)], "")
@@ -192,6 +195,12 @@ def _figures(out, matched, rows, prepared, rules, conductivity, surface_model,
     out.loc[out.index[matched], "wind_used_m_s"] = conditions["wind_m_s"]
     out.loc[out.index[matched], "rh_used_pct"] = conditions["rh_pct"]
     out.loc[out.index[matched], "surroundings_temp_K"] = conditions["surroundings_temp_K"]
+    # "reading" where the reading recorded a condition of its own; else whose the item's were.
+    own = np.zeros(matched.size, bool)
+    for column in ("ambient_K", "wind_m_s", "rh_pct"):
+        own |= np.isfinite(out[column].to_numpy(float)[matched])
+    out.loc[out.index[matched], "conditions_from"] = np.where(
+        own, "reading", conditions["conditions_from"])
     uninsulated = ~insulated & ~outside
     for k in np.flatnonzero(uninsulated):
         _add(warning, matched[k], "surface_temp: the item is registered without insulation; "

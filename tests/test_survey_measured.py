@@ -18,7 +18,7 @@ from hypothesis import strategies as st
 from audit.io.readers import read_rows
 from audit.pipeline import audit_table
 from audit.survey import item_factors, reconcile
-from audit.thermal import resolve_names
+from audit.thermal import conductivity_tables, prepare_items, resolve_names, site_batch
 from support import readings
 
 HEADER = ["tag", "shape", "nps", "length", "temp", "layers", "jacket", "location", "accessible"]
@@ -180,3 +180,18 @@ def test_a_survey_finding_shows_the_reading_conditions(rules):
     assert row["air_temp [degC]"] == pytest.approx(7.0)
     assert row["wind [m/s]"] == pytest.approx(4.5)
     assert row["rh [%]"] == pytest.approx(50.0)
+
+
+def test_a_reading_without_conditions_of_its_own_says_whose_stood_in(rules):
+    # A reading that recorded no air, wind or humidity is judged at the item's own conditions,
+    # and its finding says whose they were (the item's site), not "reading".
+    table = table_of(rules, ["P-1", "pipe", "4", "20", "250", "mineral-wool 50mm",
+                             "aluminium-oxidised", "outdoor", "yes"])
+    given = readings(("P-1", 0.0, np.nan, np.nan, 0.9)).assign(rh_pct=np.nan)
+    plain = reconcile(given.assign(surface_temp_K=300.0), table, rules)
+    hot_reading = plain.loc[0, "predicted_temp_K"] + 20.0
+    found = audit_table(table, rules, readings=given.assign(surface_temp_K=hot_reading)).findings
+    row = found[found["check"] == "survey-deviation"].iloc[0]
+    _, own = site_batch(prepare_items(table, rules, conductivity_tables(rules)[1]), rules, None)
+    assert row["conditions_from"] == own["conditions_from"][0] != "reading"
+    assert row["air_temp [degC]"] == pytest.approx(own["air_temp_K"][0] - 273.15)

@@ -4,7 +4,8 @@ registered by more than the rule's margin.
 Judged per item on its worst reading (the one furthest on the side of more heat through the
 insulation: hotter on a hot item, colder on a cold one), at the reading's own conditions
 (:mod:`audit.survey`), which its findings' air, wind, humidity and surroundings columns show
-(``conditions_from`` = ``reading``).  A reading beyond the margin is classed by its condition factor against
+(``conditions_from`` = ``reading``, or whose conditions stood in for a reading that recorded
+none).  A reading beyond the margin is classed by its condition factor against
 the rule's ``classes`` (rows of [factor at least, word]); each class has its severity and
 remedy.  A reading no factor reproduces (hotter than bare metal would be) takes the last class;
 one on the other side of the prediction takes the rule's ``cooler`` word, severity info.
@@ -56,7 +57,7 @@ def evaluate(context, check, params):
                        "predicted": predicted[flagged] - ZERO_CELSIUS,
                        "readings": count[keep], "source": survey["source"].to_numpy(object)[flagged],
                        "date": survey["date"].to_numpy(object)[flagged]},
-                   conditions={"conditions_from": np.full(keep.size, "reading", dtype=object),
+                   conditions={"conditions_from": survey["conditions_from"].to_numpy(object)[flagged],
                                **{name: survey[name].to_numpy(float)[flagged] for name in (
                                    "air_temp_K", "surroundings_temp_K")},
                                "wind_m_s": survey["wind_used_m_s"].to_numpy(float)[flagged],
