@@ -189,7 +189,8 @@ def result_columns(context, params: dict) -> pd.DataFrame:
     """The results' cold-weather columns: ``tracing_needed`` and ``time_to_freeze`` as the
     first enabled ``tracing-shortfall`` and ``freeze-risk`` checks judge them (their design
     case and parameters; NaN without such a check), ``outlet_temp`` at each item's own
-    conditions (NaN where not computed; a line that never freezes is NaN too)."""
+    conditions and, for a surveyed line, its whole-item condition (NaN where not computed; a
+    line that never freezes is NaN too)."""
     checks = {}
     for check in context.rules.checks.values():
         if check.enabled:
@@ -202,7 +203,8 @@ def result_columns(context, params: dict) -> pd.DataFrame:
     if (check := checks.get("freeze-risk")) is not None:
         seconds = freeze_times(context, check.site, params[check.name]["frozen_share"])
         hours = np.where(np.isfinite(seconds), seconds / 3600.0, np.nan)
-    outlet = outlet_temperatures(context, "") - ZERO_CELSIUS
+    # The outlet sums the loss along the run: a surveyed line at its mean condition.
+    outlet = outlet_temperatures(context.for_whole_item(), "") - ZERO_CELSIUS
     return pd.DataFrame(dict(zip(COLUMNS, (needed, hours, outlet))))
 
 

@@ -195,3 +195,22 @@ def test_a_reading_without_conditions_of_its_own_says_whose_stood_in(rules):
     _, own = site_batch(prepare_items(table, rules, conductivity_tables(rules)[1]), rules, None)
     assert row["conditions_from"] == own["conditions_from"][0] != "reading"
     assert row["air_temp [degC]"] == pytest.approx(own["air_temp_K"][0] - 273.15)
+
+
+def test_the_outlet_temperature_follows_the_mean_condition_not_the_worst_spot(rules):
+    # The drop along a run sums the loss of every metre, so a line read at a hot spot and a
+    # mild one is judged at the mean of their factors: its outlet lies between the outlets
+    # each reading alone would give (and is not the hot spot's, as a spot check would be).
+    header = HEADER + ["fluid", "flow"]
+    table = resolve_names(read_rows(header, [[
+        "F-1", "pipe", "6", "600", "80", "mineral-wool 40mm", "aluminium-oxidised", "outdoor",
+        "yes", "water", "5"]], name="reg.csv", aliases=rules.aliases), rules)
+    assert (table["status"] == "ok").all(), table["reason"].tolist()
+    base = predicted(rules, table, "F-1", 10.0, 3.0, 0.9)
+    hot, mild = ("F-1", base + 12.0, 10.0, 3.0, 0.9), ("F-1", base + 4.0, 10.0, 3.0, 0.9)
+    rules = with_margin(rules, 0)
+    outlet = {name: audit_table(table, rules, readings=readings(*given)).results.loc[
+        0, "outlet_temp [degC]"] for name, given in (
+        ("both", (hot, mild)), ("hot", (hot,)), ("mild", (mild,)))}
+    plain = audit_table(table, rules).results.loc[0, "outlet_temp [degC]"]
+    assert outlet["hot"] < outlet["both"] < outlet["mild"] < plain

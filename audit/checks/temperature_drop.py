@@ -4,7 +4,9 @@ below its ``maintain`` temperature under the check's site (the cold design day).
 The outlet temperature (:func:`audit.coldweather.outlet_temperatures`) is marched along the run
 from the operating temperature with the engine's heat loss at each temperature, for lines with
 a ``flow`` and a fluid with ``cp``.  Traced lines are ``tracing-shortfall``'s.  Thicker
-insulation raises the outlet temperature (the remedy search).
+insulation raises the outlet temperature (the remedy search).  The drop sums the loss along
+the whole run, so a line a field survey measured is judged at its readings' mean condition
+(``whole_item``), not at its worst spot.
 """
 
 from __future__ import annotations
@@ -49,6 +51,6 @@ KIND = CheckKind(
     evaluate=evaluate,
     word=word,
     params={},
-    fixable_by_insulation=True,
+    fixable_by_insulation=True, whole_item=True,
     description="flowing, untraced line whose outlet temperature falls below its maintain "
                 "temperature under the check's design case")
