@@ -52,6 +52,9 @@ class Verdict:
     #: (a field reading's own): ``conditions_from``, ``air_temp_K``, ``wind_m_s``,
     #: ``rh_pct``, ``surroundings_temp_K``; else None
     conditions: dict | None = None
+    #: per row, False where insulation cannot fix that row although it can fix the kind's
+    #: others (a tracer whose output the rules do not know); else None
+    fixable: object = None
 
 
 @dataclass
@@ -88,7 +91,9 @@ class CheckKind:
         message, remedy = self.word(context, check, params, verdict)
         return findings(context, check, verdict.rows, value=verdict.value, limit=verdict.limit,
                         unit=verdict.unit, message=message, remedy=remedy,
-                        fixable=self.fixable_by_insulation, severity=verdict.severity,
+                        fixable=self.fixable_by_insulation if verdict.fixable is None else
+                        self.fixable_by_insulation & np.asarray(verdict.fixable, bool),
+                        severity=verdict.severity,
                         limit_source=verdict.limit_source, conditions=verdict.conditions)
 
 

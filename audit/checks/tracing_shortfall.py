@@ -31,7 +31,9 @@ def evaluate(context, check, params):
     with np.errstate(invalid="ignore"):
         fails = judged & ((output < needed) | ~np.isfinite(output))
     failing = np.flatnonzero(fails)
+    # No thickness can make an output nobody knows suffice: the rules need the tracer first.
     return Verdict(failing, value=output[failing], limit=needed[failing], unit="W/m",
+                   fixable=np.isfinite(output[failing]),
                    facts={"kind": table["tracing"].to_numpy(object)[failing],
                           "size": table["tracer_nps"].to_numpy(float)[failing],
                           "maintain": table["maintain_K"].to_numpy(float)[failing]})

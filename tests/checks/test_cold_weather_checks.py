@@ -131,3 +131,21 @@ def test_the_tracing_remedy_is_the_smallest_standard_thickness_that_suffices(tmp
                      [line.format(tag="AT", layers=f"{material} {mm:g}mm"),
                       line.format(tag="THINNER", layers=f"{material} {thinner:g}mm")])
     assert set(at["tag"]) == {"THINNER"}
+
+
+def test_an_unknown_tracer_is_sent_to_the_rules_not_to_a_thickness(tmp_path, rules):
+    # No thickness can make an output nobody knows suffice: the finding asks for the tracer's
+    # data and offers no insulation, while a known tracer on the same table still gets one.
+    from audit.pipeline import audit_table
+    line = "{tag},4,100,60,mineral-wool 25,aluminium-oxidised,outdoor,{tracing},50,,"
+    table = item_table(tmp_path, HEAD + "\n".join([
+        line.format(tag="UNKNOWN", tracing="steam 1in"),
+        line.format(tag="KNOWN", tracing="electric 20 W/m")]) + "\n", rules)
+    found = audit_table(table, rules).findings
+    found = found[found["check"] == "tracing-shortfall"].set_index("tag")
+    unknown, known = found.loc["UNKNOWN"], found.loc["KNOWN"]
+    assert not unknown["fixable_by_insulation"] and known["fixable_by_insulation"]
+    assert unknown["remedy"].startswith("add the tracer's conductance")
+    assert "standard thickness" not in unknown["remedy"] and unknown["remedy_action"] == ""
+    assert np.isnan(unknown["remedy_thickness [mm]"])
+    assert known["remedy_action"] == "insulate"
