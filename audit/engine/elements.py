@@ -371,8 +371,8 @@ def _beyond_data_warning(name, low, high, held) -> str:
     """The note for an item with a layer of ``name`` outside its data (``low``..``high`` [K])."""
     span = f"({low - 273.15:g} to {high - 273.15:g} degC)"
     if held:
-        return (f"conductivity of {name} beyond its data {span}: held at its {low - 273.15:g} degC "
-                "value below it (an upper bound: no data there), extrapolated above it")
+        return (f"conductivity of {name} beyond its data {span}: below it, held at the "
+                f"{low - 273.15:g} degC value (an upper bound: no data there); above it, extended")
     return f"conductivity of {name} extrapolated beyond its data {span}"
 
 

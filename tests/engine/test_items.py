@@ -448,5 +448,5 @@ def test_a_held_conductivity_says_so_in_the_warnings():
         fitting_length=np.array([0.0]))
     states = solve_items(batch, tables)
     assert states.converged[0]
-    assert "conductivity of foam-x beyond its data (-73.15 to 24 degC): held at its -73.15 degC" \
-        in states.warnings[0]
+    assert "conductivity of foam-x beyond its data (-73.15 to 24 degC): below it, held at the " \
+        "-73.15 degC value (an upper bound" in states.warnings[0]
