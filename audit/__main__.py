@@ -1,3 +1,6 @@
-from audit.cli import main
 import sys
-sys.exit(main())
+
+from audit.cli import main
+
+if __name__ == "__main__":  # not when a worker process imports this module
+    sys.exit(main())
