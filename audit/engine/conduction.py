@@ -86,14 +86,14 @@ class ConductivityTables:
                 temps = np.array([temps[0], temps[0] + 1.0])
                 ks = np.array([ks[0], ks[0]])
             data_min = temps[0]
-            if hold[index] and not constant and temps[0] > 0.0:
-                # A flat segment from absolute zero up to the first row, its potential
-                # counted back from that row so Phi stays 0 there.
+            held = hold[index] and not constant and data_min > 0.0
+            if held:  # a flat segment from absolute zero up to the first row
                 temps = np.concatenate(([0.0], temps))
                 ks = np.concatenate(([ks[0]], ks))
             slope = np.diff(ks) / np.diff(temps)
             phi = np.concatenate(([0.0], np.cumsum(0.5 * (ks[1:] + ks[:-1]) * np.diff(temps))))
-            phi -= np.interp(data_min, temps, phi)
+            if held:  # Phi counted from the first row of data, as for every other table
+                phi -= phi[1]
             first.append(len(seg_t0))
             seg_t0.extend(temps[:-1])
             seg_k0.extend(ks[:-1])
